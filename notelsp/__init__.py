@@ -1,0 +1,3 @@
+"""notelsp: checks the bonding claims in lab notes."""
+
+__version__ = "0.1.0"

@@ -1,0 +1,104 @@
+"""The rule registry.
+
+A rule is a function decorated with :func:`rule`.  Its docstring is its
+documentation: the first line a title, the rest a short explanation of the
+chemistry, shown in hover and in the README's rule list.  A rule receives a
+:class:`RuleContext` for one claim (or, with ``claims=()``, for the whole
+annotation) and yields findings made with :meth:`RuleContext.finding`.
+
+Rule modules are imported at the bottom of this file so that registering
+happens once, in one place.
+"""
+
+from __future__ import annotations
+
+import inspect
+from collections.abc import Callable, Iterable, Iterator
+from dataclasses import dataclass
+from typing import Any
+
+from ...notation.model import Annotation, Claim, Span
+from ..findings import Finding, Fix, Severity
+
+Check = Callable[["RuleContext"], Iterable[Finding]]
+
+
+@dataclass(frozen=True, slots=True)
+class Rule:
+    code: str
+    title: str
+    doc: str
+    severity: Severity
+    claims: tuple[type[Claim], ...]  # claim types it checks; () means once per annotation
+    check: Check
+
+
+RULES: dict[str, Rule] = {}
+
+
+def rule(code: str, *, severity: Severity, claims: tuple[type[Claim], ...] = ()) -> Callable[[Check], Check]:
+    """Register ``check`` as the rule ``code``."""
+
+    def register(check: Check) -> Check:
+        if code in RULES:
+            raise ValueError(f"rule {code!r} registered twice")
+        doc = inspect.cleandoc(check.__doc__ or "")
+        title, _, explanation = doc.partition("\n")
+        if not title:
+            raise ValueError(f"rule {code!r} has no docstring")
+        RULES[code] = Rule(code, title.strip(), explanation.strip(), severity, claims, check)
+        return check
+
+    return register
+
+
+@dataclass(frozen=True, slots=True)
+class RuleContext:
+    """What a rule sees: one annotation, one claim of it, and the analyses."""
+
+    rule: Rule
+    annotation: Annotation
+    claim: Claim | None
+    analyses: tuple[Any, ...]  # one SpeciesAnalysis per formula of the annotation
+    settings: Any  # notelsp.review.settings.Settings
+
+    @property
+    def analysis(self) -> Any:
+        return self.analyses[0] if self.analyses else None
+
+    def finding(
+        self,
+        message: str,
+        *,
+        fixes: Iterable[Fix] = (),
+        span: Span | None = None,
+    ) -> Finding:
+        claim = self.claim
+        where = span or (claim.span if claim else self.annotation.span)
+        formula = self.annotation.formula
+        return Finding(
+            code=self.rule.code,
+            severity=self.settings.severity_of(self.rule),
+            message=message,
+            span=where,
+            formula=" vs ".join(f.text for f in self.annotation.formulas) if formula else "",
+            claim=claim.text if claim else None,
+            fixes=tuple(fixes),
+        )
+
+    def replace_claim(self, replacement: str, title: str | None = None) -> Fix:
+        """A fix that rewrites just this claim."""
+        assert self.claim is not None
+        return Fix(title or f"Replace with '{replacement}'", self.claim.span, replacement)
+
+
+def rules_for(claim: Claim | None) -> Iterator[Rule]:
+    for candidate in RULES.values():
+        if claim is None and not candidate.claims:
+            yield candidate
+        elif claim is not None and isinstance(claim, candidate.claims):
+            yield candidate
+
+
+# Registering happens on import; every rule module is listed here.
+from . import notation  # noqa: E402,F401

@@ -1,0 +1,78 @@
+"""Rules for problems in the notation itself (reported by the scanner)."""
+
+from __future__ import annotations
+
+from collections.abc import Iterator
+
+from ...notation.model import NotationError
+from ..findings import Finding, Fix, Severity
+from . import RuleContext, rule
+
+
+def _errors_with_code(context: RuleContext) -> Iterator[Finding]:
+    for error in context.annotation.errors:
+        if error.code == context.rule.code:
+            yield _as_finding(context, error)
+
+
+def _as_finding(context: RuleContext, error: NotationError) -> Finding:
+    fixes = ()
+    if error.suggestion is not None:
+        fixes = (Fix(f"Replace with '{error.suggestion}'", error.span, error.suggestion),)
+    return context.finding(error.message, span=error.span, fixes=fixes)
+
+
+@rule("unknown-claim", severity=Severity.ERROR)
+def unknown_claim(context: RuleContext) -> Iterator[Finding]:
+    """A claim the notation does not know.
+
+    Claims are chemistry's own words: shape names, hybridization labels,
+    placements, polarity, angles and so on (see the README).  The closest known
+    word is offered as a fix when there is one.
+    """
+    yield from _errors_with_code(context)
+
+
+@rule("unknown-element", severity=Severity.ERROR)
+def unknown_element(context: RuleContext) -> Iterator[Finding]:
+    """A formula names an element that does not exist.
+
+    Symbols are case-sensitive: ``Cl`` is chlorine, ``CL`` is not a symbol.
+    """
+    yield from _errors_with_code(context)
+
+
+@rule("malformed-formula", severity=Severity.ERROR)
+def malformed_formula(context: RuleContext) -> Iterator[Finding]:
+    """A formula that cannot be read: a stray character, an unclosed bracket, a zero count.
+
+    The range points at the first character that does not fit.
+    """
+    yield from _errors_with_code(context)
+
+
+@rule("malformed-claim", severity=Severity.ERROR)
+def malformed_claim(context: RuleContext) -> Iterator[Finding]:
+    """A claim whose words are known but whose form is not: an angle without a value, an empty claim.
+
+    The message says what form was expected.
+    """
+    yield from _errors_with_code(context)
+
+
+@rule("impossible-count", severity=Severity.ERROR)
+def impossible_count(context: RuleContext) -> Iterator[Finding]:
+    """A count no species can have: a negative number of lone pairs, an angle above 180 degrees.
+
+    Such a number is a typing slip rather than a chemical claim.
+    """
+    yield from _errors_with_code(context)
+
+
+@rule("formula-too-large", severity=Severity.ERROR)
+def formula_too_large(context: RuleContext) -> Iterator[Finding]:
+    """A formula beyond the bounds the tool analyses (counts, charge, nesting or length).
+
+    The bounds keep every check fast; real molecular species fall well inside them.
+    """
+    yield from _errors_with_code(context)
