@@ -8,13 +8,14 @@ process by the analyser's own cache.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
-from functools import lru_cache
+from dataclasses import dataclass
+from functools import cached_property, lru_cache
 from typing import Any, Literal
 
 from ..chem import analyse
 from ..notation import scan
 from ..notation.model import Annotation, ScannedDocument, Span
+from ..positions import LineIndex
 from .findings import Finding, Fix
 from .rules import RuleContext, rules_for
 from .settings import Settings
@@ -27,7 +28,9 @@ class DocumentReview:
     text: str
     scanned: ScannedDocument
     findings: tuple[Finding, ...]
-    _analyses: dict[int, tuple[Any, ...]] = field(default_factory=dict, repr=False, compare=False)
+    @cached_property
+    def line_index(self) -> LineIndex:
+        return LineIndex(self.text)
 
     @property
     def annotations(self) -> tuple[Annotation, ...]:
@@ -43,7 +46,8 @@ class DocumentReview:
         return None
 
     def findings_in(self, span: Span) -> tuple[Finding, ...]:
-        return tuple(f for f in self.findings if f.span.start < span.end and span.start < f.span.end or f.span == span)
+        """Findings whose range overlaps ``span`` (touching counts, so empty ranges are found)."""
+        return tuple(f for f in self.findings if f.span.start <= span.end and span.start <= f.span.end)
 
 
 def kind_of_path(path: str) -> DocumentKind:

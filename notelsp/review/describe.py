@@ -1,0 +1,109 @@
+"""Words for people: the Markdown shown in hover, by ``explain`` and in the README.
+
+Pure text assembly from analyses, findings and rule docs; no chemistry is
+decided here.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from ..notation.model import Annotation
+from .document import DocumentReview
+from .rules import RULES
+
+SAFETY_NOTE = (
+    "Predictions are not safety data: follow the safety data sheet, local rules and licensed practice."
+)
+
+
+def _angles(values: Any) -> str:
+    if not values:
+        return "—"
+    if isinstance(values, dict):
+        return ", ".join(f"{name} {value:g}°" for name, value in values.items())
+    return ", ".join(f"{value:g}°" for value in values)
+
+
+def centre_markdown(centre: Any) -> str:
+    """A compact description of one centre."""
+    lines = [
+        f"**Centre {centre.central}** — {centre.valence_electrons} valence electrons, "
+        f"steric number {centre.steric_number} ({centre.bonded_atoms} bonded, "
+        f"{centre.lone_pairs} lone pair{'s' if centre.lone_pairs != 1 else ''}"
+        + (f", {centre.odd_electrons} odd electron" if getattr(centre, "odd_electrons", 0) else "")
+        + ")",
+        f"- electron geometry: {centre.electron_geometry}",
+        f"- shape: {centre.shape}",
+        f"- hybridization: {centre.hybridization}" + _coulson_suffix(centre),
+        f"- ideal angles: {_angles(getattr(centre, 'ideal_angles', None))}",
+    ]
+    drago = getattr(centre, "drago", None)
+    if drago is not None:
+        lines.append(f"- Drago's rule: {_summary(drago)}")
+    bent = getattr(centre, "bent", None)
+    if bent is not None and _summary(bent):
+        lines.append(f"- Bent's rule: {_summary(bent)}")
+    isomers = getattr(centre, "isomers", ())
+    if len(isomers) > 1 or (isomers and any(s.label != isomers[0].sites[0].label for s in isomers[0].sites)):
+        lines.append(f"- isomers ({len(isomers)}), expected first:")
+        for isomer in isomers:
+            polarity = "polar" if isomer.polar else "nonpolar"
+            chiral = ", chiral" if isomer.chiral else ""
+            lines.append(f"  {isomer.rank}. {isomer.name} — {isomer.point_group}, {polarity}{chiral} ({isomer.reason})")
+    elif isomers:
+        isomer = isomers[0]
+        lines.append(f"- point group {isomer.point_group}, {'polar' if isomer.polar else 'nonpolar'}")
+    for note in getattr(centre, "notes", ()):
+        lines.append(f"- {note}")
+    return "\n".join(lines)
+
+
+def _coulson_suffix(centre: Any) -> str:
+    coulson = getattr(centre, "coulson", None)
+    text = _summary(coulson) if coulson is not None else ""
+    return f" ({text})" if text else ""
+
+
+def _summary(value: Any) -> str:
+    """Prefer an object's own one-line summary; fall back to its string form."""
+    summary = getattr(value, "summary", None)
+    if callable(summary):
+        return summary()
+    if isinstance(summary, str):
+        return summary
+    return str(value) if value else ""
+
+
+def species_markdown(analysis: Any) -> str:
+    """Everything the analyser says about one species."""
+    parts = [f"### {analysis.formula}" + (f" (charge {analysis.charge:+d})" if analysis.charge else "")]
+    if analysis.outside_model:
+        parts.append(f"Outside the model: {analysis.outside_model}")
+    for centre in analysis.centres:
+        parts.append(centre_markdown(centre))
+    if analysis.cautions:
+        parts.append("\n".join(f"> ⚠ {c}" for c in analysis.cautions))
+    return "\n\n".join(parts)
+
+
+def hover_markdown(review: DocumentReview, annotation: Annotation, offset: int) -> str:
+    """Hover text for a position inside an annotation."""
+    parts = [species_markdown(a) for a in review.analyses_of(annotation)]
+    findings = review.findings_in(annotation.span)
+    if findings:
+        parts.append("---")
+        for finding in findings:
+            rule = RULES.get(finding.code)
+            parts.append(f"**{finding.code}** ({finding.severity.value}): {finding.message}")
+            if rule and rule.doc:
+                parts.append(rule.doc)
+    return "\n\n".join(parts)
+
+
+def rules_markdown() -> str:
+    """The rule list for the README: code, default severity, title and explanation."""
+    parts = []
+    for rule in RULES.values():
+        parts.append(f"#### `{rule.code}` ({rule.severity.value})\n\n{rule.title}" + (f"\n\n{rule.doc}" if rule.doc else ""))
+    return "\n\n".join(parts)

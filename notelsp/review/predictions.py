@@ -1,0 +1,42 @@
+"""What the analysis predicts, as short text for editors: inlay hints,
+document symbols and the "add the predicted description" fix.
+
+Pure; reads a ``SpeciesAnalysis`` from ``notelsp.chem`` and writes nothing
+of its own chemistry.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from ..notation.model import Annotation, Span
+from .findings import Fix
+
+
+def predicted_shape(analysis: Any) -> str | None:
+    """The VSEPR shape name of the species' first centre, or None outside the model."""
+    if analysis is None or getattr(analysis, "outside_model", None):
+        return None
+    centres = analysis.centres
+    if not centres or centres[0].shape is None:
+        return None
+    shape = centres[0].shape
+    return str(getattr(shape, "value", shape))
+
+
+def written_shape(shape: str) -> str:
+    """A hyphenated shape name as a note writes it ("trigonal-pyramidal" -> "trigonal pyramidal")."""
+    return shape if shape in ("t-shaped", "see-saw") else shape.replace("-", " ")
+
+
+def predicted_description_fix(annotation: Annotation, analysis: Any) -> Fix | None:
+    """For a bare ``{FORMULA}``: insert ``: <predicted shape>`` after the formula."""
+    formula = annotation.formula
+    if annotation.claims or annotation.errors or formula is None or annotation.is_comparison:
+        return None
+    shape = predicted_shape(analysis)
+    if shape is None:
+        return None
+    words = written_shape(shape)
+    end = annotation.body.end
+    return Fix(f"Add the predicted description: {words}", Span(end, end), f": {words}")

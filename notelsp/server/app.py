@@ -1,0 +1,119 @@
+"""The language server object: held documents, settings, feature registration.
+
+Handlers live in one small module per feature (``notelsp.server.<feature>``),
+each with ``register(server)``; this module only builds the server and holds
+what they share.  No chemistry here: reviews come from ``notelsp.review``.
+"""
+
+from __future__ import annotations
+
+import asyncio
+import importlib
+import logging
+from dataclasses import dataclass
+from pathlib import Path
+from urllib.parse import unquote, urlparse
+
+from lsprotocol import types
+from pygls.lsp.server import LanguageServer
+
+from .. import __version__
+from ..review.document import DocumentReview, kind_of_path
+from ..review.settings import Settings
+from ..review.workspace import cached_review, is_reviewed
+from .positions import LineIndex, line_index
+
+log = logging.getLogger("notelsp.server")
+
+# Registered in this order; optional modules are skipped when they cannot be imported.
+FEATURES = (
+    "lifecycle",
+    "configuration",
+    "diagnostics",
+    "hover",
+    "code_actions",
+    "completion",
+    "inlay_hints",
+    "symbols",
+)
+OPTIONAL_FEATURES = ("crosscheck",)
+
+
+@dataclass(frozen=True)
+class HeldDocument:
+    """One open document as the server sees it, with its review."""
+
+    uri: str
+    version: int | None
+    text: str
+    index: LineIndex
+    review: DocumentReview | None  # None when the file type is not reviewed or the review failed
+
+
+class NoteServer(LanguageServer):
+    def __init__(self) -> None:
+        super().__init__("notelsp", __version__, text_document_sync_kind=types.TextDocumentSyncKind.Incremental)
+        self.settings = Settings()
+        self.file_settings: Settings | None = None  # from .notelsp.toml, the base editor settings apply over
+        self.root: Path | None = None
+        self.pending: dict[str, asyncio.Task] = {}  # uri -> its scheduled diagnostics publication
+
+    # --- shared helpers for the feature modules ---------------------------------
+
+    def encoding(self) -> str:
+        encoding = self.workspace.position_encoding or types.PositionEncodingKind.Utf16
+        return str(getattr(encoding, "value", encoding))
+
+    def relative_path(self, uri: str) -> str | None:
+        """The document's path relative to the workspace root (or its name), None for non-file URIs."""
+        parsed = urlparse(uri)
+        if parsed.scheme not in ("file", ""):
+            return Path(unquote(parsed.path)).name or None
+        path = Path(unquote(parsed.path))
+        if self.root is not None:
+            try:
+                return path.resolve().relative_to(self.root.resolve()).as_posix()
+            except ValueError:
+                pass
+        return path.name
+
+    def is_reviewed(self, uri: str) -> bool:
+        relative = self.relative_path(uri)
+        return relative is not None and is_reviewed(relative, self.settings)
+
+    def open_document(self, uri: str):
+        """The open text document, or None (never read from disk)."""
+        return self.workspace.text_documents.get(unquote(uri))
+
+    def held(self, uri: str) -> HeldDocument | None:
+        """The open document with its (cached) review; reviews on demand."""
+        document = self.open_document(uri)
+        if document is None:
+            return None
+        text = document.source
+        review = None
+        if self.is_reviewed(uri):
+            try:
+                review = cached_review(text, kind_of_path(self.relative_path(uri) or uri), self.settings)
+            except Exception:
+                log.exception("review of %s failed", uri)
+        return HeldDocument(uri, document.version, text, line_index(text, self.encoding()), review)
+
+    def show(self, message: str, kind: types.MessageType = types.MessageType.Warning) -> None:
+        log.warning("%s", message)
+        self.window_log_message(types.LogMessageParams(type=kind, message=message))
+        self.window_show_message(types.ShowMessageParams(type=kind, message=message))
+
+
+def build_server() -> NoteServer:
+    server = NoteServer()
+    for name in FEATURES:
+        importlib.import_module(f"{__package__}.{name}").register(server)
+    for name in OPTIONAL_FEATURES:
+        try:
+            module = importlib.import_module(f"{__package__}.{name}")
+        except ImportError:
+            log.info("optional feature %s is not available", name)
+            continue
+        module.register(server)
+    return server

@@ -1,0 +1,97 @@
+"""Settings: ``.notelsp.toml`` at the workspace root, then the editor's "notelsp" section over it.
+
+Reading the file is the server's job (I/O at the edge); parsing is
+``notelsp.review.settings``.  Problems are shown to the user and the
+defaults kept: a bad config never stops the server.
+"""
+
+from __future__ import annotations
+
+import logging
+from collections.abc import Mapping
+
+from lsprotocol import types
+
+from ..review.settings import Settings, settings_from_mapping, settings_from_toml
+from .app import NoteServer
+
+log = logging.getLogger("notelsp.server")
+CONFIG_FILE = ".notelsp.toml"
+SECTION = "notelsp"
+
+
+def _file_settings(ls: NoteServer) -> tuple[Settings, list[str]]:
+    if ls.root is None:
+        return Settings(), []
+    path = ls.root / CONFIG_FILE
+    try:
+        text = path.read_text(encoding="utf-8")
+    except FileNotFoundError:
+        return Settings(), []
+    except (OSError, UnicodeDecodeError) as error:
+        return Settings(), [f"cannot read {path}: {error}"]
+    return settings_from_toml(text)
+
+
+async def _editor_values(ls: NoteServer) -> Mapping | None:
+    capabilities = ls.client_capabilities.workspace
+    if capabilities is None or not capabilities.configuration:
+        return None
+    try:
+        answer = await ls.workspace_configuration_async(
+            types.ConfigurationParams(items=[types.ConfigurationItem(section=SECTION)])
+        )
+    except Exception as error:  # a client that fails the request still gets a working server
+        log.warning("workspace/configuration failed: %s", error)
+        return None
+    value = answer[0] if answer else None
+    if isinstance(value, Mapping) and isinstance(value.get("review"), Mapping):
+        value = value["review"]  # accept {"notelsp": {"review": {...}}} as well as the flat form
+    return value if isinstance(value, Mapping) else None
+
+
+async def reload_settings(ls: NoteServer) -> None:
+    settings, problems = _file_settings(ls)
+    problems = [f"{CONFIG_FILE}: {p}" for p in problems]
+    values = await _editor_values(ls)
+    if values:
+        settings, more = settings_from_mapping(values, settings)
+        problems += [f"editor setting {SECTION}: {p}" for p in more]
+    ls.settings = settings
+    if problems:
+        ls.show("notelsp settings problem (defaults kept for these): " + "; ".join(problems))
+    from .diagnostics import refresh_all
+
+    refresh_all(ls)
+
+
+async def watch_config_file(ls: NoteServer) -> None:
+    watched = ls.client_capabilities.workspace and ls.client_capabilities.workspace.did_change_watched_files
+    if not (watched and watched.dynamic_registration):
+        return
+    options = types.DidChangeWatchedFilesRegistrationOptions(
+        watchers=[types.FileSystemWatcher(glob_pattern=f"**/{CONFIG_FILE}")]
+    )
+    try:
+        await ls.client_register_capability_async(
+            types.RegistrationParams(
+                registrations=[
+                    types.Registration(
+                        id="notelsp-config", method=types.WORKSPACE_DID_CHANGE_WATCHED_FILES, register_options=options
+                    )
+                ]
+            )
+        )
+    except Exception as error:
+        log.info("client refused to watch %s: %s", CONFIG_FILE, error)
+
+
+def register(server: NoteServer) -> None:
+    @server.feature(types.WORKSPACE_DID_CHANGE_CONFIGURATION)
+    async def changed_configuration(ls: NoteServer, params: types.DidChangeConfigurationParams) -> None:
+        await reload_settings(ls)
+
+    @server.feature(types.WORKSPACE_DID_CHANGE_WATCHED_FILES)
+    async def changed_files(ls: NoteServer, params: types.DidChangeWatchedFilesParams) -> None:
+        if any(change.uri.endswith(CONFIG_FILE) for change in params.changes):
+            await reload_settings(ls)

@@ -1,0 +1,93 @@
+"""Code-point offsets <-> LSP positions in the negotiated encoding.
+
+The review layer speaks code-point offsets into the whole text; LSP speaks
+(line, character) where ``character`` counts UTF-16 code units by default,
+or UTF-8 bytes / UTF-32 code points when negotiated.  Lines end at ``\\n``,
+``\\r\\n`` or a lone ``\\r`` (the LSP definition).
+"""
+
+from __future__ import annotations
+
+from bisect import bisect_right
+from dataclasses import dataclass
+from functools import lru_cache
+
+from lsprotocol import types
+
+from ..notation.model import Span
+
+UTF8, UTF16, UTF32 = "utf-8", "utf-16", "utf-32"
+
+
+def units_of(char: str, encoding: str) -> int:
+    """Code units one code point takes in ``encoding``."""
+    if encoding == UTF32:
+        return 1
+    point = ord(char)
+    if encoding == UTF8:
+        return 1 if point < 0x80 else 2 if point < 0x800 else 3 if point < 0x10000 else 4
+    return 2 if point > 0xFFFF else 1
+
+
+def _line_starts(text: str) -> tuple[int, ...]:
+    starts = [0]
+    index, length = 0, len(text)
+    while index < length:
+        char = text[index]
+        if char == "\r":
+            if index + 1 < length and text[index + 1] == "\n":
+                index += 1
+            starts.append(index + 1)
+        elif char == "\n":
+            starts.append(index + 1)
+        index += 1
+    return tuple(starts)
+
+
+@dataclass(frozen=True)
+class LineIndex:
+    """Where each line of ``text`` starts, for converting positions both ways."""
+
+    text: str
+    encoding: str
+    starts: tuple[int, ...]
+
+    def _line_end(self, line: int) -> int:
+        """Offset of the line's terminator (or the end of the text)."""
+        end = self.starts[line + 1] if line + 1 < len(self.starts) else len(self.text)
+        while end > self.starts[line] and self.text[end - 1] in "\r\n":
+            end -= 1
+        return end
+
+    def position(self, offset: int) -> types.Position:
+        offset = max(0, min(offset, len(self.text)))
+        line = bisect_right(self.starts, offset) - 1
+        start = self.starts[line]
+        if self.encoding == UTF32:
+            character = offset - start
+        else:
+            character = sum(units_of(c, self.encoding) for c in self.text[start:offset])
+        return types.Position(line=line, character=character)
+
+    def offset(self, position: types.Position) -> int:
+        """Code-point offset of ``position``; columns past the line's end clamp to it."""
+        if position.line >= len(self.starts):
+            return len(self.text)
+        start, end = self.starts[position.line], self._line_end(position.line)
+        remaining, offset = position.character, start
+        while offset < end and remaining > 0:
+            remaining -= units_of(self.text[offset], self.encoding)
+            offset += 1
+        return offset
+
+    def range(self, span: Span) -> types.Range:
+        return types.Range(start=self.position(span.start), end=self.position(span.end))
+
+    def span(self, range_: types.Range) -> Span:
+        return Span(self.offset(range_.start), self.offset(range_.end))
+
+
+@lru_cache(maxsize=32)
+def line_index(text: str, encoding: str = UTF16) -> LineIndex:
+    """The (cached) line index of ``text`` for ``encoding``."""
+    return LineIndex(text, str(getattr(encoding, "value", encoding)), _line_starts(text))
