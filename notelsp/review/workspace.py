@@ -8,9 +8,12 @@ from __future__ import annotations
 
 import re
 from functools import lru_cache
+from typing import TYPE_CHECKING
 
-from .document import DocumentKind, DocumentReview, review_text
 from .settings import Settings
+
+if TYPE_CHECKING:
+    from .document import DocumentKind, DocumentReview
 
 REVIEWED_SUFFIXES = (".md", ".markdown", ".txt")
 
@@ -47,6 +50,8 @@ def is_reviewed(relative_path: str, settings: Settings) -> bool:
 
 
 @lru_cache(maxsize=64)
-def cached_review(text: str, kind: DocumentKind, settings: Settings) -> DocumentReview:
+def cached_review(text: str, kind: "DocumentKind", settings: Settings) -> "DocumentReview":
     """``review_text`` memoised: hover, actions and hints on an unchanged text share one review."""
+    from .document import review_text  # file selection above stays importable without the analysis stack
+
     return review_text(text, kind, settings)

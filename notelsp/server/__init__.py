@@ -38,6 +38,7 @@ def run(tcp: str | None = None) -> int:
             print(f"notelsp serve: {error}", file=sys.stderr)
             return 2
     logging.basicConfig(level=logging.INFO, stream=sys.stderr, format="notelsp: %(message)s")
+    logging.getLogger("pygls").setLevel(logging.WARNING)  # it logs every message at INFO
     from .app import build_server
 
     server = build_server()

@@ -1,0 +1,270 @@
+"""The analysis of one species: each centre's electron count, VSEPR shape,
+expected angles, Coulson indices, Drago's and Bent's rules and isomers."""
+
+from __future__ import annotations
+
+import threading
+from dataclasses import dataclass
+from itertools import combinations_with_replacement
+
+from .. import elements
+from ..notation.model import Formula
+from . import isomers as isomer_module
+from .bent import BentAnalysis, bent
+from .coulson import TYPICAL_ANGLES, CoulsonAnalysis, solve_hybrids
+from .drago import DragoAnalysis, drago
+from .hazards import cautions as hazard_cautions
+from .model import Ligand
+from .species import CentreModel, build_species
+from .vsepr import SiteAngle, vsepr
+
+
+@dataclass(frozen=True, slots=True)
+class PairRange:
+    """Where the angle between two ligands (by label) is expected."""
+
+    ligands: tuple[str, str]  # sorted labels
+    relation: str  # site relation ("any", "axial-equatorial", "cis", ...)
+    ideal: float
+    low: float
+    high: float
+    direction: str  # "smaller", "larger" or "ideal" relative to the ideal angle
+    reason: str
+    estimate: float  # a single expected value (used by Coulson when nothing better is known)
+
+
+@dataclass(frozen=True, slots=True)
+class CentreAnalysis:
+    central: str
+    charge: int
+    valence_electrons: int  # the centre's valence electrons after its charge (S in SO4^2-: 8)
+    steric_number: int
+    bonded_atoms: int
+    lone_pairs: int
+    odd_electrons: int
+    ligands: tuple[Ligand, ...]
+    electron_geometry: str
+    shape: str
+    hybridization: str  # textbook label, "unhybridized" for Drago species
+    ideal_angles: tuple[float, ...]
+    angle_ranges: tuple[PairRange, ...]
+    coulson: CoulsonAnalysis | None  # None for hypervalent centres (beyond s-p hybrids)
+    drago: DragoAnalysis
+    bent: BentAnalysis
+    isomers: tuple[isomer_module.Isomer, ...]
+    notes: tuple[str, ...]
+
+    def ranges_for(self, a: str, b: str) -> tuple[PairRange, ...]:
+        """Every expected range for the angle a-centre-b (labels or element symbols)."""
+        wanted = tuple(sorted((self._label(a), self._label(b))))
+        return tuple(r for r in self.angle_ranges if r.ligands == wanted)
+
+    def angle_range(self, a: str, b: str) -> tuple[float, float] | None:
+        """The (low, high) degrees of the first expected range for a-centre-b, None if no such pair."""
+        found = self.ranges_for(a, b)
+        return (found[0].low, found[0].high) if found else None
+
+    def expected_direction(self, a: str, b: str) -> str | None:
+        found = self.ranges_for(a, b)
+        return found[0].direction if found else None
+
+    def _label(self, name: str) -> str:
+        labels = {l.label for l in self.ligands}
+        if name in labels:
+            return name
+        by_symbol = sorted({l.label for l in self.ligands if l.symbol == name})
+        return by_symbol[0] if len(by_symbol) == 1 else name
+
+
+@dataclass(frozen=True, slots=True)
+class SpeciesAnalysis:
+    formula: str
+    charge: int
+    centres: tuple[CentreAnalysis, ...]
+    outside_model: str | None
+    cautions: tuple[str, ...]
+
+    @property
+    def centre(self) -> CentreAnalysis | None:
+        return self.centres[0] if self.centres else None
+
+
+_cache: dict[tuple[str, str | None, int], SpeciesAnalysis] = {}
+_cache_lock = threading.Lock()
+_CACHE_LIMIT = 20_000
+
+
+def analyse(formula: Formula) -> SpeciesAnalysis:
+    """Analyse one species (cached by its text, explicit centre and charge)."""
+    key = (formula.text, formula.centre, formula.charge)
+    found = _cache.get(key)
+    if found is None:
+        found = _analyse(formula)
+        with _cache_lock:
+            if len(_cache) >= _CACHE_LIMIT:
+                _cache.clear()
+            _cache[key] = found
+    return found
+
+
+def _analyse(formula: Formula) -> SpeciesAnalysis:
+    composition = formula.composition()
+    known = {s: n for s, n in composition.items() if elements.is_symbol(s)}
+    caution = hazard_cautions(formula.text, known)
+    model = build_species(formula)
+    if model.outside_model is not None:
+        return SpeciesAnalysis(formula.text, formula.charge, (), model.outside_model, caution)
+    centres = []
+    for centre in model.centres:
+        analysed = _analyse_centre(centre, formula.text)
+        if isinstance(analysed, str):
+            return SpeciesAnalysis(formula.text, formula.charge, (), analysed, caution)
+        centres.append(analysed)
+    return SpeciesAnalysis(formula.text, formula.charge, tuple(centres), None, caution)
+
+
+def _analyse_centre(centre: CentreModel, formula_text: str) -> CentreAnalysis | str:
+    atom = elements.element(centre.central)
+    valence = atom.valence_electrons
+    if valence is None:
+        return f"{centre.central} has no main-group valence shell"
+    available = valence - centre.charge
+    nonbonding = available - sum(l.bond_order for l in centre.ligands)
+    if nonbonding < 0:
+        return f"{centre.central} has too few electrons for these ligands"
+    lone_pairs, odd = divmod(nonbonding, 2)
+    bonded = len(centre.ligands)
+    drago_result = drago(centre.central, atom.period, atom.group, lone_pairs, centre.ligands)
+    multiple = any(l.bond_order >= 2 for l in centre.ligands)
+    result = vsepr(bonded, lone_pairs, odd, drago=drago_result.applies, multiple_bonds=multiple)
+    if result is None:
+        return (f"{centre.central} with {bonded} bonded atoms and {lone_pairs} lone pairs has steric number "
+                f"{bonded + lone_pairs + (1 if odd else 0)}, outside the VSEPR range 2-7")
+    bent_result = bent(centre.central, centre.ligands, lone_pairs, result.steric_number)
+    ranges = _pair_ranges(centre.ligands, result.site_angles, bent_result)
+    coulson = _coulson(centre, formula_text, ranges, lone_pairs + odd, result.steric_number)
+    try:
+        found_isomers = isomer_module.isomers_for(result.electron_geometry, centre.ligands, lone_pairs)
+    except Exception as error:  # another module's failure must not stop the analysis
+        found_isomers = ()
+        extra_note = (f"isomers could not be enumerated ({type(error).__name__})",)
+    else:
+        extra_note = ()
+    return CentreAnalysis(
+        central=centre.central,
+        charge=centre.charge,
+        valence_electrons=available,
+        steric_number=result.steric_number,
+        bonded_atoms=bonded,
+        lone_pairs=lone_pairs,
+        odd_electrons=odd,
+        ligands=centre.ligands,
+        electron_geometry=result.electron_geometry,
+        shape=result.shape,
+        hybridization="unhybridized" if drago_result.applies else result.hybridization,
+        ideal_angles=tuple(sorted({a.ideal for a in result.site_angles})),
+        angle_ranges=ranges,
+        coulson=coulson,
+        drago=drago_result,
+        bent=bent_result,
+        isomers=tuple(found_isomers),
+        notes=_notes(centre, atom, lone_pairs, odd, result.steric_number, drago_result) + bent_result.notes + extra_note,
+    )
+
+
+def _label_pairs(ligands: tuple[Ligand, ...]) -> list[tuple[str, str]]:
+    counts: dict[str, int] = {}
+    for ligand in ligands:
+        counts[ligand.label] = counts.get(ligand.label, 0) + 1
+    return [p for p in combinations_with_replacement(sorted(counts), 2) if p[0] != p[1] or counts[p[0]] >= 2]
+
+
+def _pair_ranges(ligands: tuple[Ligand, ...], site_angles: tuple[SiteAngle, ...], bent_result: BentAnalysis) -> tuple[PairRange, ...]:
+    pairs = _label_pairs(ligands)
+    mixed = len({l.label for l in ligands}) > 1
+    single_relation = len(site_angles) == 1
+    out = []
+    if mixed and single_relation:
+        site = site_angles[0]
+        rank = _bent_rank(pairs, bent_result)
+        top, bottom = max(rank.values()), min(rank.values())
+        for pair in pairs:
+            if site.ideal >= 179:
+                low, high, direction = site.low, site.high, site.direction
+            elif site.direction != "ideal":  # lone pairs or an odd electron already set the direction
+                low, high, direction = site.low - 6.0, site.high + 6.0, site.direction
+            elif rank[pair] == top and top != bottom:
+                low, high, direction = site.ideal - 3.0, site.ideal + 15.0, "larger"
+            elif rank[pair] == bottom and top != bottom:
+                low, high, direction = site.ideal - 15.0, site.ideal + 3.0, "smaller"
+            else:
+                low, high, direction = site.ideal - 8.0, site.ideal + 8.0, "ideal"
+            reason = site.reason + ("; Bent's rule orders the mixed-ligand angles" if direction != site.direction else "")
+            out.append(PairRange(pair, site.relation, site.ideal, low, high, direction, reason, _estimate(site.ideal, low, high, direction)))
+        return tuple(out)
+    widen = 5.0 if mixed else 0.0
+    for pair in pairs:
+        for site in site_angles:
+            low, high = site.low - widen, min(180.0, site.high + widen)
+            out.append(PairRange(pair, site.relation, site.ideal, low, high, site.direction, site.reason,
+                                 _estimate(site.ideal, site.low, site.high, site.direction)))
+    return tuple(out)
+
+
+def _estimate(ideal: float, low: float, high: float, direction: str) -> float:
+    """One expected value: a modest step from the ideal in the expected direction, inside the range."""
+    if direction == "ideal" and low <= ideal <= high:
+        return ideal
+    if direction in ("larger", "smaller") and low <= ideal <= high:
+        step = 3.0 if direction == "larger" else -3.0
+        return min(max(ideal + step, low), high)
+    return (low + high) / 2
+
+
+def _bent_rank(pairs: list[tuple[str, str]], bent_result: BentAnalysis) -> dict[tuple[str, str], int]:
+    rank = {pair: 0 for pair in pairs}
+    for order in bent_result.angle_orders:
+        larger = tuple(sorted((order.larger[0], order.larger[2])))
+        smaller = tuple(sorted((order.smaller[0], order.smaller[2])))
+        if larger in rank and smaller in rank:
+            rank[larger] += 1
+            rank[smaller] -= 1
+    return rank
+
+
+def _coulson(centre: CentreModel, formula_text: str, ranges: tuple[PairRange, ...], nonbonding: int,
+             steric_number: int) -> CoulsonAnalysis | None:
+    if steric_number > 4:
+        return None  # s and p alone cannot describe five or more domains
+    counts: dict[str, int] = {}
+    for ligand in centre.ligands:
+        counts[ligand.label] = counts.get(ligand.label, 0) + 1
+    typical = TYPICAL_ANGLES.get(formula_text)
+    if typical and all(tuple(sorted(p)) in {tuple(sorted(k)) for k in typical} for p in _label_pairs(centre.ligands)):
+        angles = {tuple(sorted(k)): v for k, v in typical.items() if set(k) <= set(counts)}
+        source = "typical (ASE G2 set, Curtiss et al. 1997)"
+    else:
+        angles = {}
+        for r in ranges:
+            angles.setdefault(r.ligands, r.estimate)
+        source = "predicted range midpoint"
+    return solve_hybrids(counts, angles, nonbonding, source)
+
+
+def _notes(centre: CentreModel, atom: elements.Element, lone_pairs: int, odd: int, steric_number: int,
+           drago_result: DragoAnalysis) -> tuple[str, ...]:
+    notes = []
+    if odd:
+        notes.append(f"{centre.central} carries an odd electron (a radical): it counts as a half domain")
+    if drago_result.applies:
+        notes.append("Drago's rule: the lone pair is s-rich and held low, so it is a weaker donor (base) "
+                     "than in the period-2 analogue")
+    elif lone_pairs and steric_number == 4 and atom.period == 2:
+        notes.append(f"the lone pair{'s' if lone_pairs > 1 else ''} on {centre.central} can donate: a Lewis base")
+    electrons_around = 2 * sum(l.bond_order for l in centre.ligands) + 2 * lone_pairs + odd
+    if atom.group in (2, 13) and electrons_around < 8 and not lone_pairs:
+        notes.append(f"{centre.central} has fewer than eight electrons: an empty orbital makes it a Lewis acid")
+    if steric_number >= 5:
+        notes.append("more than four domains: textbook sp3d/sp3d2 labels are a bookkeeping convention; "
+                     "the bonding is better described with three-centre four-electron bonds")
+    return tuple(notes)

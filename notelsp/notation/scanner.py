@@ -1,0 +1,117 @@
+"""Find every annotation in a document and place its parse at the right offsets.
+
+A brace group is an annotation when it begins with an element symbol (or '['
+for a bracketed ion) and either contains ':' or reads cleanly as a formula.
+Everything else in braces (``{a, b}``, ``{#id .class}``, LaTeX arguments) is
+left alone.  Bodies are parsed through the position-free cache of
+:func:`notelsp.notation.transform.parse_body` and shifted into place.
+"""
+
+from __future__ import annotations
+
+from typing import Literal
+
+from .. import elements
+from .markdown import Segment, line_starts, markdown_structure
+from .model import Annotation, ScannedDocument, Span
+from .transform import MAX_BODY_CHARS, ParsedBody, parse_body, shifted
+
+DocumentKind = Literal["markdown", "text"]
+
+# A brace right after these belongs to something else: \frac{a}, x_{i}, x^{2}, }{.
+_NOT_BEFORE_ANNOTATION = set("\\_^}$") | set("abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789")
+
+
+def scan(text: str, kind: DocumentKind = "markdown") -> ScannedDocument:
+    """Every annotation in ``text``, with code-point offsets into it."""
+    if kind == "markdown":
+        structure = markdown_structure(text)
+        segments, bonding_lines = structure.segments, structure.bonding_lines
+    else:
+        segments, bonding_lines = _text_segments(text), ()
+    annotations = [annotation for segment in segments for annotation in _inline_annotations(segment)]
+    annotations.extend(annotation for line in bonding_lines if (annotation := _block_annotation(text, line)))
+    annotations.sort(key=lambda annotation: annotation.span.start)
+    return ScannedDocument(tuple(annotations))
+
+
+def _text_segments(text: str) -> tuple[Segment, ...]:
+    if "{" not in text:
+        return ()
+    starts = line_starts(text)
+    segments = []
+    for index, start in enumerate(starts):
+        end = starts[index + 1] - 1 if index + 1 < len(starts) else len(text)
+        if text.find("{", start, end) != -1:
+            segments.append(Segment(start, text[start:end].rstrip("\r")))
+    return tuple(segments)
+
+
+def _skipped(position: int, skips: tuple[tuple[int, int], ...]) -> bool:
+    return any(start <= position < end for start, end in skips)
+
+
+def _begins_with_element(body: str) -> bool:
+    head = body.lstrip()
+    return head.startswith("[") or elements.is_symbol(head[:2]) or elements.is_symbol(head[:1])
+
+
+def _inline_annotations(segment: Segment) -> list[Annotation]:
+    text, found = segment.text, []
+    opening, closing = text.find("{"), -1
+    while opening != -1:
+        if closing < opening:  # reuse the last '}' while it is still ahead: linear in the line
+            closing = text.find("}", opening + 1)
+            if closing == -1:
+                break
+        inner = text.find("{", opening + 1, closing)
+        if inner != -1:  # nested braces: only the innermost group can be an annotation
+            opening = inner
+            continue
+        annotation = _inline_candidate(segment, opening, closing)
+        if annotation is not None:
+            found.append(annotation)
+            opening = text.find("{", closing + 1)
+        else:
+            opening = text.find("{", opening + 1)
+    return found
+
+
+def _inline_candidate(segment: Segment, opening: int, closing: int) -> Annotation | None:
+    text, skips = segment.text, segment.skips
+    if opening > 0 and text[opening - 1] in _NOT_BEFORE_ANNOTATION:
+        return None
+    if _skipped(opening, skips) or _skipped(closing, skips) or any(opening < a < closing for a, _ in skips):
+        return None
+    body = text[opening + 1 : closing]
+    if not _begins_with_element(body[:8]):
+        return None
+    parsed = parse_body(body[: MAX_BODY_CHARS + 1] if len(body) > MAX_BODY_CHARS else body)
+    if not parsed.has_colon and parsed.errors and len(body) <= MAX_BODY_CHARS:
+        return None  # not a formula on its own: some other use of braces
+    start = segment.start + opening
+    return _placed(parsed, Span(start, segment.start + closing + 1), Span(start + 1, segment.start + closing), "inline")
+
+
+def _block_annotation(text: str, line: Span) -> Annotation | None:
+    content = text[line.start : line.end]
+    code = content.split("#", 1)[0]
+    if not code.strip():
+        return None
+    lead = len(code) - len(code.lstrip())
+    body = code.strip()
+    body_start = line.start + lead
+    parsed = parse_body(body[: MAX_BODY_CHARS + 1])
+    return _placed(parsed, line, Span(body_start, body_start + len(body)), "block")
+
+
+def _placed(parsed: ParsedBody, span: Span, body: Span, form: Literal["inline", "block"]) -> Annotation:
+    delta = body.start
+    return Annotation(
+        span=span,
+        body=body,
+        formulas=shifted(parsed.formulas, delta),
+        claims=shifted(parsed.claims, delta),
+        errors=shifted(parsed.errors, delta),
+        form=form,
+    )

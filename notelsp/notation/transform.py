@@ -1,0 +1,595 @@
+"""Parse trees -> the dataclasses of :mod:`notelsp.notation.model`.
+
+Everything here is position-free: spans are offsets into the string that was
+parsed (an annotation body), and the scanner shifts them into the document.
+The body parse is cached by its text, so re-scanning an edited document
+re-parses only the annotations whose text changed.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import difflib
+import re
+from dataclasses import dataclass
+from functools import cache, lru_cache
+from typing import Any
+
+from lark import Token, Tree
+from lark.exceptions import UnexpectedCharacters, UnexpectedEOF, UnexpectedInput, UnexpectedToken
+
+from .. import elements
+from .grammar import CLAIM_WORDS, parser
+from .model import (
+    AngleClaim,
+    AngleOrderClaim,
+    Atom,
+    BondLengthClaim,
+    Claim,
+    ElectronGeometryClaim,
+    Formula,
+    Group,
+    HybridizationClaim,
+    IndexClaim,
+    IsomerCountClaim,
+    LonePairClaim,
+    NotationError,
+    PlacementClaim,
+    PointGroupClaim,
+    PolarityClaim,
+    SCharacterClaim,
+    ShapeClaim,
+    Span,
+)
+
+# Bounds that keep every parse small and fast.
+MAX_COUNT = 99
+MAX_CHARGE = 8
+MAX_NESTING = 4
+MAX_FORMULA_CHARS = 64
+MAX_BODY_CHARS = 2000
+
+
+class NotationSyntaxError(ValueError):
+    """Raised by :func:`parse_formula`; carries the :class:`NotationError`."""
+
+    def __init__(self, error: NotationError) -> None:
+        super().__init__(error.message)
+        self.error = error
+
+
+@dataclass(frozen=True, slots=True)
+class ParsedBody:
+    """What one annotation body says, with spans relative to the body."""
+
+    formulas: tuple[Formula, ...]
+    claims: tuple[Claim, ...]
+    errors: tuple[NotationError, ...]
+    has_colon: bool
+
+
+# --- shared helpers -------------------------------------------------------------
+
+
+def _span(token: Token, offset: int = 0) -> Span:
+    return Span(token.start_pos + offset, token.end_pos + offset)
+
+
+def _tokens(tree: Tree | Token) -> list[Token]:
+    if isinstance(tree, Token):
+        return [tree]
+    return [token for child in tree.children for token in _tokens(child)]
+
+
+_POSITIONED_TYPES = ("Span", "Part", "Atom", "Group", "Formula", "Claim", "NotationError")
+
+
+@cache
+def _fields_of(cls: type) -> tuple[tuple[str, bool], ...]:
+    """(name, may hold a Span) for each field of ``cls``, decided once per class."""
+    return tuple(
+        (field.name, any(kind in str(field.type) for kind in _POSITIONED_TYPES)) for field in dataclasses.fields(cls)
+    )
+
+
+def shifted(value: Any, delta: int) -> Any:
+    """A copy of ``value`` (a model dataclass or a tuple of them) with every Span moved by ``delta``."""
+    if delta == 0 or value is None:
+        return value
+    if type(value) is Span:
+        return Span(value.start + delta, value.end + delta)
+    if type(value) is tuple:
+        return tuple([shifted(item, delta) for item in value])
+    # Frozen slotted dataclasses: copying field by field is several times faster than dataclasses.replace.
+    cls = type(value)
+    copy = object.__new__(cls)
+    for name, positioned in _fields_of(cls):
+        item = getattr(value, name)
+        object.__setattr__(copy, name, shifted(item, delta) if positioned else item)
+    return copy
+
+
+def _syntax_error(code: str, text: str, error: UnexpectedInput, offset: int, what: str) -> NotationError:
+    """A NotationError at the exact character lark stopped on."""
+    if isinstance(error, UnexpectedCharacters):
+        position = error.pos_in_stream
+        return NotationError(code, f"unexpected '{text[position]}' in {what} '{text.strip()}'", Span(offset + position, offset + position + 1))
+    token = getattr(error, "token", None)
+    if isinstance(error, UnexpectedToken) and token is not None and token.type != "$END" and token.start_pos is not None:
+        return NotationError(code, f"unexpected '{token}' in {what} '{text.strip()}'", _span(token, offset))
+    opener = _unclosed_bracket(text)
+    if opener is not None:
+        return NotationError(code, f"unclosed '{text[opener]}' in {what} '{text.strip()}'", Span(offset + opener, offset + opener + 1))
+    end = len(text.rstrip())
+    return NotationError(code, f"{what} '{text.strip()}' ends too early", Span(offset + max(end - 1, 0), offset + end))
+
+
+def _unclosed_bracket(text: str) -> int | None:
+    stack: list[int] = []
+    for index, char in enumerate(text):
+        if char in "([":
+            stack.append(index)
+        elif char in ")]" and stack:
+            stack.pop()
+    return stack[-1] if stack else None
+
+
+# --- formulas -------------------------------------------------------------------
+
+_SUBSCRIPTS = str.maketrans("₀₁₂₃₄₅₆₇₈₉⁰¹²³⁴⁵⁶⁷⁸⁹", "01234567890123456789")
+
+
+def _number_of(text: str) -> int:
+    return int(text.translate(_SUBSCRIPTS))
+
+
+def _symbol_suggestion(symbol: str, previous: Atom | None) -> tuple[str, Span] | None:
+    """'CL' lexes as C + L: suggest the two-letter symbol the writer meant."""
+    if len(symbol) == 1 and previous is not None and len(previous.symbol) == 1:
+        joined = previous.symbol + symbol.lower()
+        if elements.is_symbol(joined):
+            return joined, previous.span
+    return None
+
+
+class _FormulaBuilder:
+    """Walks one ``species`` tree, collecting parts and every problem in it."""
+
+    def __init__(self, text: str, offset: int) -> None:
+        self.text = text
+        self.offset = offset
+        self.errors: list[NotationError] = []
+
+    def error(self, code: str, message: str, span: Span, suggestion: str | None = None) -> None:
+        self.errors.append(NotationError(code, message, span, suggestion))
+
+    def count(self, tree: Tree | None) -> int:
+        if tree is None:
+            return 1
+        token = tree.children[0]
+        value = _number_of(token)
+        if value == 0:
+            self.error("malformed-formula", f"count 0 in '{self.text.strip()}'", _span(token, self.offset))
+        elif value > MAX_COUNT:
+            self.error("formula-too-large", f"count {value} is above {MAX_COUNT}", _span(token, self.offset))
+        return value
+
+    def parts(self, tree: Tree, depth: int) -> tuple[Atom | Group, ...]:
+        built: list[Atom | Group] = []
+        for part in tree.children:
+            if part.data == "atom":
+                built.append(self.atom(part, built[-1] if built and isinstance(built[-1], Atom) else None))
+            else:
+                built.append(self.group(part, depth + 1))
+        return tuple(built)
+
+    def atom(self, tree: Tree, previous: Atom | None) -> Atom:
+        token = tree.children[0]
+        count_tree = tree.children[1] if len(tree.children) > 1 else None
+        count = self.count(count_tree)
+        end = count_tree.children[0].end_pos if count_tree is not None else token.end_pos
+        span = Span(token.start_pos + self.offset, end + self.offset)
+        if not elements.is_symbol(str(token)):
+            self.unknown_symbol(str(token), _span(token, self.offset), previous)
+        return Atom(str(token), count, span)
+
+    def unknown_symbol(self, symbol: str, span: Span, previous: Atom | None) -> None:
+        fix = _symbol_suggestion(symbol, previous)
+        if fix is not None:
+            suggestion, previous_span = fix
+            self.error(
+                "unknown-element",
+                f"unknown element '{previous.symbol}{symbol}'; did you mean '{suggestion}'?",
+                Span(previous_span.start, span.end),
+                suggestion,
+            )
+        else:
+            self.error("unknown-element", f"unknown element '{symbol}'", span)
+
+    def group(self, tree: Tree, depth: int) -> Group:
+        opener, inner, closer = tree.children[0], tree.children[1], tree.children[2]
+        if depth == MAX_NESTING + 1:  # reported once, at the first group too deep
+            self.error("formula-too-large", f"groups nested deeper than {MAX_NESTING} levels", _span(opener, self.offset))
+        count_tree = tree.children[3] if len(tree.children) > 3 else None
+        count = self.count(count_tree)
+        end = count_tree.children[0].end_pos if count_tree is not None else closer.end_pos
+        return Group(self.parts(inner, depth), count, Span(opener.start_pos + self.offset, end + self.offset))
+
+    def charge(self, tree: Tree | None) -> int:
+        if tree is None:
+            return 0
+        magnitude, sign = 1, 1
+        for token in tree.children:
+            if token.type in ("DIGITS", "SUPDIGITS"):
+                magnitude = _number_of(token)
+            elif token.type in ("SIGN", "SUPSIGN"):
+                sign = 1 if str(token) in "+⁺" else -1
+        first, last = tree.children[0], tree.children[-1]
+        span = Span(first.start_pos + self.offset, last.end_pos + self.offset)
+        if magnitude == 0:
+            self.error("malformed-formula", "charge 0 written with a sign", span)
+        elif magnitude > MAX_CHARGE:
+            self.error("formula-too-large", f"charge {magnitude} is above {MAX_CHARGE}", span)
+        if " " in self.text[first.end_pos : last.start_pos] or "\t" in self.text[first.end_pos : last.start_pos]:
+            self.error("malformed-formula", "space inside a charge", span)
+        return sign * magnitude
+
+    def formula(self, tree: Tree, centre_tree: Tree | None) -> Formula:
+        bracketed = tree.data == "bracketed"
+        children = tree.children
+        parts_tree = children[1] if bracketed else children[0]
+        charge_tree = next((c for c in children if isinstance(c, Tree) and c.data == "charge"), None)
+        parts = self.parts(parts_tree, 0)
+        charge = self.charge(charge_tree)
+        tokens = _tokens(tree)
+        start, end = tokens[0].start_pos, tokens[-1].end_pos
+        core_end = (charge_tree.children[0].start_pos if charge_tree is not None else end)
+        self.check_spaces(start, core_end)
+        written = self.text[start:end]
+        span = Span(start + self.offset, end + self.offset)
+        if len(written) > MAX_FORMULA_CHARS:
+            self.error("formula-too-large", f"formula longer than {MAX_FORMULA_CHARS} characters", span)
+        centre = None
+        if centre_tree is not None:
+            centre_token = centre_tree.children[1]
+            centre = str(centre_token)
+            if not elements.is_symbol(centre):
+                self.error("unknown-element", f"unknown element '{centre}'", _span(centre_token, self.offset))
+            elif all(centre not in _symbols(part) for part in parts):
+                self.error("malformed-formula", f"centre '{centre}' is not in '{written}'", _span(centre_token, self.offset))
+        return Formula(written, parts, charge, span, centre, bracketed)
+
+    def check_spaces(self, start: int, end: int) -> None:
+        core = self.text[start:end].rstrip()
+        match = re.search(r"\s", core)
+        if match is not None:
+            at = start + match.start() + self.offset
+            self.error("malformed-formula", f"space inside formula '{core}'", Span(at, at + 1))
+
+
+def _symbols(part: Atom | Group) -> set[str]:
+    if isinstance(part, Atom):
+        return {part.symbol}
+    return set().union(*(_symbols(inner) for inner in part.parts))
+
+
+def parse_formulas(text: str, offset: int = 0) -> tuple[tuple[Formula, ...], tuple[NotationError, ...]]:
+    """The species written in ``text`` (one, or two around 'vs'), with spans shifted by ``offset``."""
+    if len(text) > 2 * MAX_FORMULA_CHARS + 16:
+        start = len(text) - len(text.lstrip())
+        return (), (NotationError("formula-too-large", f"formula longer than {MAX_FORMULA_CHARS} characters",
+                                  Span(offset + start, offset + len(text.rstrip()))),)
+    try:
+        tree = parser().parse(text, start="formula_spec")
+    except UnexpectedInput as error:
+        return (), (_syntax_error("malformed-formula", text, error, offset, "formula"),)
+    builder = _FormulaBuilder(text, offset)
+    formulas = []
+    for species in tree.children:
+        if isinstance(species, Token):  # 'vs'
+            continue
+        centre = species.children[1] if len(species.children) > 1 else None
+        formulas.append(builder.formula(species.children[0], centre))
+    if builder.errors:
+        return (), tuple(builder.errors)  # the chemistry only sees formulas that read cleanly
+    return tuple(formulas), ()
+
+
+def parse_formula(text: str) -> Formula:
+    """One formula, e.g. for ``notelsp explain``; raises :class:`NotationSyntaxError`."""
+    formulas, errors = parse_formulas(text)
+    if errors:
+        raise NotationSyntaxError(errors[0])
+    if len(formulas) != 1:
+        raise NotationSyntaxError(NotationError("malformed-formula", "expected one formula, not a comparison",
+                                                Span(0, len(text))))
+    return formulas[0]
+
+
+# --- claims -------------------------------------------------------------------
+
+_SHAPE_ALIASES = {"angular": "bent", "v-shaped": "bent", "vshaped": "bent", "see-saw": "seesaw", "tshaped": "t-shaped"}
+_HYBRID_LABELS = {"sp", "sp2", "sp3", "sp3d", "sp3d2", "sp3d3"}
+_WORD_NUMBERS = {"a": 1, "an": 1, "one": 1, "single": 1, "two": 2, "three": 3, "four": 4, "five": 5, "six": 6, "no": 0}
+_EXAMPLES = {
+    "angle": "'H-N-H 107°' or 'angle 107°'",
+    "index": "'i = 1.41'",
+    "s": "'s-character 25%'",
+    "lone": "'2 lone pairs' or 'lone pairs equatorial'",
+    "electron": "'electron geometry tetrahedral'",
+    "point": "'point group C2v'",
+}
+
+
+def _hyphenated(words: str) -> str:
+    return re.sub(r"[ -]+", "-", words.strip().lower())
+
+
+def _shape(token: Token) -> str:
+    name = _hyphenated(token)
+    return _SHAPE_ALIASES.get(name, name)
+
+
+class _ClaimBuilder:
+    """Builds one claim from its tree; ``offset`` places it in the body."""
+
+    def __init__(self, text: str, offset: int) -> None:
+        self.text = text.strip()
+        self.span = Span(offset, offset + len(self.text))
+        self.offset = offset
+        self.errors: list[NotationError] = []
+
+    def error(self, code: str, message: str, span: Span | None = None, suggestion: str | None = None) -> None:
+        self.errors.append(NotationError(code, message, span or self.span, suggestion))
+
+    def at(self, token: Token) -> Span:
+        return _span(token, self.offset)
+
+    def build(self, tree: Tree) -> Claim | None:
+        return getattr(self, tree.data)(tree.children)
+
+    def shape_claim(self, children: list) -> Claim:
+        return ShapeClaim(self.text, self.span, _shape(children[0]))
+
+    def geometry_claim(self, children: list) -> Claim:
+        return ElectronGeometryClaim(self.text, self.span, _shape(children[1]))
+
+    def polarity_claim(self, children: list) -> Claim:
+        words = _hyphenated(children[0])
+        return PolarityClaim(self.text, self.span, not (words.startswith(("non", "apolar", "zero", "no-"))))
+
+    def hybrid_claim(self, children: list) -> Claim | None:
+        token = children[0]
+        written = str(token).lower().translate(str.maketrans("²³", "23")).replace("^", "")
+        if not written.startswith("sp"):
+            return HybridizationClaim(self.text, self.span, "unhybridized")
+        if written == "sp1":
+            written = "sp"
+        if written in _HYBRID_LABELS:
+            return HybridizationClaim(self.text, self.span, written)
+        fraction = re.fullmatch(r"sp([0-9]+\.[0-9]+)", written)
+        if fraction is not None:
+            return HybridizationClaim(self.text, self.span, None, float(fraction.group(1)))
+        suggestion = difflib.get_close_matches(written, sorted(_HYBRID_LABELS), n=1)
+        self.error("unknown-claim", f"unknown hybridization '{token}'" + (f"; did you mean '{suggestion[0]}'?" if suggestion else ""),
+                   self.at(token), suggestion[0] if suggestion else None)
+        return None
+
+    def quantity(self, tree: Tree | None) -> int | str | None:
+        """A count as written: int, or 'all' for 'both'/'all'; None when absent."""
+        if tree is None:
+            return None
+        tokens = tree.children
+        if tokens[0].type == "QWORD":
+            word = str(tokens[0]).lower()
+            return "all" if word in ("both", "all") else _WORD_NUMBERS[word]
+        value = int(tokens[-1])
+        if tokens[0].type == "HYPHEN":
+            self.error("impossible-count", f"negative count in '{self.text}'", Span(self.at(tokens[0]).start, self.at(tokens[-1]).end))
+            return -value
+        return value
+
+    def subject(self, tree: Tree) -> str | None:
+        token = tree.children[0]
+        if token.type == "LONE_PAIRS":
+            return "lone-pair"
+        word = str(token)
+        if token.type in ("SYMBOL", "POINT_GROUP") and elements.is_symbol(word):
+            return word
+        if token.type == "NAME":
+            element = elements.by_name(word)
+            if element is not None:
+                return element.symbol
+        message, suggestion = _unknown_element(word)
+        self.error("unknown-element", message, self.at(token), suggestion)
+        return None
+
+    def placement_claim(self, children: list) -> Claim | None:
+        quantity_tree = children[0] if len(children) == 3 else None
+        subject, site = self.subject(children[-2]), str(children[-1]).lower()
+        quantity = self.quantity(quantity_tree)
+        if subject is None or (isinstance(quantity, int) and quantity < 0):
+            return None
+        if quantity == 0:
+            self.error("malformed-claim", f"'{self.text}' places nothing; write e.g. 'F axial'")
+            return None
+        if quantity is None:
+            quantity = "all"
+        elif quantity == 1:
+            quantity = "one"
+        return PlacementClaim(self.text, self.span, subject, site, quantity)  # type: ignore[arg-type]
+
+    def lone_pair_claim(self, children: list) -> Claim | None:
+        if isinstance(children[0], Tree):
+            count = self.quantity(children[0])
+            if count == "all":
+                self.error("malformed-claim", f"cannot read a count in '{self.text}'; write e.g. '2 lone pairs'")
+                return None
+        else:
+            numbers = [token for token in children if token.type == "NUMBER"]
+            count = int(numbers[0])
+            if any(token.type == "HYPHEN" for token in children):
+                self.error("impossible-count", f"negative count in '{self.text}'", self.at(numbers[0]))
+                count = -count
+        if not isinstance(count, int) or count < 0:
+            if isinstance(count, int) and not self.errors:
+                self.error("impossible-count", f"negative count in '{self.text}'")
+            return None
+        return LonePairClaim(self.text, self.span, count)
+
+    def isomer_claim(self, children: list) -> Claim | None:
+        count = self.quantity(children[0])
+        if count == "all" or count is None:
+            self.error("malformed-claim", f"cannot read a count in '{self.text}'; write e.g. '2 isomers'")
+            return None
+        if count < 1:  # type: ignore[operator]
+            if not self.errors:
+                self.error("impossible-count", f"every species has at least one isomer, not '{self.text}'")
+            return None
+        return IsomerCountClaim(self.text, self.span, count)  # type: ignore[arg-type]
+
+    def triple(self, tree: Tree) -> tuple[tuple[str, str, str], Span] | None:
+        symbols = [token for token in tree.children if token.type == "SYMBOL"]
+        for token in symbols:
+            if not elements.is_symbol(str(token)):
+                message, suggestion = _unknown_element(str(token))
+                self.error("unknown-element", message, self.at(token), suggestion)
+                return None
+        return (str(symbols[0]), str(symbols[1]), str(symbols[2])), Span(self.at(symbols[0]).start, self.at(symbols[2]).end)
+
+    def angle_claim(self, children: list) -> Claim | None:
+        atoms = None
+        first = children[0]
+        if isinstance(first, Tree) and first.data == "triple":
+            triple = self.triple(first)
+            if triple is None:
+                return None
+            atoms = triple[0]
+        value = next(child for child in children if isinstance(child, Tree) and child.data == "angle_value")
+        tokens = value.children
+        approximate = any(isinstance(t, Token) and t.type == "APPROX" for t in tokens)
+        negative = any(isinstance(t, Token) and t.type == "HYPHEN" for t in tokens[:2])
+        numbers = [t for t in tokens if isinstance(t, Token) and t.type == "NUMBER"]
+        degrees = [float(t) for t in numbers]
+        if negative:
+            degrees[0] = -degrees[0]
+        for number, token in zip(degrees, numbers):
+            if number <= 0 or number > 180:
+                self.error("impossible-count", f"an angle of {number:g}° is impossible; bond angles lie in (0°, 180°]", self.at(token))
+                return None
+        low, high = min(degrees), max(degrees)
+        return AngleClaim(self.text, self.span, low, high, atoms, approximate)
+
+    def angle_order_claim(self, children: list) -> Claim | None:
+        left, relation, right = self.triple(children[0]), str(children[1]), self.triple(children[2])
+        if left is None or right is None:
+            return None
+        return AngleOrderClaim(self.text, self.span, left[0], relation, right[0], left[1], right[1])  # type: ignore[arg-type]
+
+    def index_claim(self, children: list) -> Claim:
+        return IndexClaim(self.text, self.span, float(children[-1]))
+
+    def bond(self, tree: Tree) -> tuple[str, str] | None:
+        symbols = [token for token in tree.children if token.type == "SYMBOL"]
+        for token in symbols:
+            if not elements.is_symbol(str(token)):
+                message, suggestion = _unknown_element(str(token))
+                self.error("unknown-element", message, self.at(token), suggestion)
+                return None
+        return str(symbols[0]), str(symbols[1])
+
+    def s_claim(self, children: list) -> Claim | None:
+        number = next(token for token in children if isinstance(token, Token) and token.type == "NUMBER")
+        percent = float(number)
+        ligand = None
+        scope = next((child for child in children if isinstance(child, Tree) and child.data == "bond_scope"), None)
+        if scope is not None:
+            bond = self.bond(scope.children[1])
+            if bond is None:
+                return None
+            ligand = bond[1]
+        if percent > 100:
+            self.error("impossible-count", f"s-character of {percent:g}% is above 100%", self.at(number))
+            return None
+        return SCharacterClaim(self.text, self.span, percent, ligand)
+
+    def bond_claim(self, children: list) -> Claim | None:
+        bond = self.bond(children[0])
+        if bond is None:
+            return None
+        return BondLengthClaim(self.text, self.span, bond, str(children[1]).lower())  # type: ignore[arg-type]
+
+    def point_group_claim(self, children: list) -> Claim:
+        symbol = str(children[-1]).replace("∞", "inf")
+        return PointGroupClaim(self.text, self.span, symbol)
+
+
+def _unknown_element(word: str) -> tuple[str, str | None]:
+    """Message and suggestion for a word that should name an element."""
+    if elements.is_symbol(word.capitalize()):
+        return f"unknown element '{word}'; did you mean '{word.capitalize()}'?", word.capitalize()
+    names = [element.name.lower() for element in elements.table().values()]
+    close = difflib.get_close_matches(word.lower(), names, n=1, cutoff=0.8)
+    if close:
+        return f"unknown element '{word}'; did you mean '{close[0]}'?", close[0]
+    return f"unknown element '{word}'", None
+
+
+def _unreadable_claim(text: str, offset: int) -> NotationError:
+    """unknown-claim for a word the notation lacks, malformed-claim for known words in a wrong form."""
+    span = Span(offset, offset + len(text))
+    for match in re.finditer(r"[^\W\d_]+", text):
+        word = match.group()
+        if word.lower() in CLAIM_WORDS or elements.is_symbol(word) or elements.by_name(word) is not None:
+            continue
+        close = difflib.get_close_matches(word.lower(), CLAIM_WORDS, n=1, cutoff=0.7)
+        if close:
+            suggestion = text[: match.start()] + close[0] + text[match.end():]
+            return NotationError("unknown-claim", f"unknown claim '{text}'; did you mean '{suggestion}'?", span, suggestion)
+        return NotationError("unknown-claim", f"unknown claim '{text}'", span)
+    first = re.match(r"[^\W\d_]+", text)
+    example = _EXAMPLES.get(first.group().lower() if first else "angle")
+    hint = f"; write e.g. {example}" if example else ""
+    return NotationError("malformed-claim", f"cannot read claim '{text}'{hint}", span)
+
+
+def parse_claim(text: str, offset: int = 0) -> tuple[Claim | None, tuple[NotationError, ...]]:
+    """One claim (already split off, may carry surrounding spaces); spans shifted by ``offset``."""
+    lead = len(text) - len(text.lstrip())
+    stripped = text.strip()
+    if not stripped:
+        return None, (NotationError("malformed-claim", "empty claim between separators", Span(offset, offset + len(text))),)
+    try:
+        tree = parser().parse(stripped, start="claim")
+    except UnexpectedInput:
+        return None, (_unreadable_claim(stripped, offset + lead),)
+    builder = _ClaimBuilder(stripped, offset + lead)
+    claim = builder.build(tree)
+    return (claim if not builder.errors else None), tuple(builder.errors)
+
+
+# --- whole annotation bodies ------------------------------------------------------------
+
+
+@lru_cache(maxsize=16384)
+def parse_body(body: str) -> ParsedBody:
+    """An annotation body ``FORMULA[: claims]``; spans relative to the body (cached by text)."""
+    if len(body) > MAX_BODY_CHARS:
+        return ParsedBody((), (), (NotationError("formula-too-large", f"annotation longer than {MAX_BODY_CHARS} characters",
+                                                  Span(0, len(body))),), ":" in body)
+    formula_text, colon, claims_text = body.partition(":")
+    formulas, errors = parse_formulas(formula_text)
+    all_errors = list(errors)
+    claims: list[Claim] = []
+    if colon and claims_text.strip():
+        start = len(formula_text) + 1
+        pieces = re.split(r"[,;]", claims_text)
+        for index, piece in enumerate(pieces):
+            if not piece.strip() and index == len(pieces) - 1:
+                break  # a trailing separator is harmless
+            claim, claim_errors = parse_claim(piece, start)
+            all_errors.extend(claim_errors)
+            if claim is not None:
+                claims.append(claim)
+            start += len(piece) + 1
+    return ParsedBody(formulas, tuple(claims), tuple(all_errors), bool(colon))

@@ -1,0 +1,129 @@
+"""Rules about bond angles: ranges from VSEPR, orders and bond lengths from Bent's rule."""
+
+from __future__ import annotations
+
+from collections.abc import Iterator
+
+from ...chem.bent import bond_length_trend
+from ...chem.coulson import TYPICAL_ANGLES
+from ...notation.model import AngleClaim, AngleOrderClaim, BondLengthClaim
+from ..findings import Finding, Severity
+from . import RuleContext, rule
+
+
+def centre_named(analysis, central: str | None):
+    """The centre with this symbol (the first centre when no symbol is given)."""
+    if analysis is None or analysis.outside_model is not None or not analysis.centres:
+        return None
+    if central is None:
+        return analysis.centres[0]
+    return next((c for c in analysis.centres if c.central == central), None)
+
+
+def _degrees(value: float) -> str:
+    return f"{value:.1f}".rstrip("0").rstrip(".")
+
+
+def _typical(formula: str, pair: tuple[str, str]) -> float | None:
+    table = TYPICAL_ANGLES.get(formula, {})
+    return next((v for k, v in table.items() if tuple(sorted(k)) == pair), None)
+
+
+@rule("implausible-angle", severity=Severity.WARNING, claims=(AngleClaim,))
+def implausible_angle(context: RuleContext) -> Iterator[Finding]:
+    """A claimed bond angle lies outside the range VSEPR and the bonding rules predict.
+
+    The range starts from the ideal polyhedron angle and moves the way lone
+    pairs (closing), an odd electron (opening less than a lone pair closes),
+    multiple bonds, Bent's rule and Drago's rule push it; the setting
+    ``angle_tolerance`` widens it on both sides.
+    """
+    claim = context.claim
+    if not isinstance(claim, AngleClaim):
+        return
+    centre = centre_named(context.analysis, claim.atoms[1] if claim.atoms else None)
+    if centre is None:
+        return
+    if claim.atoms:
+        ranges = centre.ranges_for(claim.atoms[0], claim.atoms[2])
+    else:
+        ranges = centre.angle_ranges
+    if not ranges:
+        return
+    tolerance = context.settings.angle_tolerance
+    if any(claim.low <= r.high + tolerance and claim.high >= r.low - tolerance for r in ranges):
+        return
+    middle = (claim.low + claim.high) / 2
+    nearest = min(ranges, key=lambda r: min(abs(middle - r.low), abs(middle - r.high)))
+    a, b = (claim.atoms[0], claim.atoms[2]) if claim.atoms else nearest.ligands
+    name = f"{a}-{centre.central}-{b}"
+    expected = "; ".join(f"{_degrees(r.low)}-{_degrees(r.high)}° ({r.relation})" if len(ranges) > 1
+                         else f"{_degrees(r.low)}-{_degrees(r.high)}°" for r in ranges)
+    value = _typical(context.analysis.formula, nearest.ligands) or nearest.estimate
+    prefix = f"{name} " if claim.atoms else ""
+    yield context.finding(
+        f"{context.analysis.formula}: {claim.text} is implausible; {name} is expected {expected} "
+        f"({centre.shape}: {nearest.reason})",
+        fixes=[context.replace_claim(f"{prefix}~{_degrees(value)}°")],
+    )
+
+
+@rule("angle-order-against-bent", severity=Severity.WARNING, claims=(AngleOrderClaim,))
+def angle_order_against_bent(context: RuleContext) -> Iterator[Finding]:
+    """A claimed order of two bond angles contradicts Bent's rule (or its steric exception).
+
+    Bent's rule: the centre gives p-rich hybrids to electronegative ligands,
+    so the angle between them is the smaller one (F-C-F < H-C-H in CH2F2);
+    multiply bonded atoms take s-rich hybrids and widen their angles.  Two
+    large ligands on a small centre can push apart against the electronic
+    order (Cl-C-Cl > H-C-H in CH2Cl2); such predictions carry lower confidence.
+    """
+    claim = context.claim
+    if not isinstance(claim, AngleOrderClaim) or claim.left[1] != claim.right[1]:
+        return
+    centre = centre_named(context.analysis, claim.left[1])
+    if centre is None:
+        return
+    order = centre.bent.order_between(claim.left, claim.right)
+    if order is None or (order.confidence == "low" and not order.steric_override):
+        return
+    left_larger = sorted((claim.left[0], claim.left[2])) == sorted((order.larger[0], order.larger[2]))
+    predicted = ">" if left_larger else "<"
+    if claim.relation == predicted:
+        return
+    left, right = "-".join(claim.left), "-".join(claim.right)
+    note = " (steric crowding overrides the electronic order; lower confidence)" if order.steric_override else ""
+    yield context.finding(
+        f"{context.analysis.formula}: claimed {left} {claim.relation} {right}; predicted {left} {predicted} {right}{note}",
+        fixes=[context.replace_claim(f"{left} {predicted} {right}")],
+    )
+
+
+@rule("bond-length-against-bent", severity=Severity.WARNING, claims=(BondLengthClaim,))
+def bond_length_against_bent(context: RuleContext) -> Iterator[Finding]:
+    """A claimed bond-length comparison between two species contradicts Bent's rule.
+
+    Electronegative neighbours draw p character into their own bonds, leaving
+    the remaining bond's hybrid s-richer, hence shorter: C-F is shorter in CF4
+    than in CH3F.  Checked only in comparisons (``A vs B``).
+    """
+    claim = context.claim
+    if not isinstance(claim, BondLengthClaim) or len(context.analyses) != 2:
+        return
+    centres = []
+    for analysis in context.analyses:
+        centre = next((c for c in (analysis.centres if analysis.outside_model is None else ())
+                       if c.central in claim.bond), None)
+        if centre is None:
+            return
+        centres.append(centre)
+    trend = bond_length_trend((centres[0].central, centres[0].ligands), (centres[1].central, centres[1].ligands),
+                              claim.bond)
+    if trend is None or trend.relation == claim.relation:
+        return
+    first, second = (a.formula for a in context.analyses)
+    bond = "-".join(claim.bond)
+    yield context.finding(
+        f"{first} vs {second}: {bond} is claimed {claim.relation} in {first}; Bent's rule predicts {trend.relation}",
+        fixes=[context.replace_claim(f"{bond} {trend.relation}")],
+    )

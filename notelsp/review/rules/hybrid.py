@@ -1,0 +1,119 @@
+"""Rules checking Coulson hybridization indices and s-character against angles."""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Iterator
+
+from ...chem.coulson import index_from_angle, s_character
+from ...notation.model import AngleClaim, HybridizationClaim, IndexClaim, SCharacterClaim
+from ..findings import Finding, Severity
+from . import RuleContext, rule
+from .angles import centre_named
+
+
+def _angle_window(context: RuleContext, centre, ligand: str | None) -> tuple[float, float, str] | None:
+    """The L-X-L angle window (degrees) the index should match: a claimed angle, else the prediction."""
+    tolerance = context.settings.angle_tolerance
+    labels = {l.label for l in centre.ligands}
+    if ligand is None:
+        if len(labels) != 1:
+            return None
+        ligand = next(iter(labels))
+    for claim in context.annotation.claims:
+        if isinstance(claim, AngleClaim):
+            atoms = claim.atoms
+            if atoms is None and len(labels) == 1 or atoms and atoms[0] == atoms[2] == ligand and atoms[1] == centre.central:
+                return claim.low - tolerance, claim.high + tolerance, f"the claimed angle {claim.text}"
+    ranges = centre.ranges_for(ligand, ligand)
+    if len(ranges) != 1:
+        return None  # several site relations (or no such pair): no single angle for the hybrid
+    r = ranges[0]
+    return r.low - tolerance, r.high + tolerance, f"the predicted {ligand}-{centre.central}-{ligand} angle {r.low:g}-{r.high:g}°"
+
+
+def _index_bounds(low: float, high: float) -> tuple[float, float]:
+    """Index range for an angle range: i = -1/cos(theta) falls as the angle opens; <= 90 degrees is pure p."""
+    smallest = index_from_angle(min(high, 180.0)) or math.inf
+    largest = index_from_angle(low) or math.inf
+    return smallest, largest
+
+
+def _hybrid_centre(context: RuleContext):
+    centre = centre_named(context.analysis, None)
+    if centre is None or centre.steric_number > 4:
+        return None  # Coulson's s-p relation does not describe hypervalent centres
+    return centre
+
+
+@rule("index-angle-mismatch", severity=Severity.WARNING, claims=(IndexClaim, HybridizationClaim))
+def index_angle_mismatch(context: RuleContext) -> Iterator[Finding]:
+    """A claimed hybridization index does not fit the bond angle by Coulson's theorem.
+
+    Two equivalent sp^i hybrids at angle theta are orthogonal when
+    1 + i cos(theta) = 0, so i = -1/cos(theta): 180° gives sp, 120° sp2,
+    109.47° sp3, 90° pure p.  The angle is the one claimed in the same
+    annotation, else the predicted range.
+    """
+    claim = context.claim
+    if isinstance(claim, IndexClaim):
+        value = claim.value
+    elif isinstance(claim, HybridizationClaim) and claim.index is not None:
+        value = claim.index
+    else:
+        return
+    centre = _hybrid_centre(context)
+    if centre is None:
+        return
+    window = _angle_window(context, centre, None)
+    if window is None:
+        return
+    low, high, source = window
+    smallest, largest = _index_bounds(low, high)
+    if smallest <= value <= largest:
+        return
+    middle = (low + high) / 2
+    expected = index_from_angle(middle)
+    expected_text = "pure p (no s)" if expected is None else f"sp^{expected:.2f}"
+    if isinstance(claim, IndexClaim):
+        fix = context.replace_claim(f"index {expected:.2f}") if expected is not None else None
+    else:
+        fix = context.replace_claim("unhybridized" if expected is None else f"sp^{expected:.2f}")
+    yield context.finding(
+        f"{context.analysis.formula}: claimed index {value:g} does not fit {source}; Coulson's theorem gives {expected_text}",
+        fixes=[fix] if fix else [],
+    )
+
+
+@rule("s-character-mismatch", severity=Severity.WARNING, claims=(SCharacterClaim,))
+def s_character_mismatch(context: RuleContext) -> Iterator[Finding]:
+    """A claimed s-character of the bonds does not fit the bond angle by Coulson's theorem.
+
+    An sp^i hybrid has s-character 1/(1+i): 50 % in sp, 33 % in sp2, 25 % in
+    sp3, none in pure p.  Between two equivalent hybrids at angle theta that
+    is cos(theta)/(cos(theta) - 1).  The angle is the one claimed in the same
+    annotation, else the predicted range.
+    """
+    claim = context.claim
+    if not isinstance(claim, SCharacterClaim):
+        return
+    centre = _hybrid_centre(context)
+    if centre is None:
+        return
+    window = _angle_window(context, centre, claim.ligand)
+    if window is None:
+        return
+    low, high, source = window
+    smallest, largest = _index_bounds(low, high)
+    lowest_s, highest_s = 100 * s_character(None if largest == math.inf else largest), 100 * s_character(smallest)
+    if lowest_s - 0.5 <= claim.percent <= highest_s + 0.5:
+        return
+    middle = index_from_angle((low + high) / 2)
+    expected = 100 * s_character(middle)
+    scope = claim.text.split(" in ", 1)[1] if " in " in claim.text else None
+    replacement = f"s-character {expected:.0f}%" + (f" in {scope}" if scope else "")
+    yield context.finding(
+        f"{context.analysis.formula}: claimed s-character {claim.percent:g}% does not fit {source}; "
+        f"Coulson's theorem gives {lowest_s:.0f}-{highest_s:.0f}%",
+        fixes=[context.replace_claim(replacement)],
+    )

@@ -1,0 +1,212 @@
+"""Rules for claims about where ligands sit, polarity, point group and isomer count.
+
+Each compares the claim with the expected isomer(s) of the species' first
+centre (``notelsp.chem.isomers``); nothing is said when the analysis is
+outside the model, has no centres or no isomers.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterator, Sequence
+
+import numpy as np
+
+from ...chem.isomers import Isomer, diastereomer_count, expected
+from ...chem.model import LONE_PAIR
+from ...chem.symmetry import normalised_symbol
+from ...notation.model import IsomerCountClaim, PlacementClaim, PointGroupClaim, PolarityClaim
+from ..findings import Finding, Severity
+from . import RuleContext, rule
+
+_POSITIONS = ("axial", "equatorial", "apical", "basal")
+_WORDS = {1: "one", 2: "two", 3: "three", 4: "four", 5: "five", 6: "six"}
+
+
+def _isomers(context: RuleContext) -> tuple[Isomer, ...]:
+    analysis = context.analysis
+    if analysis is None or getattr(analysis, "outside_model", None) or not getattr(analysis, "centres", ()):
+        return ()
+    return tuple(getattr(analysis.centres[0], "isomers", ()) or ())
+
+
+def _formula(context: RuleContext) -> str:
+    formula = context.annotation.formula
+    return formula.text if formula else ""
+
+
+def _subject_indices(isomer: Isomer, subject: str) -> list[int]:
+    if subject == LONE_PAIR:
+        return [i for i, site in enumerate(isomer.sites) if site.label == LONE_PAIR]
+    return [i for i, site in enumerate(isomer.sites) if site.symbol == subject and site.label != LONE_PAIR]
+
+
+def _trans_pairs(isomer: Isomer, indices: Sequence[int]) -> int:
+    vectors = [np.array(isomer.sites[i].vector) for i in indices]
+    return sum(1 for a in range(len(vectors)) for b in range(a + 1, len(vectors)) if float(vectors[a] @ vectors[b]) < -0.99)
+
+
+def placement_holds(isomer: Isomer, claim: PlacementClaim) -> bool | None:
+    """Whether the isomer fits the claim; None when the claim cannot apply (subject absent, wrong count)."""
+    indices = _subject_indices(isomer, claim.subject)
+    if not indices:
+        return None
+    if claim.site in _POSITIONS:
+        here = sum(1 for i in indices if isomer.sites[i].position == claim.site)
+        quantity = claim.quantity
+        if quantity == "all":
+            return here == len(indices)
+        if quantity == "one":
+            return here == 1
+        if quantity == "some":
+            return here >= 1
+        return here == quantity
+    if len(indices) < 2:
+        return None
+    trans = _trans_pairs(isomer, indices)
+    if claim.site == "trans":
+        return trans > 0
+    if claim.site == "cis":
+        return trans == 0
+    if len(indices) != 3 or len(isomer.sites) != 6:
+        return None
+    return (trans == 0) if claim.site == "fac" else (trans == 1)
+
+
+def _noun(subject: str, count: int) -> str:
+    if subject == LONE_PAIR:
+        return "lone pair" if count == 1 else "lone pairs"
+    return subject
+
+
+def placement_text(isomer: Isomer, claim: PlacementClaim) -> str | None:
+    """How the expected isomer places the claim's subject, in the claim's own terms ("F axial", "one F axial")."""
+    indices = _subject_indices(isomer, claim.subject)
+    if not indices:
+        return None
+    if claim.site in _POSITIONS:
+        positions = [isomer.sites[i].position for i in indices]
+        counts = {p: positions.count(p) for p in _POSITIONS if p in positions}
+        if len(counts) == 1:
+            (where,) = counts
+            return f"{_noun(claim.subject, len(indices))} {where}"
+        # split over two kinds of site: state the one the claim named if present, else the commonest
+        where = claim.site if claim.site in counts else max(counts, key=counts.get)
+        n = counts[where]
+        quantity = "one" if n == 1 else str(n)
+        return f"{quantity} {_noun(claim.subject, n)} {where}"
+    trans = _trans_pairs(isomer, indices)
+    if claim.site in ("fac", "mer") and len(indices) == 3 and len(isomer.sites) == 6:
+        return f"{_noun(claim.subject, 3)} {'mer' if trans else 'fac'}"
+    if len(indices) >= 2:
+        return f"{_noun(claim.subject, len(indices))} {'trans' if trans else 'cis'}"
+    return None
+
+
+@rule("misplaced-ligand", severity=Severity.WARNING, claims=(PlacementClaim,))
+def misplaced_ligand(context: RuleContext) -> Iterator[Finding]:
+    """A ligand or lone pair is claimed on a site the expected isomer does not put it on.
+
+    In a trigonal bipyramid lone pairs and multiply bonded atoms take the
+    roomier equatorial sites and the more electronegative ligands the axial
+    ones (Bent's rule, apicophilicity); in an octahedron two lone pairs sit
+    trans.  The expected isomer is the one these preferences rank first.
+    """
+    claim = context.claim
+    assert isinstance(claim, PlacementClaim)
+    isomers = _isomers(context)
+    best = expected(isomers)
+    if not best:
+        return
+    verdicts = [placement_holds(isomer, claim) for isomer in best]
+    if any(v is None for v in verdicts) or any(verdicts):
+        return
+    replacement = placement_text(best[0], claim)
+    predicted = replacement or best[0].name
+    yield context.finding(
+        f"{_formula(context)} is claimed '{claim.text}'; predicted {predicted} ({best[0].name}, {best[0].reason})",
+        fixes=[context.replace_claim(replacement)] if replacement else [],
+    )
+
+
+def _polarity_word(polar: bool) -> str:
+    return "polar" if polar else "nonpolar"
+
+
+@rule("wrong-polarity", severity=Severity.WARNING, claims=(PolarityClaim,))
+def wrong_polarity(context: RuleContext) -> Iterator[Finding]:
+    """The claimed polarity differs from that of the expected isomer.
+
+    A molecule can have a permanent dipole only if its point group leaves a
+    direction unmoved: C1, Cs, Cn and Cnv (and C∞v).  Any inversion centre,
+    horizontal mirror or second rotation axis cancels the bond dipoles.
+    """
+    claim = context.claim
+    assert isinstance(claim, PolarityClaim)
+    best = expected(_isomers(context))
+    if not best or len({isomer.polar for isomer in best}) != 1:
+        return
+    isomer = best[0]
+    if isomer.polar == claim.polar:
+        return
+    size = f", about {isomer.dipole_debye:.1f} D" if isomer.polar else ""
+    yield context.finding(
+        f"{_formula(context)} is claimed {_polarity_word(claim.polar)}; predicted {_polarity_word(isomer.polar)} "
+        f"(point group {isomer.point_group} of the {isomer.name} isomer{size})",
+        fixes=[context.replace_claim(_polarity_word(isomer.polar))],
+    )
+
+
+@rule("wrong-point-group", severity=Severity.WARNING, claims=(PointGroupClaim,))
+def wrong_point_group(context: RuleContext) -> Iterator[Finding]:
+    """The claimed point group differs from that of the expected isomer.
+
+    The point group counts lone pairs as well as atoms: it is the symmetry of
+    the whole electron-domain arrangement, as VSEPR predicts it (e.g. C2v for
+    SF4, not the D2d a bare tetrahedron of atoms might suggest).
+    """
+    claim = context.claim
+    assert isinstance(claim, PointGroupClaim)
+    best = expected(_isomers(context))
+    if not best or len({isomer.point_group for isomer in best}) != 1:
+        return
+    isomer = best[0]
+    if normalised_symbol(isomer.point_group) == normalised_symbol(claim.symbol):
+        return
+    yield context.finding(
+        f"{_formula(context)} is claimed {claim.symbol}; predicted {isomer.point_group} (the {isomer.name} isomer)",
+        fixes=[context.replace_claim(isomer.point_group)],
+    )
+
+
+@rule("wrong-isomer-count", severity=Severity.WARNING, claims=(IsomerCountClaim,))
+def wrong_isomer_count(context: RuleContext) -> Iterator[Finding]:
+    """The claimed number of positional isomers differs from the count of distinct arrangements.
+
+    Isomers are counted as stereoisomers of the ideal polyhedron, each
+    enantiomer counted separately (octahedral MA2B2C2 has 6: five
+    arrangements, one of them a mirror-image pair).  Lone pairs count as
+    sites, so SF4 has its lone pair either axial or equatorial.
+    """
+    claim = context.claim
+    assert isinstance(claim, IsomerCountClaim)
+    isomers = _isomers(context)
+    if not isomers or claim.count == len(isomers):
+        return
+    without_mirrors = diastereomer_count(isomers)
+    mirrors = "" if without_mirrors == len(isomers) else f"; {without_mirrors} if mirror images are counted once"
+    yield context.finding(
+        f"{_formula(context)} is claimed to have {claim.count} isomers; predicted {len(isomers)}, "
+        f"counting each enantiomer separately{mirrors}",
+        fixes=[context.replace_claim(_count_text(context, len(isomers)))],
+    )
+
+
+def _count_text(context: RuleContext, count: int) -> str:
+    """The claim text with its number replaced, so the fix keeps the writer's wording."""
+    claim = context.claim
+    assert isinstance(claim, IsomerCountClaim)
+    text = claim.text
+    for written in (str(claim.count), _WORDS.get(claim.count, "")):
+        if written and written in text:
+            return text.replace(written, str(count), 1)
+    return f"{count} isomers"

@@ -1,0 +1,125 @@
+"""Rules comparing shape, electron geometry, hybridization and lone-pair claims with VSEPR."""
+
+from __future__ import annotations
+
+from collections.abc import Iterator
+
+from ...notation.model import ElectronGeometryClaim, HybridizationClaim, LonePairClaim, ShapeClaim
+from ..findings import Finding, Severity
+from . import RuleContext, rule
+
+
+def first_centre(context: RuleContext):
+    """The analysed centre the claims speak about, or None when the model cannot say."""
+    analysis = context.analysis
+    if analysis is None or analysis.outside_model is not None or not analysis.centres:
+        return None
+    return analysis.centres[0]
+
+
+def words(name: str) -> str:
+    return name.replace("-", " ") if name != "t-shaped" else name
+
+
+def _domains(centre) -> str:
+    odd = f", {centre.odd_electrons} odd electron" if centre.odd_electrons else ""
+    return (f"{centre.bonded_atoms} bonded atoms, {centre.lone_pairs} lone "
+            f"pair{'s' if centre.lone_pairs != 1 else ''}{odd}: steric number {centre.steric_number}")
+
+
+@rule("wrong-shape", severity=Severity.ERROR, claims=(ShapeClaim,))
+def wrong_shape(context: RuleContext) -> Iterator[Finding]:
+    """The claimed molecular shape differs from the VSEPR prediction.
+
+    VSEPR counts the electron domains around the central atom (bonded atoms
+    plus lone pairs), places them as far apart as possible, and names the
+    shape by the atoms only: four domains with one lone pair make a trigonal
+    pyramid, five with two lone pairs a T.
+    """
+    centre = first_centre(context)
+    claim = context.claim
+    if centre is None or not isinstance(claim, ShapeClaim) or claim.shape == centre.shape:
+        return
+    yield context.finding(
+        f"{context.analysis.formula} is claimed {words(claim.shape)}; VSEPR predicts {words(centre.shape)} ({_domains(centre)})",
+        fixes=[context.replace_claim(centre.shape)],
+    )
+
+
+@rule("wrong-electron-geometry", severity=Severity.ERROR, claims=(ElectronGeometryClaim,))
+def wrong_electron_geometry(context: RuleContext) -> Iterator[Finding]:
+    """The claimed electron-domain geometry differs from the VSEPR prediction.
+
+    The electron geometry counts lone pairs as well as bonds (H2O: tetrahedral
+    electron geometry, bent shape); it depends only on the steric number.
+    """
+    centre = first_centre(context)
+    claim = context.claim
+    if centre is None or not isinstance(claim, ElectronGeometryClaim) or claim.geometry == centre.electron_geometry:
+        return
+    yield context.finding(
+        f"{context.analysis.formula} is claimed to have {words(claim.geometry)} electron geometry; "
+        f"VSEPR predicts {words(centre.electron_geometry)} ({_domains(centre)})",
+        fixes=[context.replace_claim(f"electron geometry {centre.electron_geometry}")],
+    )
+
+
+@rule("wrong-hybridization", severity=Severity.ERROR, claims=(HybridizationClaim,))
+def wrong_hybridization(context: RuleContext) -> Iterator[Finding]:
+    """The claimed hybridization label differs from the one the steric number implies.
+
+    The textbook label follows the steric number (2 sp, 3 sp2, 4 sp3, 5 sp3d,
+    6 sp3d2, 7 sp3d3).  Drago's rule overrides it: a period-3-or-lower group 15
+    or 16 centre with a lone pair and electropositive ligands (PH3, H2S) bonds
+    with nearly pure p orbitals and is best called unhybridized.
+    """
+    centre = first_centre(context)
+    claim = context.claim
+    if centre is None or not isinstance(claim, HybridizationClaim) or claim.label is None:
+        return
+    if claim.label == centre.hybridization:
+        return
+    formula = context.analysis.formula
+    if centre.drago.applies:
+        message = (f"{formula} is claimed {claim.label}; Drago's rule predicts nearly unhybridized "
+                   f"(pure p bonds near 90°, s-rich lone pair)")
+    elif claim.label == "unhybridized":
+        failed = "; ".join(c.why for c in centre.drago.failed)
+        message = f"{formula} is claimed unhybridized; Drago's rule does not apply ({failed}): predicted {centre.hybridization}"
+    else:
+        message = f"{formula} is claimed {claim.label}; steric number {centre.steric_number} predicts {centre.hybridization}"
+    yield context.finding(message, fixes=[context.replace_claim(centre.hybridization)])
+
+
+@rule("wrong-lone-pairs", severity=Severity.ERROR, claims=(LonePairClaim,))
+def wrong_lone_pairs(context: RuleContext) -> Iterator[Finding]:
+    """The claimed number of lone pairs on the central atom differs from the electron count.
+
+    Lone pairs = (valence electrons of the centre - charge - electrons used in
+    bonds) / 2; halogens and H use one electron of the centre, terminal O and S
+    two, terminal N three.
+    """
+    centre = first_centre(context)
+    claim = context.claim
+    if centre is None or not isinstance(claim, LonePairClaim) or claim.count == centre.lone_pairs:
+        return
+    used = sum(l.bond_order for l in centre.ligands)
+    yield context.finding(
+        f"{context.analysis.formula} is claimed to have {claim.count} lone pair{'s' if claim.count != 1 else ''} on "
+        f"{centre.central}; the electron count gives {centre.lone_pairs} ({centre.valence_electrons} valence electrons, "
+        f"{used} used in bonds)",
+        fixes=[context.replace_claim(f"{centre.lone_pairs} lone pair{'s' if centre.lone_pairs != 1 else ''}")],
+    )
+
+
+@rule("outside-model", severity=Severity.INFORMATION)
+def outside_model(context: RuleContext) -> Iterator[Finding]:
+    """The species is outside what the bonding model can treat; its claims are not checked.
+
+    Transition-metal and f-block centres, diatomics, chains without one
+    identifiable centre and steric numbers beyond 7 are reported rather than
+    answered wrongly.  Writing ``@X`` after the formula chooses the centre.
+    """
+    for analysis in context.analyses:
+        if analysis.outside_model is not None:
+            yield context.finding(f"{analysis.formula}: outside the bonding model ({analysis.outside_model}); claims not checked")
