@@ -11,7 +11,7 @@ import pytest_lsp
 from lsprotocol import types
 from pytest_lsp import ClientServerConfig, LanguageClient, client_capabilities
 
-from lsp_harness import SERVER_COMMAND, apply_edits, file_uri, wait_for
+from .lsp_harness import SERVER_COMMAND, apply_edits, file_uri, wait_for
 
 NOTE = "# Notes\r\n\N{TEST TUBE} 氟 {ClF3: trigonal planar}\r\nend\r\n"
 PREFIX_UNITS = {"utf-8": 4 + 1 + 3 + 1 + 7, "utf-16": 2 + 1 + 1 + 1 + 7, "utf-32": 1 + 1 + 1 + 1 + 7}

@@ -14,7 +14,7 @@ from pathlib import Path
 
 import pytest
 
-from lsp_harness import SERVER_COMMAND
+from .lsp_harness import SERVER_COMMAND
 
 ROOT = Path(__file__).resolve().parents[2]
 pytestmark = pytest.mark.client

@@ -11,7 +11,7 @@ import pytest_lsp
 from lsprotocol import types
 from pytest_lsp import ClientServerConfig, LanguageClient, client_capabilities
 
-from lsp_harness import SERVER_COMMAND, apply_edits, file_uri, wait_for
+from .lsp_harness import SERVER_COMMAND, apply_edits, file_uri, wait_for
 
 NOTE = "# Halogen fluorides\n\nChlorine trifluoride {ClF3: trigonal planar} is a strong oxidiser.\n"
 WRONG = "trigonal planar"
