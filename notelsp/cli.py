@@ -45,6 +45,7 @@ def _parser() -> argparse.ArgumentParser:
         action="store_true",
         help="also optimise each annotated species with a small quantum-chemistry calculation (needs notelsp[qc])",
     )
+    check.add_argument("--level", metavar="METHOD/BASIS", help="level of theory for --cross-check (default HF/3-21G)")
 
     explain = commands.add_parser("explain", help="show the full analysis of one species")
     explain.add_argument("formula", metavar="FORMULA", help="e.g. ClF3, 'SO4^2-', 'HOCl @O'")
@@ -63,7 +64,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     args = parser.parse_args(argv)
     try:
         if args.command == "check":
-            return _check(args.paths, args.format, args.config, args.cross_check, sys.stdout)
+            return _check(args.paths, args.format, args.config, args.cross_check, sys.stdout, args.level)
         if args.command == "explain":
             return _explain(args.formula, args.format, sys.stdout)
         if args.command == "rules":
@@ -91,7 +92,9 @@ def main(argv: Sequence[str] | None = None) -> int:
 # --- check --------------------------------------------------------------------
 
 
-def _check(paths: Sequence[str], output: str, config: str | None, cross_check: bool, out: TextIO) -> int:
+def _check(
+    paths: Sequence[str], output: str, config: str | None, cross_check: bool, out: TextIO, level: str | None = None
+) -> int:
     from .formats import ReviewedFile
     from .review.document import kind_of_path, review_text
 
@@ -107,13 +110,22 @@ def _check(paths: Sequence[str], output: str, config: str | None, cross_check: b
             continue
         reviewed.append(ReviewedFile(str(path), review_text(text, kind_of_path(str(path)), settings)))
     _write_report(reviewed, output, out)
+    has_errors = any(f.severity.value == "error" for r in reviewed for f in r.review.findings)
     if cross_check:
-        from .crosscheck.cli import cross_check_reviews
+        from .crosscheck.cli import EXIT_CANNOT_RUN, EXIT_DISAGREES, cross_check_paths
+        from .crosscheck.levels import DEFAULT_LEVEL_TEXT
 
-        cross_check_reviews(reviewed, out, sys.stderr)
+        outcome = cross_check_paths(
+            [r.path for r in reviewed],
+            level=level or DEFAULT_LEVEL_TEXT,
+            stream=out,
+            progress=sys.stderr,
+            angle_tolerance=settings.angle_tolerance,
+        )
+        unreadable = unreadable or outcome == EXIT_CANNOT_RUN
+        has_errors = has_errors or outcome == EXIT_DISAGREES
     if unreadable:
         return EXIT_USAGE
-    has_errors = any(f.severity.value == "error" for r in reviewed for f in r.review.findings)
     return EXIT_ERRORS if has_errors else EXIT_CLEAN
 
 

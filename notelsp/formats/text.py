@@ -5,6 +5,7 @@ from __future__ import annotations
 from collections.abc import Iterable
 from typing import TextIO
 
+from ..chem.hazards import SAFETY_CAUTION
 from . import ReviewedFile
 
 
@@ -17,7 +18,9 @@ def write_text(files: Iterable[ReviewedFile], out: TextIO) -> None:
             out.write(f"{reviewed.path}:{line}:{column}: {finding.severity.value}[{finding.code}] {finding.message}\n")
             for fix in finding.fixes:
                 out.write(f"    fix: {fix.title}\n")
-        for formula, caution in reviewed.cautions():
-            out.write(f"{reviewed.path}: caution for {formula}: {caution}\n")
+        hazardous = list(dict.fromkeys(formula for formula, _ in reviewed.cautions()))
+        if hazardous:
+            out.write(f"{reviewed.path}: caution: {', '.join(hazardous)} {'is' if len(hazardous) == 1 else 'are'} "
+                      f"toxic or reactive; {SAFETY_CAUTION}\n")
     summary = ", ".join(f"{n} {kind}{'s' if n != 1 and kind != 'information' else ''}" for kind, n in counts.items() if n)
     out.write(f"{summary or 'no findings'}\n")

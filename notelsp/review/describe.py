@@ -12,11 +12,6 @@ from ..notation.model import Annotation
 from .document import DocumentReview
 from .rules import RULES
 
-SAFETY_NOTE = (
-    "Predictions are not safety data: follow the safety data sheet, local rules and licensed practice."
-)
-
-
 def _angles(values: Any) -> str:
     if not values:
         return "—"
