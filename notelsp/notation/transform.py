@@ -365,11 +365,10 @@ class _ClaimBuilder:
             return HybridizationClaim(self.text, self.span, "unhybridized")
         if written == "sp1":
             written = "sp"
+        if token.type == "HYBRID_FRACTION":  # "sp^2.4": the index follows "sp"
+            return HybridizationClaim(self.text, self.span, None, float(written[2:]))
         if written in _HYBRID_LABELS:
             return HybridizationClaim(self.text, self.span, written)
-        fraction = re.fullmatch(r"sp([0-9]+\.[0-9]+)", written)
-        if fraction is not None:
-            return HybridizationClaim(self.text, self.span, None, float(fraction.group(1)))
         suggestion = difflib.get_close_matches(written, sorted(_HYBRID_LABELS), n=1)
         self.error("unknown-claim", f"unknown hybridization '{token}'" + (f"; did you mean '{suggestion[0]}'?" if suggestion else ""),
                    self.at(token), suggestion[0] if suggestion else None)
