@@ -1,10 +1,12 @@
 """Pure-analysis figures: scan_ratio and explain_us.
 
 scan_ratio: a full review of the synthetic notebook (a warm process, cold
-caches) divided by one regular-expression pass over the same text for brace
+result caches, see caches.py) divided by one regular-expression pass over the same text for brace
 groups — the floor any scanner has to pay.
 explain_us: mean time of one uncached analysis of a seven-domain mixed-ligand
 species, isomer enumeration included.
+edit_check_ms_p50: re-check of the note after a one-line edit in its middle,
+every edit a new text (analysis only: the incremental path, no server).
 """
 
 from __future__ import annotations
@@ -13,6 +15,7 @@ import re
 import statistics
 import time
 
+from caches import clear_result_caches
 from notebook import make_notebook
 
 
@@ -25,17 +28,6 @@ def _best_of(repeats: int, work) -> float:
     return min(times)
 
 
-def _clear_caches() -> None:
-    from notelsp.chem import analysis as chem_analysis
-    from notelsp.review import document
-
-    document._cached_review.cache_clear()
-    for name in dir(chem_analysis):
-        cached = getattr(getattr(chem_analysis, name), "cache_clear", None)
-        if cached:
-            cached()
-
-
 def scan_ratio(text: str) -> float:
     from notelsp.elements import preload
     from notelsp.review.document import review_text
@@ -46,10 +38,31 @@ def scan_ratio(text: str) -> float:
     floor = _best_of(5, lambda: sum(1 for _ in brace.finditer(text)))
 
     def full_check() -> None:
-        _clear_caches()
+        clear_result_caches()
         review_text(text, "markdown")
 
-    return _best_of(3, full_check) / floor
+    full = _best_of(3, full_check)
+    print(f"full_check_ms: {full * 1e3:.0f}")
+    print(f"scan_floor_ms: {floor * 1e3:.2f}")
+    return full / floor
+
+
+def edit_check_ms_p50(text: str, edits: int = 30) -> float:
+    from notelsp.review.document import review_text
+
+    clear_result_caches()
+    review_text(text, "markdown")
+    lines = text.split("\n")
+    middle = len(lines) // 2
+    samples = []
+    for number in range(edits):
+        claim = "t-shaped" if number % 2 else "trigonal planar"
+        lines[middle] = f"Edited {{ClF3: {claim}}} in run {number}."
+        edited = "\n".join(lines)
+        start = time.perf_counter()
+        review_text(edited, "markdown")
+        samples.append(time.perf_counter() - start)
+    return statistics.median(samples) * 1e3
 
 
 def explain_us() -> float:
@@ -59,7 +72,7 @@ def explain_us() -> float:
     formula = parse_formula("IF5Cl2")  # seven domains, two kinds of ligand
     samples = []
     for _ in range(20):
-        _clear_caches()
+        clear_result_caches()
         start = time.perf_counter()
         analyse(formula)
         samples.append(time.perf_counter() - start)
@@ -69,6 +82,7 @@ def explain_us() -> float:
 def main() -> None:
     text = make_notebook()
     print(f"scan_ratio: {scan_ratio(text):.1f}")
+    print(f"edit_check_ms_p50: {edit_check_ms_p50(text):.1f}")
     print(f"explain_us: {explain_us():.0f}")
 
 

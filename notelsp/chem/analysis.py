@@ -143,13 +143,7 @@ def _analyse_centre(centre: CentreModel, formula_text: str) -> CentreAnalysis | 
     bent_result = bent(centre.central, centre.ligands, lone_pairs, result.steric_number)
     ranges = _pair_ranges(centre.ligands, result.site_angles, bent_result)
     coulson = _coulson(centre, formula_text, ranges, lone_pairs + odd, result.steric_number)
-    try:
-        found_isomers = isomer_module.isomers_for(result.electron_geometry, centre.ligands, lone_pairs)
-    except Exception as error:  # another module's failure must not stop the analysis
-        found_isomers = ()
-        extra_note = (f"isomers could not be enumerated ({type(error).__name__})",)
-    else:
-        extra_note = ()
+    found_isomers, isomer_note = _isomers(result.electron_geometry, centre.ligands, lone_pairs, odd, atom.electronegativity)
     return CentreAnalysis(
         central=centre.central,
         charge=centre.charge,
@@ -168,8 +162,26 @@ def _analyse_centre(centre: CentreModel, formula_text: str) -> CentreAnalysis | 
         drago=drago_result,
         bent=bent_result,
         isomers=tuple(found_isomers),
-        notes=_notes(centre, atom, lone_pairs, odd, result.steric_number, drago_result) + bent_result.notes + extra_note,
+        notes=_notes(centre, atom, lone_pairs, odd, result.steric_number, drago_result) + bent_result.notes + isomer_note,
     )
+
+
+def _isomers(electron_geometry: str, ligands: tuple[Ligand, ...], lone_pairs: int, odd: int,
+             centre_electronegativity: float | None) -> tuple[tuple[isomer_module.Isomer, ...], tuple[str, ...]]:
+    """The centre's isomers, or none and a note saying why placement claims go unchecked.
+
+    An odd electron occupies a site of its own, so it is placed like a lone pair.
+    """
+    try:
+        found = isomer_module.isomers_for(electron_geometry, ligands, lone_pairs + (1 if odd else 0),
+                                          centre_electronegativity=centre_electronegativity)
+    except isomer_module.IsomerLimitExceeded as error:
+        return (), (f"too many arrangements to list positional isomers ({error}); "
+                    "placement, polarity, point-group and isomer-count claims are not checked",)
+    except ValueError as error:
+        return (), (f"positional isomers not available ({error}); "
+                    "placement, polarity, point-group and isomer-count claims are not checked",)
+    return found, ()
 
 
 def _label_pairs(ligands: tuple[Ligand, ...]) -> list[tuple[str, str]]:

@@ -38,6 +38,25 @@ class BentAnalysis:
     s_rich: tuple[str, ...]  # what takes s-rich hybrids: lone pairs, multiply bonded ligands
     notes: tuple[str, ...]
 
+    def summary(self) -> str:
+        """One readable line of what the rule predicts here; empty when it predicts nothing."""
+        parts = []
+        for order in self.angle_orders[:3]:
+            larger, smaller = "-".join(order.larger), "-".join(order.smaller)
+            kind = "steric exception, low confidence" if order.steric_override else f"{order.confidence} confidence"
+            parts.append(f"{smaller} < {larger} ({kind})")
+        if len(self.angle_orders) > 3:
+            parts.append(f"{len(self.angle_orders) - 3} more angle orders")
+        ligands = [label for label in self.axial_preference if label != LONE_PAIR]
+        if len(ligands) > 1:
+            parts.append("axial preference " + " > ".join(ligands))
+        rich = [("lone pair" if label == LONE_PAIR else f"={label}") for label in self.s_rich]
+        if rich and (parts or self.axial_preference):
+            parts.append("s-rich hybrids to " + ", ".join(rich))
+        elif rich:
+            parts.append(f"the {' and '.join(rich)} keep{'s' if len(rich) == 1 else ''} the s-richer hybrids")
+        return "; ".join(parts)
+
     def order_between(self, first: tuple[str, str, str], second: tuple[str, str, str]) -> AngleOrder | None:
         """The predicted order of these two angles (either way round), if there is one."""
         wanted = {_pair(first), _pair(second)}

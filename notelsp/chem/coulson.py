@@ -71,6 +71,17 @@ class CoulsonAnalysis:
     angle_source: str  # "claimed", "typical (ASE G2 set)" or "predicted range midpoint"
     consistent: bool  # the angles and s budget fit together (bond s <= 1)
 
+    def summary(self) -> str:
+        """One readable line: each bond's hybrid and s-character, the lone pairs' share, the angles' source."""
+        bonds = ", ".join(f"{b.ligand} {b.label} ({100 * b.s_character:.0f}% s)" for b in self.bonds)
+        parts = [f"Coulson: {bonds}" if bonds else "Coulson: no bond angle to use"]
+        if self.per_lone_pair_s_character is not None:
+            parts.append(f"{100 * self.per_lone_pair_s_character:.0f}% s per lone pair")
+        parts.append(f"angles: {self.angle_source}")
+        if not self.consistent:
+            parts.append("the angles do not fit one s orbital's worth of s-character")
+        return "; ".join(parts)
+
     def bond(self, ligand: str) -> BondHybrid | None:
         return next((b for b in self.bonds if b.ligand == ligand), None)
 
@@ -141,7 +152,9 @@ def solve_hybrids(
                   if label in indices)
     bond_s = sum(s_character(indices[label]) * bond_counts[label] for label in labels if label in indices)
     left = 1.0 - bond_s
-    consistent = left >= -0.02 and (nonbonding_domains > 0 or abs(left) <= 0.05)
+    # measured angles over-determine the indices and the theorem is approximate, so allow a few
+    # percent either way (CH2F2's G2 angles give 102% s over the bonds)
+    consistent = left >= -0.05 and (nonbonding_domains > 0 or abs(left) <= 0.05)
     per = max(left, 0.0) / nonbonding_domains if nonbonding_domains else None
     used = tuple((a, b, float(angle)) for (a, b), angle in pair_angles.items())
     return CoulsonAnalysis(bonds, max(left, 0.0), per, used, angle_source, consistent)

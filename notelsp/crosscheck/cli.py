@@ -1,6 +1,6 @@
 """``notelsp check --cross-check``: cross-check every annotated species of some files.
 
-The lead's CLI calls :func:`cross_check_paths`.  The report goes to
+``notelsp check --cross-check`` calls :func:`cross_check_paths`.  The report goes to
 ``stream``; a progress bar goes to ``progress`` (redrawn in place on a
 terminal, one plain line per event otherwise).
 """
@@ -14,6 +14,7 @@ from pathlib import Path
 from typing import TextIO
 
 from ..notation.model import Annotation
+from ..review.findings import Severity
 from .availability import missing_extra
 from .levels import DEFAULT_LEVEL_TEXT, Limits, parse_level
 from .report import cross_check_findings, cross_check_markdown
@@ -60,7 +61,26 @@ def cross_check_paths(
     with a claim; 2: nothing could run (bad level, missing extra, unreadable file).
     """
     out = stream or sys.stdout
-    bar = progress or sys.stderr
+    named: list[tuple[str, tuple[Annotation, ...]]] = []
+    unreadable = False
+    for path in map(Path, paths):
+        try:
+            named.append((str(path), _annotations(path)))
+        except (OSError, UnicodeDecodeError) as error:
+            out.write(f"notelsp: cannot read {path}: {error}\n")
+            unreadable = True
+    code = _cross_check_named(named, level, out, progress or sys.stderr, limits, angle_tolerance)
+    return EXIT_CANNOT_RUN if unreadable else code
+
+
+def _cross_check_named(
+    named: Iterable[tuple[str, tuple[Annotation, ...]]],
+    level: str,
+    out: TextIO,
+    bar: TextIO,
+    limits: Limits,
+    angle_tolerance: float,
+) -> int:
     try:
         chosen = parse_level(level)
     except ValueError as error:
@@ -71,25 +91,21 @@ def cross_check_paths(
         out.write(f"notelsp: cross-check unavailable: {missing}\n")
         return EXIT_CANNOT_RUN
     show = progress_printer(bar)
-    results: dict[str, CrossCheckResult] = {}
+    on_terminal = hasattr(bar, "isatty") and bar.isatty()
+    results: dict[str, CrossCheckResult] = {}  # one calculation per species, however often it is annotated
     code = EXIT_OK
-    for path in map(Path, paths):
-        try:
-            annotations = _annotations(path)
-        except (OSError, UnicodeDecodeError) as error:
-            out.write(f"notelsp: cannot read {path}: {error}\n")
-            code = EXIT_CANNOT_RUN
-            continue
+    for path, annotations in named:
         for annotation in annotations:
             if annotation.formula is None or annotation.errors:
                 continue
             formula = annotation.formula
             if formula.text not in results:
                 results[formula.text] = asyncio.run(cross_check(formula, chosen, limits, show))
-                if bar.isatty() if hasattr(bar, "isatty") else False:
-                    bar.write("\n")
+                if on_terminal:
+                    bar.write("\n")  # keep the finished bar; the next one starts on its own line
             result = results[formula.text]
-            out.write(f"{path}: {{{formula.text}}}\n\n{cross_check_markdown(result, annotation, angle_tolerance=angle_tolerance)}\n\n")
-            if any(f.severity.value == "warning" for f in cross_check_findings(result, annotation, angle_tolerance)):
+            markdown = cross_check_markdown(result, annotation, angle_tolerance=angle_tolerance)
+            out.write(f"{path}: {{{formula.text}}}\n\n{markdown}\n\n")
+            if any(f.severity is Severity.WARNING for f in cross_check_findings(result, annotation, angle_tolerance)):
                 code = max(code, EXIT_DISAGREES)
     return code

@@ -9,6 +9,7 @@ left alone.  Bodies are parsed through the position-free cache of
 
 from __future__ import annotations
 
+from functools import lru_cache
 from typing import Literal
 
 from .. import elements
@@ -21,6 +22,11 @@ DocumentKind = Literal["markdown", "text"]
 # A brace right after these belongs to something else: \frac{a}, x_{i}, x^{2}, }{.
 _NOT_BEFORE_ANNOTATION = set("\\_^}$") | set("abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789")
 
+# Placed annotations are remembered by their exact place, so the part of an edited
+# document before the edit costs nothing to re-scan (the part after it has moved and
+# is placed again from the position-free parse cache).  About two large documents' worth.
+_PLACED_CACHE_SIZE = 8192
+
 
 def scan(text: str, kind: DocumentKind = "markdown") -> ScannedDocument:
     """Every annotation in ``text``, with code-point offsets into it."""
@@ -29,8 +35,10 @@ def scan(text: str, kind: DocumentKind = "markdown") -> ScannedDocument:
         segments, bonding_lines = structure.segments, structure.bonding_lines
     else:
         segments, bonding_lines = _text_segments(text), ()
-    annotations = [annotation for segment in segments for annotation in _inline_annotations(segment)]
-    annotations.extend(annotation for line in bonding_lines if (annotation := _block_annotation(text, line)))
+    annotations = [annotation for segment in segments for annotation in _segment_annotations(segment)]
+    annotations.extend(
+        annotation for line in bonding_lines if (annotation := _block_annotation(text[line.start : line.end], line))
+    )
     annotations.sort(key=lambda annotation: annotation.span.start)
     return ScannedDocument(tuple(annotations))
 
@@ -54,6 +62,11 @@ def _skipped(position: int, skips: tuple[tuple[int, int], ...]) -> bool:
 def _begins_with_element(body: str) -> bool:
     head = body.lstrip()
     return head.startswith("[") or elements.is_symbol(head[:2]) or elements.is_symbol(head[:1])
+
+
+@lru_cache(maxsize=_PLACED_CACHE_SIZE)
+def _segment_annotations(segment: Segment) -> tuple[Annotation, ...]:
+    return tuple(_inline_annotations(segment))
 
 
 def _inline_annotations(segment: Segment) -> list[Annotation]:
@@ -93,8 +106,9 @@ def _inline_candidate(segment: Segment, opening: int, closing: int) -> Annotatio
     return _placed(parsed, Span(start, segment.start + closing + 1), Span(start + 1, segment.start + closing), "inline")
 
 
-def _block_annotation(text: str, line: Span) -> Annotation | None:
-    content = text[line.start : line.end]
+@lru_cache(maxsize=_PLACED_CACHE_SIZE)
+def _block_annotation(content: str, line: Span) -> Annotation | None:
+    """The annotation on one line of a bonding block (``content`` is the line's text)."""
     code = content.split("#", 1)[0]
     if not code.strip():
         return None

@@ -1,47 +1,57 @@
 """Words an editor can offer inside an annotation, and where the cursor is.
 
-The shape descriptions are standard VSEPR geometry (from memory); the other
-claim words follow the README's notation section.  Element symbols come
-from ``notelsp.elements``.
+The words themselves are the notation's own (``notelsp.notation.grammar.
+CLAIM_PHRASES``), sorted into shapes and other claims by parsing each with the
+grammar, so completion never offers a word the parser would reject.  Only the
+one-line descriptions live here (standard VSEPR geometry, from memory).
+Element symbols come from ``notelsp.elements``.
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import cache
 from typing import Literal
 
 from .. import elements
+from ..notation.grammar import CLAIM_PHRASES
+from ..notation.model import ShapeClaim
+from ..notation.transform import parse_claim
 
-SHAPES: tuple[tuple[str, str], ...] = (
-    ("linear", "two domains (or 2 bonds + 3 lone pairs) in a line, 180°"),
-    ("bent", "two bonds with one or two lone pairs, angle below 120° or 109.5°"),
-    ("trigonal planar", "three bonds in a plane at 120°, no lone pair"),
-    ("trigonal pyramidal", "three bonds and one lone pair, a flattened tetrahedron"),
-    ("t-shaped", "three bonds and two equatorial lone pairs, near 90°"),
-    ("tetrahedral", "four bonds at 109.5°, no lone pair"),
-    ("see-saw", "four bonds and one equatorial lone pair in a trigonal bipyramid"),
-    ("square planar", "four bonds in a plane at 90°, two trans lone pairs"),
-    ("trigonal bipyramidal", "five bonds: three equatorial at 120°, two axial"),
-    ("square pyramidal", "five bonds and one lone pair in an octahedron"),
-    ("octahedral", "six bonds at 90°"),
-    ("pentagonal bipyramidal", "seven bonds: five equatorial at 72°, two axial"),
-)
-
-CLAIM_WORDS: tuple[tuple[str, str], ...] = (
-    ("sp", "hybridization label: two sp hybrids"),
-    ("sp2", "hybridization label: three sp2 hybrids"),
-    ("sp3", "hybridization label: four sp3 hybrids"),
-    ("sp3d", "hybridization label for five electron domains"),
-    ("sp3d2", "hybridization label for six electron domains"),
-    ("unhybridized", "bonds from nearly pure p orbitals (Drago's rule)"),
-    ("polar", "the species has a dipole moment"),
-    ("nonpolar", "the bond dipoles cancel"),
-    ("axial", "placement: along the axis of a trigonal bipyramid"),
-    ("equatorial", "placement: in the equatorial plane"),
-    ("cis", "placement: neighbouring positions"),
-    ("trans", "placement: opposite positions"),
-    ("lone pairs", "placement or count of lone pairs"),
-)
+DETAILS: dict[str, str] = {
+    "linear": "two domains (or 2 bonds + 3 lone pairs) in a line, 180°",
+    "bent": "two bonds with one or two lone pairs, angle below 120° or 109.5°",
+    "trigonal planar": "three bonds in a plane at 120°, no lone pair",
+    "trigonal pyramidal": "three bonds and one lone pair, a flattened tetrahedron",
+    "t-shaped": "three bonds and two equatorial lone pairs, near 90°",
+    "tetrahedral": "four bonds at 109.5°, no lone pair",
+    "seesaw": "four bonds and one equatorial lone pair in a trigonal bipyramid",
+    "square planar": "four bonds in a plane at 90°, two trans lone pairs",
+    "trigonal bipyramidal": "five bonds: three equatorial at 120°, two axial",
+    "square pyramidal": "five bonds and one lone pair in an octahedron",
+    "octahedral": "six bonds at 90°",
+    "pentagonal bipyramidal": "seven bonds: five equatorial at 72°, two axial",
+    "pentagonal planar": "five bonds in a plane at 72°, two axial lone pairs",
+    "pentagonal pyramidal": "six bonds (five in a plane, one axial) and one axial lone pair",
+    "sp": "hybridization label: two sp hybrids",
+    "sp2": "hybridization label: three sp2 hybrids",
+    "sp3": "hybridization label: four sp3 hybrids",
+    "sp3d": "hybridization label for five electron domains",
+    "sp3d2": "hybridization label for six electron domains",
+    "sp3d3": "hybridization label for seven electron domains",
+    "unhybridized": "bonds from nearly pure p orbitals (Drago's rule)",
+    "polar": "the species has a dipole moment",
+    "nonpolar": "the bond dipoles cancel",
+    "axial": "placement: along the axis of a bipyramid (after a symbol: 'F axial')",
+    "equatorial": "placement: in the equatorial plane (after a symbol: 'F equatorial')",
+    "apical": "placement: the apex of a square pyramid",
+    "basal": "placement: the base of a square pyramid",
+    "cis": "placement: neighbouring positions",
+    "trans": "placement: opposite positions",
+    "fac": "placement: three ligands on one face of an octahedron",
+    "mer": "placement: three ligands on a meridian of an octahedron",
+}
+NO_DETAIL = "a claim word of the notation"
 
 
 @dataclass(frozen=True, slots=True)
@@ -64,7 +74,37 @@ def place_in_annotation(text: str, offset: int) -> CursorPlace | None:
     return "claim" if ":" in before[opened:] else "formula"
 
 
+def word_start(text: str, offset: int, place: CursorPlace) -> int:
+    """Where the text a completion replaces begins: the whole claim typed so far
+    (claim words can be several words, "trigonal pl|"), or the element symbol."""
+    start = offset
+    if place == "claim":
+        while start > 0 and text[start - 1] not in "{:,;\n\r":
+            start -= 1
+        while start < offset and text[start] in " \t":
+            start += 1
+        return start
+    # an element symbol is a capital and at most one small letter: "ClF|" replaces "F"
+    if offset >= 1 and text[offset - 1].isupper():
+        return offset - 1
+    if offset >= 2 and text[offset - 2].isupper() and text[offset - 1].islower():
+        return offset - 2
+    return offset
+
+
+def _is_shape(phrase: str) -> bool:
+    claim, _ = parse_claim(phrase)
+    return isinstance(claim, ShapeClaim)
+
+
+@cache
+def claim_words() -> tuple[Word, ...]:
+    """The notation's claim phrases, shapes first (parsed once per process)."""
+    words = [Word(p, DETAILS.get(p, NO_DETAIL), "shape" if _is_shape(p) else "claim") for p in CLAIM_PHRASES]
+    return tuple(sorted(words, key=lambda w: w.kind != "shape"))
+
+
 def words_for(place: CursorPlace) -> tuple[Word, ...]:
     if place == "formula":
         return tuple(Word(e.symbol, e.name, "element") for e in sorted(elements.table().values(), key=lambda e: e.number))
-    return tuple(Word(n, d, "shape") for n, d in SHAPES) + tuple(Word(n, d, "claim") for n, d in CLAIM_WORDS)
+    return claim_words()

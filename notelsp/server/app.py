@@ -15,6 +15,7 @@ from pathlib import Path
 from urllib.parse import unquote, urlparse
 
 from lsprotocol import types
+from pygls.exceptions import JsonRpcException
 from pygls.lsp.server import LanguageServer
 
 from .. import __version__
@@ -22,6 +23,7 @@ from ..review.document import DocumentReview, kind_of_path
 from ..review.settings import Settings
 from ..review.workspace import cached_review, is_reviewed
 from .positions import LineIndex, line_index
+from .protocol import NoteProtocol, report_wire_fault
 
 log = logging.getLogger("notelsp.server")
 
@@ -52,11 +54,18 @@ class HeldDocument:
 
 class NoteServer(LanguageServer):
     def __init__(self) -> None:
-        super().__init__("notelsp", __version__, text_document_sync_kind=types.TextDocumentSyncKind.Incremental)
+        super().__init__("notelsp", __version__, text_document_sync_kind=types.TextDocumentSyncKind.Incremental,
+                         protocol_cls=NoteProtocol)
         self.settings = Settings()
         self.file_settings: Settings | None = None  # from .notelsp.toml, the base editor settings apply over
         self.root: Path | None = None
         self.pending: dict[str, asyncio.Task] = {}  # uri -> its scheduled diagnostics publication
+
+    def report_server_error(self, error: Exception, source) -> None:
+        if source is JsonRpcException:  # the reader's own: a faulty frame from the client, not our failure
+            report_wire_fault(self.protocol, error)
+        else:
+            super().report_server_error(error, source)
 
     # --- shared helpers for the feature modules ---------------------------------
 

@@ -1,5 +1,5 @@
 """Code actions: the findings' fixes (quickfix), a bare formula's predicted description,
-and converting a formula's counts to subscripts."""
+converting a formula's counts to subscripts, and cross-checking an annotation with a calculation."""
 
 from __future__ import annotations
 
@@ -9,6 +9,7 @@ from ..notation.model import Span
 from ..review.findings import Finding, Fix
 from ..review.predictions import predicted_description_fix
 from ..review.subscripts import subscript_fix
+from . import crosscheck
 from .app import HeldDocument, NoteServer
 from .diagnostics import to_diagnostic
 
@@ -42,7 +43,9 @@ def fix_actions(held: HeldDocument, findings: tuple[Finding, ...]) -> list[types
 def register(server: NoteServer) -> None:
     @server.feature(
         types.TEXT_DOCUMENT_CODE_ACTION,
-        types.CodeActionOptions(code_action_kinds=[types.CodeActionKind.QuickFix, types.CodeActionKind.RefactorRewrite]),
+        types.CodeActionOptions(
+            code_action_kinds=[types.CodeActionKind.QuickFix, types.CodeActionKind.RefactorRewrite, crosscheck.ACTION_KIND]
+        ),
     )
     def code_actions(ls: NoteServer, params: types.CodeActionParams) -> list[types.CodeAction]:
         held = ls.held(params.text_document.uri)
@@ -61,4 +64,6 @@ def register(server: NoteServer) -> None:
                 actions.append(
                     types.CodeAction(title=fix.title, kind=types.CodeActionKind.RefactorRewrite, edit=_edit(held, fix))
                 )
+        if crosscheck.wants_cross_check_actions(params.context.only):
+            actions += crosscheck.cross_check_actions(held, wanted)
         return actions

@@ -1,18 +1,24 @@
 """Cross-check an annotation with a calculation, from the editor.
 
-- a code action "Cross-check with a calculation" on each annotation
-  (:func:`cross_check_actions`, offered by the code-action handler) runs the
-  command ``notelsp.crossCheck`` with ``[uri, offset]``;
+- a source action "Cross-check ... with a calculation" on each annotation
+  (:func:`cross_check_actions`, offered by the code-action handler when the
+  editor asks for source actions) runs the command ``notelsp.crossCheck``
+  with ``[uri, offset]``;
 - the request ``notelsp/crossCheck`` with ``{"uri", "offset", "level"?}`` does
-  the same for clients that send requests directly.
+  the same for clients that send requests directly;
+- with the setting ``cross_check_automatic``, :func:`schedule_automatic`
+  (called by the diagnostics module after each open and change) cross-checks
+  the document's annotations by itself, a while after typing stops.
 
-Both report work-done progress (begin, one report per optimisation step,
-end), stop when the progress is cancelled or the request is cancelled
-(``$/cancelRequest``: the request's task is cancelled, which kills the worker
-process), and answer ``{"status", "markdown", "findings"}``.  The computed
-findings are kept per document (:func:`computed_diagnostics`) and published
-with the review's diagnostics once the calculation ends.  Nothing runs by
-itself.
+Every run reports work-done progress (begin, one report per optimisation
+step, end) and stops when the progress is cancelled or the request is
+cancelled (``$/cancelRequest``: the request's task is cancelled, which kills
+the worker process).  Requests answer ``{"status", "markdown", "findings"}``.
+The computed findings are kept per document, keyed by the annotation's text
+(:func:`computed_diagnostics`), and the diagnostics module publishes them
+with the review's, so they survive later reviews and vanish when the
+annotation is edited.  Results are also kept in memory by species and level,
+so automatic runs never repeat a calculation.
 """
 
 from __future__ import annotations
@@ -20,14 +26,15 @@ from __future__ import annotations
 import asyncio
 import itertools
 import logging
+from dataclasses import replace
 from typing import Any
 
 from lsprotocol import types
 
 from ..crosscheck.availability import missing_extra
-from ..crosscheck.levels import DEFAULT_LEVEL_TEXT, Limits, parse_level
+from ..crosscheck.levels import DEFAULT_LEVEL, DEFAULT_LEVEL_TEXT, LevelOfTheory, Limits, parse_level
 from ..crosscheck.report import cross_check_findings, cross_check_markdown
-from ..crosscheck.runner import Progress, cross_check
+from ..crosscheck.runner import CrossCheckResult, Progress, cross_check
 from ..notation.model import Annotation, Span
 from ..review.findings import Finding
 from .app import HeldDocument, NoteServer
@@ -38,7 +45,24 @@ log = logging.getLogger("notelsp.server")
 COMMAND = "notelsp.crossCheck"
 REQUEST = "notelsp/crossCheck"
 ACTION_KIND = "source.crossCheck"  # a sub-kind of source: editors list it with source actions
+AUTOMATIC_DELAY_SECONDS = 1.5  # far longer than the review's pause: a calculation costs seconds of CPU
+REMEMBERED_RESULTS = 64  # species x level results kept in memory
 _tokens = itertools.count(1)
+
+
+def wants_cross_check_actions(only: list[str] | None) -> bool:
+    """Whether a code-action request asks for source actions (``only`` names ``source`` or our kind).
+
+    Offered only then, as editors list source actions in their own menu
+    ("Source Action...", ``only = {"source"}``) and never in the light bulb.
+    It also spares clients built on lsprotocol's converter, which reads any
+    code action that carries a command as a bare Command.
+    """
+    return bool(only) and any(ACTION_KIND == kind or ACTION_KIND.startswith(f"{kind}.") for kind in map(str, only))
+
+
+def _checkable(annotation: Annotation) -> bool:
+    return annotation.formula is not None and not annotation.errors and not annotation.is_comparison
 
 
 def cross_check_actions(held: HeldDocument, wanted: Span) -> list[types.CodeAction]:
@@ -47,7 +71,7 @@ def cross_check_actions(held: HeldDocument, wanted: Span) -> list[types.CodeActi
         return []
     actions = []
     for annotation in held.review.annotations:
-        if annotation.formula is None or annotation.errors:
+        if not _checkable(annotation):
             continue
         if not (annotation.span.start <= wanted.end and wanted.start <= annotation.span.end):
             continue
@@ -62,20 +86,41 @@ def cross_check_actions(held: HeldDocument, wanted: Span) -> list[types.CodeActi
     return actions
 
 
+# --- what the server keeps between runs -----------------------------------------
+
+
+def _state(ls: NoteServer, name: str, factory):
+    """Per-server state of this feature, created on first use (the server object is not ours)."""
+    value = getattr(ls, name, None)
+    if value is None:
+        value = factory()
+        setattr(ls, name, value)
+    return value
+
+
 def _computed(ls: NoteServer) -> dict[str, dict[str, tuple[Finding, ...]]]:
     """uri -> annotation text -> computed findings (relative to the annotation's start)."""
-    store = getattr(ls, "crosscheck_findings", None)
-    if store is None:
-        store = {}
-        ls.crosscheck_findings = store  # type: ignore[attr-defined]
-    return store
+    return _state(ls, "crosscheck_findings", dict)
+
+
+def _results(ls: NoteServer) -> dict[tuple[str, str], CrossCheckResult]:
+    """(formula, level label) -> the last result, oldest first."""
+    return _state(ls, "crosscheck_results", dict)
+
+
+def _remember_result(ls: NoteServer, result: CrossCheckResult) -> None:
+    results = _results(ls)
+    results.pop((result.species, result.level.label), None)
+    results[(result.species, result.level.label)] = result
+    while len(results) > REMEMBERED_RESULTS:
+        results.pop(next(iter(results)))
 
 
 def computed_diagnostics(ls: NoteServer, held: HeldDocument) -> list[types.Diagnostic]:
     """Diagnostics of the cross-checks run on this document whose annotation is still there unchanged."""
-    if held.review is None:
+    kept = _computed(ls).get(held.uri)
+    if not kept or held.review is None:
         return []
-    kept = _computed(ls).get(held.uri, {})
     diagnostics = []
     for annotation in held.review.annotations:
         relative = kept.get(held.text[annotation.span.start : annotation.span.end])
@@ -85,13 +130,25 @@ def computed_diagnostics(ls: NoteServer, held: HeldDocument) -> list[types.Diagn
 
 
 def _shifted(finding: Finding, delta: int) -> Finding:
-    return Finding(finding.code, finding.severity, finding.message, finding.span.shifted(delta), finding.formula, finding.claim, finding.fixes)
+    return replace(finding, span=finding.span.shifted(delta))
 
 
-def _publish(ls: NoteServer, held: HeldDocument) -> None:
+def _keep_findings(ls: NoteServer, held: HeldDocument, annotation: Annotation, findings: tuple[Finding, ...]) -> None:
+    source = held.text[annotation.span.start : annotation.span.end]
+    _computed(ls).setdefault(held.uri, {})[source] = tuple(_shifted(f, -annotation.span.start) for f in findings)
+
+
+def _publish(ls: NoteServer, uri: str) -> None:
+    """Show the document's computed findings beside the review's: pushed, or a refresh asked of a pulling client."""
+    held = ls.held(uri)
+    if held is None:
+        return
     document = ls.client_capabilities.text_document
     if document and document.diagnostic:
-        return  # a pulling client asks again; the diagnostics handler can merge computed_diagnostics
+        workspace = ls.client_capabilities.workspace
+        if workspace and workspace.diagnostics and workspace.diagnostics.refresh_support:
+            ls.workspace_diagnostic_refresh(None)
+        return
     ls.text_document_publish_diagnostics(
         types.PublishDiagnosticsParams(
             uri=held.uri,
@@ -99,6 +156,13 @@ def _publish(ls: NoteServer, held: HeldDocument) -> None:
             diagnostics=diagnostics_of(held.review, held.index) + computed_diagnostics(ls, held),
         )
     )
+
+
+# --- one calculation, with progress ---------------------------------------------
+
+
+class ProgressCancelled(Exception):
+    """The user cancelled the work-done progress of a cross-check."""
 
 
 class _ProgressReporter:
@@ -114,7 +178,11 @@ class _ProgressReporter:
         if not (window and window.work_done_progress):
             return
         token = f"notelsp-crosscheck-{next(_tokens)}"
-        await self.ls.work_done_progress.create_async(token)
+        try:
+            await self.ls.work_done_progress.create_async(token)
+        except Exception as error:  # a client that refuses the progress still gets the calculation
+            log.info("work-done progress refused: %s", error)
+            return
         self.token = token
         loop = asyncio.get_running_loop()
         cancelled = self.ls.work_done_progress.tokens[token]
@@ -122,8 +190,9 @@ class _ProgressReporter:
         self.ls.work_done_progress.begin(token, types.WorkDoneProgressBegin(title=title, cancellable=True, percentage=0))
 
     def _cancel(self) -> None:
-        self.cancelled_by_client = True
-        self.task.cancel()
+        if self.token is not None:  # a cancel arriving after the end changes nothing
+            self.cancelled_by_client = True
+            self.task.cancel()
 
     def report(self, progress: Progress) -> None:
         if self.token is not None:
@@ -139,20 +208,12 @@ class _ProgressReporter:
             self.token = None
 
 
-async def run_cross_check(ls: NoteServer, uri: str, offset: int, level_text: str | None = None) -> dict[str, Any]:
-    """Cross-check the annotation at ``offset`` of the open document ``uri``; the answer both entry points give."""
-    held = ls.held(uri)
-    annotation: Annotation | None = held.review.annotation_at(offset) if held and held.review else None
-    if held is None or annotation is None or annotation.formula is None:
-        return {"status": "no-annotation", "markdown": "", "findings": [], "message": f"no annotation at offset {offset} of {uri}"}
-    try:
-        level = parse_level(level_text or DEFAULT_LEVEL_TEXT)
-    except ValueError as error:
-        return {"status": "bad-level", "markdown": "", "findings": [], "message": str(error)}
-    missing = missing_extra()
-    if missing:
-        ls.show(f"notelsp cross-check unavailable: {missing}")
-        return {"status": "missing-extra", "markdown": "", "findings": [], "message": missing}
+async def _calculated(ls: NoteServer, annotation: Annotation, level: LevelOfTheory) -> CrossCheckResult:
+    """Run the calculation of the annotation's species with work-done progress.
+
+    Raises ProgressCancelled when the user cancels the progress, CancelledError
+    when the running task is cancelled otherwise ($/cancelRequest, shutdown).
+    """
     task = asyncio.current_task()
     assert task is not None
     reporter = _ProgressReporter(ls, task)
@@ -162,22 +223,41 @@ async def run_cross_check(ls: NoteServer, uri: str, offset: int, level_text: str
         result = await cross_check(formula, level, Limits(), reporter.report)
     except asyncio.CancelledError:
         reporter.end("cancelled")
-        if not reporter.cancelled_by_client:
-            raise  # $/cancelRequest or shutdown: the request itself is cancelled
-        # the progress was cancelled: answer normally (raising here would leave
-        # an executeCommand request unanswered)
-        return {"status": "cancelled", "markdown": "", "findings": [], "message": "cancelled from the progress"}
+        if reporter.cancelled_by_client:
+            task.uncancel()
+            raise ProgressCancelled() from None
+        raise
     except Exception:
         reporter.end("failed")
         raise
     reporter.end(result.message or result.status)
+    _remember_result(ls, result)
+    return result
+
+
+async def run_cross_check(ls: NoteServer, uri: str, offset: int, level_text: str | None = None) -> dict[str, Any]:
+    """Cross-check the annotation at ``offset`` of the open document ``uri``; the answer both entry points give."""
+    held = ls.held(uri)
+    annotation: Annotation | None = held.review.annotation_at(offset) if held and held.review else None
+    if held is None or annotation is None or not _checkable(annotation):
+        return {"status": "no-annotation", "markdown": "", "findings": [], "message": f"no annotation to cross-check at offset {offset} of {uri}"}
+    try:
+        level = parse_level(level_text or DEFAULT_LEVEL_TEXT)
+    except ValueError as error:
+        return {"status": "bad-level", "markdown": "", "findings": [], "message": str(error)}
+    missing = missing_extra()
+    if missing:
+        ls.show(f"notelsp cross-check unavailable: {missing}")
+        return {"status": "missing-extra", "markdown": "", "findings": [], "message": missing}
+    try:
+        result = await _calculated(ls, annotation, level)
+    except ProgressCancelled:
+        # answer normally: raising here would leave an executeCommand request unanswered
+        return {"status": "cancelled", "markdown": "", "findings": [], "message": "cancelled from the progress"}
     findings = cross_check_findings(result, annotation, ls.settings.angle_tolerance)
     markdown = cross_check_markdown(result, annotation, ls.settings.angle_tolerance)
-    source = held.text[annotation.span.start : annotation.span.end]
-    _computed(ls).setdefault(uri, {})[source] = tuple(_shifted(f, -annotation.span.start) for f in findings)
-    current = ls.held(uri)
-    if current is not None:
-        _publish(ls, current)
+    _keep_findings(ls, held, annotation, findings)
+    _publish(ls, uri)
     ls.window_log_message(types.LogMessageParams(type=types.MessageType.Info, message=markdown))
     return {
         "status": result.status,
@@ -185,6 +265,82 @@ async def run_cross_check(ls: NoteServer, uri: str, offset: int, level_text: str
         "markdown": markdown,
         "findings": [_finding_json(f, held) for f in findings],
     }
+
+
+# --- automatic cross-checks (setting cross_check_automatic) ----------------------
+
+
+def _automatic_tasks(ls: NoteServer) -> dict[str, asyncio.Task]:
+    return _state(ls, "crosscheck_automatic", dict)
+
+
+def _calculating(ls: NoteServer) -> set[str]:
+    """Documents whose automatic run is past its pause and calculating."""
+    return _state(ls, "crosscheck_calculating", set)
+
+
+def _look_again(ls: NoteServer) -> set[str]:
+    """Documents edited while their automatic run was calculating."""
+    return _state(ls, "crosscheck_look_again", set)
+
+
+def schedule_automatic(ls: NoteServer, uri: str, delay: float = AUTOMATIC_DELAY_SECONDS) -> None:
+    """After an open or change: cross-check the document's new annotations once typing pauses.
+
+    Does nothing unless ``cross_check_automatic`` is set.  An edit during the
+    pause restarts it; an edit during a calculation lets the calculation
+    finish (its result is kept either way) and looks at the document again after.
+    """
+    if not ls.settings.cross_check_automatic:
+        return
+    tasks = _automatic_tasks(ls)
+    running = tasks.get(uri)
+    if running is not None and not running.done():
+        if uri in _calculating(ls):
+            _look_again(ls).add(uri)
+            return
+        running.cancel()
+    tasks[uri] = asyncio.get_running_loop().create_task(_automatic_run(ls, uri, delay))
+
+
+def _unchecked(ls: NoteServer, held: HeldDocument) -> list[Annotation]:
+    """The checkable annotations with no computed findings kept for their text yet."""
+    if held.review is None:
+        return []
+    kept = _computed(ls).get(held.uri, {})
+    return [a for a in held.review.annotations if _checkable(a) and held.text[a.span.start : a.span.end] not in kept]
+
+
+async def _automatic_run(ls: NoteServer, uri: str, delay: float) -> None:
+    await asyncio.sleep(delay)
+    if missing_extra():
+        return  # nothing to run; an explicit request says how to install the extra
+    lock = _state(ls, "crosscheck_lock", asyncio.Lock)  # one automatic calculation at a time: CPU is shared
+    _calculating(ls).add(uri)
+    try:
+        while True:
+            _look_again(ls).discard(uri)
+            held = ls.held(uri)
+            if held is None or not ls.settings.cross_check_automatic:
+                return
+            for annotation in _unchecked(ls, held):
+                result = _results(ls).get((annotation.formula.text, DEFAULT_LEVEL.label))
+                if result is None:
+                    try:
+                        async with lock:
+                            result = await _calculated(ls, annotation, DEFAULT_LEVEL)
+                    except ProgressCancelled:
+                        _keep_findings(ls, held, annotation, ())  # declined: not again until the annotation is edited
+                        continue
+                findings = cross_check_findings(result, annotation, ls.settings.angle_tolerance)
+                _keep_findings(ls, held, annotation, findings)
+                _publish(ls, uri)
+            if uri not in _look_again(ls):
+                return
+    except Exception:
+        log.exception("automatic cross-check of %s failed", uri)
+    finally:
+        _calculating(ls).discard(uri)
 
 
 def _finding_json(finding: Finding, held: HeldDocument) -> dict[str, Any]:

@@ -51,7 +51,27 @@ def _client_pulls(ls: NoteServer) -> bool:
     return bool(document and document.diagnostic)
 
 
+def _computed(ls: NoteServer, uri: str) -> list[types.Diagnostic]:
+    """Findings of cross-checks run on this document (optional feature notelsp.server.crosscheck)."""
+    try:
+        from .crosscheck import computed_diagnostics  # imported late: it imports this module
+    except ImportError:
+        return []
+    held = ls.held(uri)
+    return [] if held is None else computed_diagnostics(ls, held)
+
+
+def _cross_check_later(ls: NoteServer, uri: str) -> None:
+    """Let the optional cross-check look at the edit (it runs only with cross_check_automatic)."""
+    try:
+        from .crosscheck import schedule_automatic
+    except ImportError:
+        return
+    schedule_automatic(ls, uri)
+
+
 def schedule(ls: NoteServer, uri: str, delay: float = DEBOUNCE_SECONDS) -> None:
+    _cross_check_later(ls, uri)
     if _client_pulls(ls):
         return
     tasks = ls.pending
@@ -78,6 +98,7 @@ async def _publish_later(ls: NoteServer, uri: str, delay: float) -> None:
     current = ls.open_document(uri)
     if current is None or current.version != version:
         return  # stale: a newer change has its own publication scheduled (or the document closed)
+    diagnostics += _computed(ls, uri)
     ls.text_document_publish_diagnostics(
         types.PublishDiagnosticsParams(uri=uri, version=version, diagnostics=diagnostics)
     )
@@ -117,5 +138,5 @@ def register(server: NoteServer) -> None:
     )
     def pulled(ls: NoteServer, params: types.DocumentDiagnosticParams) -> types.FullDocumentDiagnosticReport:
         held = ls.held(params.text_document.uri)
-        items = [] if held is None else diagnostics_of(held.review, held.index)
+        items = [] if held is None else diagnostics_of(held.review, held.index) + _computed(ls, held.uri)
         return types.FullDocumentDiagnosticReport(items=items)

@@ -42,3 +42,13 @@ def test_bond_length_trends(formula):
     c2f6, c2h6 = (analyse(formula(t)).centres[0] for t in ("C2F6", "C2H6"))
     assert bond_length_trend(("C", c2f6.ligands), ("C", c2h6.ligands), ("C", "C")).relation == "shorter"
     assert bond_length_trend(("C", c2h6.ligands), ("C", c2h6.ligands), ("C", "C")) is None
+
+
+def test_summary_states_orders_and_the_steric_exception(formula):
+    ch2f2 = analyse(formula("CH2F2")).centres[0].bent.summary()
+    assert "F-C-F < H-C-H (high confidence)" in ch2f2
+    ch2cl2 = analyse(formula("CH2Cl2")).centres[0].bent.summary()
+    assert "H-C-H < Cl-C-Cl (steric exception, low confidence)" in ch2cl2
+    assert "axial preference F > Cl" in analyse(formula("PCl3F2")).centres[0].bent.summary()
+    assert "lone pair" in analyse(formula("NH3")).centres[0].bent.summary()
+    assert analyse(formula("CH4")).centres[0].bent.summary() == ""  # nothing to predict: hover leaves it out

@@ -70,3 +70,13 @@ def test_analysis_uses_typical_angles_and_skips_hypervalent_centres(formula):
     assert analyse(formula("SF6")).centres[0].coulson is None
     xef2 = analyse(formula("BF3")).centres[0].coulson
     assert xef2.bond("F").index == pytest.approx(2.0) and xef2.angle_source == "predicted range midpoint"
+
+
+def test_summary_gives_each_bond_hybrid_and_the_lone_pairs_share(formula):
+    ch4 = analyse(formula("CH4")).centres[0].coulson.summary()
+    assert "H sp^3.00 (25% s)" in ch4 and "lone pair" not in ch4  # 109.47° is exactly sp3 (hand-checked)
+    h2o = analyse(formula("H2O")).centres[0].coulson.summary()
+    assert "per lone pair" in h2o and "ASE G2" in h2o
+    # CH2F2's G2 angles over-determine the indices; the fit still spends about one s orbital
+    ch2f2 = analyse(formula("CH2F2")).centres[0].coulson
+    assert ch2f2.consistent and "do not fit" not in ch2f2.summary()

@@ -33,3 +33,14 @@ def test_each_failed_condition_says_why(formula, text, failed, words):
     condition = next(c for c in drago.failed if c.name == failed)
     assert words in condition.why
     assert all(c.holds for c in drago.conditions if c.name != failed) or text == "SiH4"  # SiH4 has no lone pair either
+
+
+def test_summary_is_one_line_naming_the_deciding_conditions(formula):
+    # the conditions are the textbook statement of Drago's rule (from memory)
+    ph3 = analyse(formula("PH3")).centres[0].drago.summary()
+    assert ph3.startswith("applies: ") and "period 3" in ph3 and "group 15" in ph3 and "near 90°" in ph3
+    pf3 = analyse(formula("PF3")).centres[0].drago.summary()
+    assert pf3.startswith("does not apply: ") and "F (3.98)" in pf3 and "hybridizes" in pf3  # Pauling EN of F
+    nh3 = analyse(formula("NH3")).centres[0].drago.summary()
+    assert "period 2" in nh3 and "F" not in nh3
+    assert all("\n" not in s for s in (ph3, pf3, nh3))

@@ -246,3 +246,33 @@ def test_sites_carry_labels_symbols_and_vectors():
         for site in isomer.sites:
             assert site.symbol == (None if site.label == LONE_PAIR else ("O" if site.label == "OH" else "F"))
             assert abs(sum(v * v for v in site.vector) - 1.0) < 1e-9
+
+
+# --- through the analysis -------------------------------------------------------
+
+
+def test_analysis_ranks_isomers_with_the_centre_electronegativity(formula):
+    from notelsp.chem import analyse
+
+    centre_ = analyse(formula("PCl3F2")).centres[0]
+    direct = isomers_for("trigonal-bipyramidal", centre_.ligands, 0, centre_electronegativity=centre("P"))
+    assert centre_.isomers == direct
+
+
+def test_analysis_places_an_odd_electron_on_a_site_of_its_own(formula):
+    from notelsp.chem import analyse
+
+    no2 = analyse(formula("NO2")).centres[0]  # bent radical, C2v (from memory)
+    assert [i.point_group for i in expected(no2.isomers)] == ["C2v"]
+    assert not any("isomers" in note for note in no2.notes)
+
+
+def test_analysis_turns_isomer_failures_into_a_note(formula, monkeypatch):
+    from notelsp.chem import analysis
+
+    def refuse(*args, **kwargs):
+        raise IsomerLimitExceeded("too many")
+
+    monkeypatch.setattr(analysis.isomer_module, "isomers_for", refuse)
+    centre_ = analysis._analyse(formula("SF4")).centres[0]  # uncached: the real analysis
+    assert centre_.isomers == () and any("too many arrangements" in note for note in centre_.notes)

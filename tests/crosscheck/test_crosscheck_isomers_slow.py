@@ -24,7 +24,7 @@ def test_chlorine_equatorial_is_lower_in_energy():
     order = energy_order(result)
     assert [e.isomer.isomer for e in order] == ["Cl equatorial", "Cl axial"]
     assert all(e.isomer.converged for e in order)
-    assert order[1].relative_kj_per_mol > 2  # a clear gap, not numerical noise
+    assert order[1].relative_kj_per_mol > 2, order  # a clear gap, not numerical noise (12.6 kJ/mol when last run)
     (annotation,) = scan("{PF4Cl: Cl axial}", "markdown").annotations
     (placement,) = [f for f in cross_check_findings(result, annotation) if f.code == "computed-placement"]
     assert placement.severity is Severity.WARNING and placement.message.startswith("computed (HF/3-21G)")

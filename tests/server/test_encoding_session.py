@@ -45,7 +45,7 @@ async def test_diagnostic_and_fix_columns_in_the_negotiated_encoding(client: Lan
     actions = await client.text_document_code_action_async(
         types.CodeActionParams(types.TextDocumentIdentifier(uri), diagnostics[0].range, types.CodeActionContext(diagnostics))
     )
-    fix = next(a for a in actions if a.kind == types.CodeActionKind.QuickFix)
+    fix = next(a for a in actions if isinstance(a, types.CodeAction) and a.kind == types.CodeActionKind.QuickFix)
     fixed = apply_edits(NOTE, fix.edit.changes[uri], chosen)
     assert fixed == NOTE.replace("trigonal planar", "t-shaped")
 

@@ -2,10 +2,12 @@
 
 from __future__ import annotations
 
+import math
 from collections.abc import Iterator
 
 from ...chem.bent import bond_length_trend
 from ...chem.coulson import TYPICAL_ANGLES
+from ...chem.isomers import expected
 from ...notation.model import AngleClaim, AngleOrderClaim, BondLengthClaim
 from ..findings import Finding, Severity
 from . import RuleContext, rule
@@ -29,6 +31,26 @@ def _typical(formula: str, pair: tuple[str, str]) -> float | None:
     return next((v for k, v in table.items() if tuple(sorted(k)) == pair), None)
 
 
+def _in_expected_isomer(centre, ranges):
+    """Keep the ranges whose ideal angle the expected isomer really has between these two ligands.
+
+    Without this, F-P-F in PCl3F2 could be any of 90, 120 or 180 degrees; with both F axial it is 180.
+    """
+    best = expected(centre.isomers)
+    if not best or not ranges:
+        return ranges
+    pair = ranges[0].ligands
+    present = set()
+    for isomer in best:
+        for i, first in enumerate(isomer.sites):
+            for second in isomer.sites[i + 1:]:
+                if tuple(sorted((first.label, second.label))) == pair:
+                    cosine = sum(a * b for a, b in zip(first.vector, second.vector))
+                    present.add(math.degrees(math.acos(max(-1.0, min(1.0, cosine)))))
+    kept = tuple(r for r in ranges if any(abs(r.ideal - angle) < 1.0 for angle in present))
+    return kept or ranges
+
+
 @rule("implausible-angle", severity=Severity.WARNING, claims=(AngleClaim,))
 def implausible_angle(context: RuleContext) -> Iterator[Finding]:
     """A claimed bond angle lies outside the range VSEPR and the bonding rules predict.
@@ -44,8 +66,8 @@ def implausible_angle(context: RuleContext) -> Iterator[Finding]:
     centre = centre_named(context.analysis, claim.atoms[1] if claim.atoms else None)
     if centre is None:
         return
-    if claim.atoms:
-        ranges = centre.ranges_for(claim.atoms[0], claim.atoms[2])
+    if claim.atoms:  # between two named ligands only the expected isomer's angles count
+        ranges = _in_expected_isomer(centre, centre.ranges_for(claim.atoms[0], claim.atoms[2]))
     else:
         ranges = centre.angle_ranges
     if not ranges:
@@ -92,7 +114,7 @@ def angle_order_against_bent(context: RuleContext) -> Iterator[Finding]:
     if claim.relation == predicted:
         return
     left, right = "-".join(claim.left), "-".join(claim.right)
-    note = " (steric crowding overrides the electronic order; lower confidence)" if order.steric_override else ""
+    note = f" (low confidence: {order.reason})" if order.steric_override else ""
     yield context.finding(
         f"{context.analysis.formula}: claimed {left} {claim.relation} {right}; predicted {left} {predicted} {right}{note}",
         fixes=[context.replace_claim(f"{left} {predicted} {right}")],

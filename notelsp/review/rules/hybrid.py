@@ -9,7 +9,7 @@ from ...chem.coulson import index_from_angle, s_character
 from ...notation.model import AngleClaim, HybridizationClaim, IndexClaim, SCharacterClaim
 from ..findings import Finding, Severity
 from . import RuleContext, rule
-from .angles import centre_named
+from .angles import _degrees, centre_named
 
 
 def _angle_window(context: RuleContext, centre, ligand: str | None) -> tuple[float, float, str] | None:
@@ -29,7 +29,7 @@ def _angle_window(context: RuleContext, centre, ligand: str | None) -> tuple[flo
     if len(ranges) != 1:
         return None  # several site relations (or no such pair): no single angle for the hybrid
     r = ranges[0]
-    return r.low - tolerance, r.high + tolerance, f"the predicted {ligand}-{centre.central}-{ligand} angle {r.low:g}-{r.high:g}°"
+    return r.low - tolerance, r.high + tolerance, f"the predicted {ligand}-{centre.central}-{ligand} angle {_degrees(r.low)}-{_degrees(r.high)}°"
 
 
 def _index_bounds(low: float, high: float) -> tuple[float, float]:

@@ -51,6 +51,8 @@ def placement_holds(isomer: Isomer, claim: PlacementClaim) -> bool | None:
     if not indices:
         return None
     if claim.site in _POSITIONS:
+        if not any(site.position == claim.site for site in isomer.sites):
+            return None  # the polyhedron has no such site ("equatorial" in an octahedron)
         here = sum(1 for i in indices if isomer.sites[i].position == claim.site)
         quantity = claim.quantity
         if quantity == "all":
@@ -86,6 +88,8 @@ def placement_text(isomer: Isomer, claim: PlacementClaim) -> str | None:
     if claim.site in _POSITIONS:
         positions = [isomer.sites[i].position for i in indices]
         counts = {p: positions.count(p) for p in _POSITIONS if p in positions}
+        if not counts:
+            return None  # only unnamed vertices: nothing to say in the claim's terms
         if len(counts) == 1:
             (where,) = counts
             return f"{_noun(claim.subject, len(indices))} {where}"
@@ -195,7 +199,7 @@ def wrong_isomer_count(context: RuleContext) -> Iterator[Finding]:
     without_mirrors = diastereomer_count(isomers)
     mirrors = "" if without_mirrors == len(isomers) else f"; {without_mirrors} if mirror images are counted once"
     yield context.finding(
-        f"{_formula(context)} is claimed to have {claim.count} isomers; predicted {len(isomers)}, "
+        f"{_formula(context)} is claimed to have {claim.count} isomer{'s' if claim.count != 1 else ''}; predicted {len(isomers)}, "
         f"counting each enantiomer separately{mirrors}",
         fixes=[context.replace_claim(_count_text(context, len(isomers)))],
     )
@@ -208,5 +212,11 @@ def _count_text(context: RuleContext, count: int) -> str:
     text = claim.text
     for written in (str(claim.count), _WORDS.get(claim.count, "")):
         if written and written in text:
-            return text.replace(written, str(count), 1)
-    return f"{count} isomers"
+            text = text.replace(written, str(count), 1)
+            break
+    else:
+        return f"{count} isomer{'s' if count != 1 else ''}"
+    # keep the noun's number in step with the new count ("two isomers" -> "1 isomer")
+    if count == 1:
+        return text.replace("isomers", "isomer")
+    return text if "isomers" in text else text.replace("isomer", "isomers")

@@ -42,7 +42,7 @@ def wrong_shape(context: RuleContext) -> Iterator[Finding]:
         return
     yield context.finding(
         f"{context.analysis.formula} is claimed {words(claim.shape)}; VSEPR predicts {words(centre.shape)} ({_domains(centre)})",
-        fixes=[context.replace_claim(centre.shape)],
+        fixes=[context.replace_claim(words(centre.shape))],  # written as the README writes shapes
     )
 
 
@@ -60,7 +60,7 @@ def wrong_electron_geometry(context: RuleContext) -> Iterator[Finding]:
     yield context.finding(
         f"{context.analysis.formula} is claimed to have {words(claim.geometry)} electron geometry; "
         f"VSEPR predicts {words(centre.electron_geometry)} ({_domains(centre)})",
-        fixes=[context.replace_claim(f"electron geometry {centre.electron_geometry}")],
+        fixes=[context.replace_claim(f"electron geometry {words(centre.electron_geometry)}")],
     )
 
 

@@ -15,7 +15,12 @@ local function run()
   local buf = vim.api.nvim_get_current_buf()
   out.filetype = vim.bo[buf].filetype
 
-  local attached = vim.wait(20000, function() return #vim.lsp.buf_get_clients(buf) > 0 end, 50)
+  -- get_clients is 0.10+; buf_get_clients (0.7-0.11) is gone in later versions
+  local function clients()
+    if vim.lsp.get_clients then return vim.lsp.get_clients({ bufnr = buf }) end
+    return vim.lsp.buf_get_clients(buf)
+  end
+  local attached = vim.wait(20000, function() return #clients() > 0 end, 50)
   table.insert(out.steps, "attached=" .. tostring(attached))
   local got = vim.wait(30000, function() return #vim.diagnostic.get(buf) > 0 end, 50)
   table.insert(out.steps, "diagnostics=" .. tostring(got))

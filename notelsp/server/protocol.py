@@ -1,0 +1,67 @@
+"""JSON-RPC faults from the client: every readable request id gets an answer, junk is logged.
+
+pygls drops a request whose params cannot be read (the client then waits
+forever) and pops an error up in the editor for every unreadable frame.  Here
+such a request is answered with its JSON-RPC error, frames that are not
+messages are answered per JSON-RPC 2.0 (error with id null), and nothing is
+shown in the editor for a fault of the wire.
+"""
+
+from __future__ import annotations
+
+import logging
+from typing import Any
+
+from pygls.exceptions import (
+    JsonRpcException,
+    JsonRpcInvalidParams,
+    JsonRpcInvalidRequest,
+    JsonRpcMethodNotFound,
+    JsonRpcParseError,
+)
+from pygls.protocol import LanguageServerProtocol
+
+log = logging.getLogger("notelsp.server")
+
+
+class HandledFault(Exception):
+    """A message that could not be read and has been answered (a request) or ignored (anything else)."""
+
+
+def _usable_id(value: Any) -> bool:
+    return isinstance(value, (int, str)) and not isinstance(value, bool)
+
+
+class NoteProtocol(LanguageServerProtocol):
+    def structure_message(self, data: dict[str, Any]):
+        try:
+            return super().structure_message(data)
+        except Exception as error:
+            if "method" not in data or "id" not in data:  # a response or notification: ignored per spec
+                raise HandledFault(f"unreadable message {data.get('method')!r}: {error}") from error
+            if not _usable_id(data["id"]):
+                self.answer_fault(None, JsonRpcInvalidRequest())
+            elif not isinstance(data["method"], str) or self.get_message_type(data["method"]) is None:
+                self.answer_fault(data["id"], JsonRpcMethodNotFound.of(str(data["method"])))
+            else:
+                self.answer_fault(data["id"], error if isinstance(error, JsonRpcException) else JsonRpcInvalidParams())
+            raise HandledFault(f"unreadable request {data.get('method')!r}: {error}") from error
+
+    def handle_message(self, message):
+        if not hasattr(message, "jsonrpc"):  # a JSON value that is no message: [], 1, {}, null
+            self.answer_fault(None, JsonRpcInvalidRequest())
+            raise HandledFault(f"not a JSON-RPC message: {type(message).__name__}")
+        return super().handle_message(message)
+
+    def answer_fault(self, msg_id: int | str | None, error: JsonRpcException) -> None:
+        if msg_id is None:  # pygls would drop the null id, which JSON-RPC 2.0 requires here
+            self._send_data({"jsonrpc": "2.0", "id": None, "error": {"code": error.code, "message": error.message}})
+        else:
+            self._send_response(msg_id, None, error.to_response_error())
+
+
+def report_wire_fault(protocol: NoteProtocol, error: Exception) -> None:
+    """A frame the reader could not handle: log it; answer unparseable JSON with a parse error."""
+    log.warning("ignored a faulty message from the client: %s", error)
+    if not isinstance(error, HandledFault):
+        protocol.answer_fault(None, JsonRpcParseError())
