@@ -118,7 +118,7 @@ def _check(
         outcome = cross_check_paths(
             [r.path for r in reviewed],
             level=level or DEFAULT_LEVEL_TEXT,
-            stream=out,
+            stream=out if output == "text" else sys.stderr,  # keep JSON and SARIF parseable
             progress=sys.stderr,
             angle_tolerance=settings.angle_tolerance,
         )

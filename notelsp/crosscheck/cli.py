@@ -96,8 +96,8 @@ def _cross_check_named(
     code = EXIT_OK
     for path, annotations in named:
         for annotation in annotations:
-            if annotation.formula is None or annotation.errors:
-                continue
+            if annotation.formula is None or annotation.errors or annotation.is_comparison:
+                continue  # a comparison's claims concern several species; one calculation cannot answer them
             formula = annotation.formula
             if formula.text not in results:
                 results[formula.text] = asyncio.run(cross_check(formula, chosen, limits, show))

@@ -40,7 +40,7 @@ def centre_markdown(centre: Any) -> str:
     if bent is not None and _summary(bent):
         lines.append(f"- Bent's rule: {_summary(bent)}")
     isomers = getattr(centre, "isomers", ())
-    if len(isomers) > 1 or (isomers and any(s.label != isomers[0].sites[0].label for s in isomers[0].sites)):
+    if len(isomers) > 1:
         lines.append(f"- isomers ({len(isomers)}), expected first:")
         for isomer in isomers:
             polarity = "polar" if isomer.polar else "nonpolar"
@@ -75,8 +75,13 @@ def species_markdown(analysis: Any) -> str:
     parts = [f"### {analysis.formula}" + (f" (charge {analysis.charge:+d})" if analysis.charge else "")]
     if analysis.outside_model:
         parts.append(f"Outside the model: {analysis.outside_model}")
+    # Symmetric two-centre molecules (N2H4, C2F6) have equal centres: describe each kind once.
+    described: dict[str, int] = {}
     for centre in analysis.centres:
-        parts.append(centre_markdown(centre))
+        text = centre_markdown(centre)
+        described[text] = described.get(text, 0) + 1
+    for text, count in described.items():
+        parts.append(text if count == 1 else f"{text}\n\n(the same for each of the {count} equivalent centres)")
     if analysis.cautions:
         parts.append("\n".join(f"> ⚠ {c}" for c in analysis.cautions))
     return "\n\n".join(parts)

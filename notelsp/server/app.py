@@ -10,6 +10,7 @@ from __future__ import annotations
 import asyncio
 import importlib
 import logging
+import sys
 from dataclasses import dataclass
 from pathlib import Path
 from urllib.parse import unquote, urlparse
@@ -23,7 +24,7 @@ from ..review.document import DocumentReview, kind_of_path
 from ..review.settings import Settings
 from ..review.workspace import cached_review, is_reviewed
 from .positions import LineIndex, line_index
-from .protocol import NoteProtocol, report_wire_fault
+from .protocol import NoteProtocol, ResyncingInput, report_wire_fault
 
 log = logging.getLogger("notelsp.server")
 
@@ -60,6 +61,9 @@ class NoteServer(LanguageServer):
         self.file_settings: Settings | None = None  # from .notelsp.toml, the base editor settings apply over
         self.root: Path | None = None
         self.pending: dict[str, asyncio.Task] = {}  # uri -> its scheduled diagnostics publication
+
+    def start_io(self, stdin=None, stdout=None) -> None:
+        super().start_io(ResyncingInput(stdin or sys.stdin.buffer), stdout)
 
     def report_server_error(self, error: Exception, source) -> None:
         if source is JsonRpcException:  # the reader's own: a faulty frame from the client, not our failure

@@ -9,7 +9,8 @@ or UTF-8 bytes / UTF-32 code points when negotiated.  Lines end at ``\\n``,
 from __future__ import annotations
 
 from bisect import bisect_right
-from dataclasses import dataclass
+import re
+from dataclasses import dataclass, field
 from functools import lru_cache
 
 from lsprotocol import types
@@ -17,6 +18,9 @@ from lsprotocol import types
 from ..notation.model import Span
 
 UTF8, UTF16, UTF32 = "utf-8", "utf-16", "utf-32"
+# Codec and bytes per unit, for counting a long slice's units at C speed.
+_CODECS = {UTF8: ("utf-8", 1), UTF16: ("utf-16-le", 2)}
+_WIDE_IN = {UTF8: re.compile(r"[^\x00-\x7f]"), UTF16: re.compile("[\U00010000-\U0010ffff]")}
 
 
 def units_of(char: str, encoding: str) -> int:
@@ -51,6 +55,17 @@ class LineIndex:
     text: str
     encoding: str
     starts: tuple[int, ...]
+    # line -> whether each of its code points is one unit; filled lazily so a
+    # 1 MB line with thousands of findings converts in linear time, not quadratic.
+    _narrow: dict[int, bool] = field(default_factory=dict, compare=False, repr=False)
+
+    def _is_narrow(self, line: int) -> bool:
+        if self.encoding == UTF32:
+            return True
+        if line not in self._narrow:
+            start, end = self.starts[line], self._line_end(line)
+            self._narrow[line] = _WIDE_IN[self.encoding].search(self.text, start, end) is None
+        return self._narrow[line]
 
     def _line_end(self, line: int) -> int:
         """Offset of the line's terminator (or the end of the text)."""
@@ -63,10 +78,11 @@ class LineIndex:
         offset = max(0, min(offset, len(self.text)))
         line = bisect_right(self.starts, offset) - 1
         start = self.starts[line]
-        if self.encoding == UTF32:
+        if self._is_narrow(line):
             character = offset - start
         else:
-            character = sum(units_of(c, self.encoding) for c in self.text[start:offset])
+            codec, width = _CODECS[self.encoding]
+            character = len(self.text[start:offset].encode(codec, "surrogatepass")) // width
         return types.Position(line=line, character=character)
 
     def offset(self, position: types.Position) -> int:
@@ -74,6 +90,8 @@ class LineIndex:
         if position.line >= len(self.starts):
             return len(self.text)
         start, end = self.starts[position.line], self._line_end(position.line)
+        if self._is_narrow(position.line):
+            return min(start + position.character, end)
         remaining, offset = position.character, start
         while offset < end and remaining > 0:
             remaining -= units_of(self.text[offset], self.encoding)

@@ -24,6 +24,29 @@ from pygls.protocol import LanguageServerProtocol
 log = logging.getLogger("notelsp.server")
 
 
+HEADER = b"Content-Length:"
+
+
+class ResyncingInput:
+    """The client's byte stream, read so that a wrong Content-Length costs one frame, not the session.
+
+    After a frame with a wrong length the next header shares its line with the
+    tail of a body; pygls only accepts a header at the start of a line, so it
+    would never find one again.  Junk before a header is dropped here.
+    """
+
+    def __init__(self, stream) -> None:
+        self.stream = stream
+
+    def readline(self) -> bytes:
+        line = self.stream.readline()
+        at = line.find(HEADER)
+        return line[at:] if at > 0 else line
+
+    def read(self, size: int) -> bytes:
+        return self.stream.read(size)
+
+
 class HandledFault(Exception):
     """A message that could not be read and has been answered (a request) or ignored (anything else)."""
 

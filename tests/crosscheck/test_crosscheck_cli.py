@@ -52,7 +52,7 @@ def test_bad_level_and_unreadable_file(tmp_path):
 def _notelsp(*arguments: str, cache) -> subprocess.CompletedProcess:
     environment = {**os.environ, "NOTELSP_CACHE_DIR": str(cache)}
     return subprocess.run(
-        [sys.executable, "-m", "notelsp", *arguments], capture_output=True, text=True, timeout=300, env=environment
+        [sys.executable, "-m", "notelsp", *arguments], capture_output=True, text=True, timeout=240, env=environment
     )
 
 
