@@ -2,6 +2,7 @@
 #   make demo   - create .venv, install notelsp, check the bundled demo notes
 #   make test   - the same install plus test extras, then the whole test suite
 #   make bench  - the same install, then the benchmarks (prints one 'name: value' per figure)
+#   make fuzz   - the reliability tests with larger example counts and the full 10 s edit storm
 PYTHON ?= python3
 VENV   ?= .venv
 PY     := $(VENV)/bin/python
@@ -47,6 +48,10 @@ neovim:
 
 bench: $(STAMP)
 	$(PY) benchmarks/run.py
+
+# Same tests as in `make test`, pushed harder (tests/reliability/scale.py reads NOTELSP_FUZZ).
+fuzz: $(STAMP)
+	NOTELSP_FUZZ=1 $(PY) -m pytest -q -ra tests/reliability tests/notation/test_properties.py
 
 clean:
 	rm -rf $(VENV) build dist *.egg-info

@@ -6,7 +6,8 @@ edit_ms: one-line edit in the middle of the note -> the publishDiagnostics for
 that version, the server's debounce included.
 hover_ratio_p50: median hover round trip on notelsp ÷ the same on a bare
 pygls server answering a constant (bare_server.py, same transport).
-rss_mb: server resident memory once the note has been analysed.
+rss_mb: server resident memory once the note has been analysed
+(rss_mb_after_edits: the same after the edits).
 """
 
 from __future__ import annotations
@@ -81,14 +82,21 @@ def _hover_position(text: str) -> dict[str, int]:
     return {"line": line, "character": column}  # the note is BMP-only: code points equal UTF-16 units
 
 
-def _hover_round_trips(client: StdioClient, uri: str, position: dict[str, int]) -> list[float]:
+def _hover_round_trip(client: StdioClient, params: dict) -> float:
+    start = time.perf_counter()
+    client.request("textDocument/hover", params)
+    return time.perf_counter() - start
+
+
+def _hover_samples(ours: StdioClient, bare: StdioClient, uri: str, position: dict[str, int]) -> tuple[list, list]:
+    """Round trips on both servers, alternating, so both see the same load on a shared machine."""
     params = {"textDocument": {"uri": uri}, "position": position}
-    client.request("textDocument/hover", params)  # first hover: any lazy work out of the way
-    samples = []
+    for client in (ours, bare):
+        _hover_round_trip(client, params)  # first hover: any lazy work out of the way
+    samples: tuple[list, list] = ([], [])
     for _ in range(HOVERS):
-        start = time.perf_counter()
-        client.request("textDocument/hover", params)
-        samples.append(time.perf_counter() - start)
+        samples[0].append(_hover_round_trip(ours, params))
+        samples[1].append(_hover_round_trip(bare, params))
     return samples
 
 
@@ -133,19 +141,17 @@ def measure() -> dict[str, str]:
                 latencies.append(_diagnostics_for(client, uri, version).at - sent)
             figures["edit_ms_p50"] = f"{_percentile(latencies, 0.50) * 1e3:.0f}"
             figures["edit_ms_p95"] = f"{_percentile(latencies, 0.95) * 1e3:.0f}"
+            figures["rss_mb_after_edits"] = f"{client.rss_mb():.0f}"
 
-            position = _hover_position(text)
-            ours = _hover_round_trips(client, uri, position)
+            bare = StdioClient(BARE, cwd=str(root))
+            try:
+                bare.initialize(root.as_uri())
+                _open(bare, uri, text)
+                ours, floor = _hover_samples(client, bare, uri, _hover_position(text))
+            finally:
+                bare.close()
         finally:
             client.close()
-
-        bare = StdioClient(BARE, cwd=str(root))
-        try:
-            bare.initialize(root.as_uri())
-            _open(bare, uri, text)
-            floor = _hover_round_trips(bare, uri, position)
-        finally:
-            bare.close()
         figures["hover_ms_p50"] = f"{statistics.median(ours) * 1e3:.2f}"
         figures["hover_floor_ms_p50"] = f"{statistics.median(floor) * 1e3:.2f}"
         figures["hover_ratio_p50"] = f"{statistics.median(ours) / statistics.median(floor):.2f}"

@@ -177,7 +177,8 @@ def _glob_match(relative: str, pattern: str) -> bool:
 
 def _read_note(path: Path) -> str:
     try:
-        with open(path, encoding="utf-8", newline="") as handle:  # keep CRLF: offsets must match the file
+        # keep CRLF: offsets must match the file; a leading BOM is no column (editors hide it too)
+        with open(path, encoding="utf-8-sig", newline="") as handle:
             return handle.read()
     except UnicodeDecodeError as error:
         raise UsageError(f"cannot read {path}: not UTF-8 text (byte {error.start})") from None
@@ -207,7 +208,10 @@ def _load_settings(config: str | None, paths: Sequence[str]):
 
 
 def _nearest_config(start: Path) -> Path | None:
-    folder = start.resolve()
+    try:
+        folder = start.resolve()
+    except (OSError, RuntimeError):  # a symlink loop: look from where it was named instead
+        folder = start.absolute()
     if not folder.is_dir():
         folder = folder.parent
     for candidate in (folder, *folder.parents):
@@ -230,7 +234,8 @@ def _explain(formula_text: str, output: str, out: TextIO) -> int:
     try:
         formula = parse_formula(formula_text)
     except NotationSyntaxError as problem:
-        raise UsageError(f"cannot read the formula {formula_text!r}: {problem.error.message}") from None
+        shown = formula_text if len(formula_text) <= 80 else formula_text[:77] + "..."
+        raise UsageError(f"cannot read the formula {shown!r}: {problem.error.message}") from None
     analysis = analyse(formula)
     if output == "json":
         json.dump(analysis_to_dict(analysis), out, ensure_ascii=False, indent=2)

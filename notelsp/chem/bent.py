@@ -167,6 +167,16 @@ def bond_length_trend(first: tuple[str, Sequence[Ligand]], second: tuple[str, Se
     if abs(gap) < 0.3:
         return None
     relation: Literal["shorter", "longer"] = "shorter" if gap > 0 else "longer"
+    if bond[0] == bond[1]:
+        # The bond between the two centres of a symmetric molecule: the electronic
+        # argument says shorter, but the crowded, mutually repelling CX3 ends win.
+        # CF3 for CH3 lengthens the C-C bond by 0.03-0.04 A (gas-phase electron
+        # diffraction, Hilderbrandt, Andreassen & Bauer, J. Phys. Chem. 74, 1586 (1970)).
+        overridden: Literal["shorter", "longer"] = "longer" if relation == "shorter" else "shorter"
+        reason = (f"Bent's rule alone would make the {bond[0]}-{bond[1]} hybrids s-richer and the bond {relation}, "
+                  "but repulsion between the electronegative ends wins: measured central bonds lengthen "
+                  "when H is replaced by F (steric and electrostatic override, low confidence)")
+        return BondLengthTrend(overridden, reason, "low")
     reason = ("Bent's rule: more electronegative neighbours draw p character, leaving the "
               f"{bond[0]}-{bond[1]} hybrid s-richer and the bond shorter in the species with them")
     return BondLengthTrend(relation, reason, "high" if abs(gap) >= 1.0 else "medium")

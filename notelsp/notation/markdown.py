@@ -24,6 +24,7 @@ from .model import Span
 BONDING_INFO = "bonding"
 _SKIPPED_INLINE_RULES = ("math_inline", "escape", "backticks", "autolink", "html_inline", "image")
 _SKIPS_KEY = "notelsp_skips"
+_SKIP_STARTS = frozenset("$\\`<![")  # the characters the skipped inline rules (and links) begin with
 
 
 @dataclass(frozen=True, slots=True)
@@ -69,6 +70,9 @@ def _inline_with_skips(state: Any) -> None:
                 token.children = []
             if "{" not in token.content:
                 continue  # no annotation can start here: leave its inline structure unparsed
+            if _SKIP_STARTS.isdisjoint(token.content):
+                token.meta["skips"] = ()  # none of the skipped constructs can begin here
+                continue
             state.env[_SKIPS_KEY] = []
             state.md.inline.parse(token.content, state.md, state.env, token.children)
             token.meta["skips"] = tuple(state.env.pop(_SKIPS_KEY))

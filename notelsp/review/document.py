@@ -107,7 +107,8 @@ def forget_cached_results() -> None:
     """
     from ..notation import markdown, scanner, transform
 
-    for cached in (_cached_review, _placed_review, transform.parse_body, scanner._segment_annotations, scanner._block_annotation):
+    caches = (_cached_review, _placed_review, transform.parse_body, scanner._segment_annotations, scanner._block_annotation)
+    for cached in caches:
         cached.cache_clear()
     markdown.forget_documents()
 

@@ -44,6 +44,9 @@ def run(tcp: str | None = None) -> int:
     server = build_server()
     if address is None:
         server.start_io()
+        from .protocol import leave_now
+
+        leave_now(server.protocol.exit_status)  # skip the interpreter's slow teardown
     else:
         server.start_tcp(*address)
     return 0

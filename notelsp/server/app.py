@@ -24,7 +24,7 @@ from ..review.document import DocumentReview, kind_of_path
 from ..review.settings import Settings
 from ..review.workspace import cached_review, is_reviewed
 from .positions import LineIndex, line_index
-from .protocol import NoteProtocol, ResyncingInput, report_wire_fault
+from .protocol import NoteProtocol, ResyncingInput, leave_now, report_wire_fault
 
 log = logging.getLogger("notelsp.server")
 
@@ -63,7 +63,8 @@ class NoteServer(LanguageServer):
         self.pending: dict[str, asyncio.Task] = {}  # uri -> its scheduled diagnostics publication
 
     def start_io(self, stdin=None, stdout=None) -> None:
-        super().start_io(ResyncingInput(stdin or sys.stdin.buffer), stdout)
+        # End of input means the client is gone: status 0 (LSP), without waiting for running reviews.
+        super().start_io(ResyncingInput(stdin or sys.stdin.buffer, on_end=leave_now), stdout)
 
     def report_server_error(self, error: Exception, source) -> None:
         if source is JsonRpcException:  # the reader's own: a faulty frame from the client, not our failure
@@ -86,7 +87,7 @@ class NoteServer(LanguageServer):
         if self.root is not None:
             try:
                 return path.resolve().relative_to(self.root.resolve()).as_posix()
-            except ValueError:
+            except (ValueError, OSError, RuntimeError):  # outside the root, or a symlink loop
                 pass
         return path.name
 

@@ -10,7 +10,9 @@ shown in the editor for a fault of the wire.
 from __future__ import annotations
 
 import logging
-from typing import Any
+import os
+import sys
+from typing import Any, Callable, NoReturn
 
 from pygls.exceptions import (
     JsonRpcException,
@@ -27,6 +29,18 @@ log = logging.getLogger("notelsp.server")
 HEADER = b"Content-Length:"
 
 
+def leave_now(status: int = 0) -> NoReturn:
+    """Exit at once: a review still running or the interpreter's teardown (over a second with
+    the element tables loaded) must not keep a server alive whose client is gone."""
+    for stream in (sys.stdout, sys.stderr):
+        try:
+            stream.flush()
+        except Exception:  # the client may have closed the pipe: nothing left to tell it
+            pass
+    logging.shutdown()
+    os._exit(status)
+
+
 class ResyncingInput:
     """The client's byte stream, read so that a wrong Content-Length costs one frame, not the session.
 
@@ -35,11 +49,14 @@ class ResyncingInput:
     would never find one again.  Junk before a header is dropped here.
     """
 
-    def __init__(self, stream) -> None:
+    def __init__(self, stream, on_end: Callable[[], Any] | None = None) -> None:
         self.stream = stream
+        self.on_end = on_end  # called when the client closes its end
 
     def readline(self) -> bytes:
         line = self.stream.readline()
+        if not line and self.on_end is not None:
+            self.on_end()
         at = line.find(HEADER)
         return line[at:] if at > 0 else line
 
@@ -70,7 +87,11 @@ class NoteProtocol(LanguageServerProtocol):
                 self.answer_fault(data["id"], error if isinstance(error, JsonRpcException) else JsonRpcInvalidParams())
             raise HandledFault(f"unreadable request {data.get('method')!r}: {error}") from error
 
+    exit_status = 0  # LSP: 1 when ``exit`` comes without ``shutdown`` before it
+
     def handle_message(self, message):
+        if getattr(message, "method", None) == "exit":
+            self.exit_status = 0 if self._shutdown else 1
         if not hasattr(message, "jsonrpc"):  # a JSON value that is no message: [], 1, {}, null
             self.answer_fault(None, JsonRpcInvalidRequest())
             raise HandledFault(f"not a JSON-RPC message: {type(message).__name__}")

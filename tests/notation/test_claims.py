@@ -73,7 +73,7 @@ def test_hybridization(text, label, index):
 
 
 def test_unknown_hybridization_label():
-    error = error_of("sp4")
+    error = error_of("sp3d4")  # "sp4" is a Coulson index (sp^4), see below
     assert error.code == "unknown-claim"
 
 
@@ -226,3 +226,13 @@ def test_known_words_in_a_wrong_form_are_malformed(text):
 def test_offsets_are_shifted_and_trimmed():
     claim, _ = parse_claim("  bent ", 10)
     assert claim.span.start == 12 and claim.span.end == 16
+
+
+@pytest.mark.parametrize(("text", "index"), [("sp^4", 4.0), ("sp4", 4.0), ("sp^2.4", 2.4), ("sp12", 12.0)])
+def test_whole_number_coulson_index_is_a_fractional_hybridization(text, index):
+    from notelsp.notation.transform import parse_claim
+    from notelsp.notation.model import HybridizationClaim
+
+    claim, errors = parse_claim(text)
+    assert not errors
+    assert isinstance(claim, HybridizationClaim) and claim.label is None and claim.index == index

@@ -180,7 +180,7 @@ def test_edits_past_the_end_and_stale_versions_keep_the_server_consistent(server
 
 
 def test_cancel_request_in_flight(server):
-    server.send(_request_body := {"jsonrpc": "2.0", "id": 77, "method": "textDocument/codeAction", "params": {
+    server.send({"jsonrpc": "2.0", "id": 77, "method": "textDocument/codeAction", "params": {
         "textDocument": {"uri": NOTE_URI}, "range": {"start": {"line": 1, "character": 0},
                                                      "end": {"line": 1, "character": 20}},
         "context": {"diagnostics": []}}})
@@ -199,7 +199,10 @@ def test_random_byte_storm(server):
     count = scaled(300, 5_000)
     for _ in range(count):
         choice = rng.random()
-        if choice < 0.3:
+        if choice < 0.1:  # a wrong length, either way
+            body = json.dumps({"jsonrpc": "2.0", "method": "notelsp/noise", "params": {"n": rng.random()}}).encode()
+            chunk = b"Content-Length: %d\r\n\r\n" % max(1, len(body) + rng.randrange(-20, 20)) + body
+        elif choice < 0.3:
             chunk = frame(bytes(rng.randrange(256) for _ in range(rng.randrange(1, 60))))
         elif choice < 0.6:
             cut = rng.randrange(len(valid))
@@ -210,4 +213,5 @@ def test_random_byte_storm(server):
                                                   "params": rng.choice([1, "s", [], {}])}])).encode())
         server.send_raw(chunk)
     tried("protocol fault frames sent", count)
+    server.send_raw(b"\r\n" * 3 + message({"jsonrpc": "2.0", "method": "notelsp/sacrificed", "params": {"p": "x" * 60}}))
     _still_serving(server)

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from notelsp.notation.model import Span
 from notelsp.review.document import DocumentReview, review_text
-from notelsp.review.findings import Finding, Severity
+from notelsp.review.findings import Finding
 from notelsp.review.rules import RULES
 
 
@@ -47,5 +47,3 @@ def fixed(text: str, finding: Finding, which: int = 0) -> str:
     fix = finding.fixes[which]
     return text[: fix.span.start] + fix.replacement + text[fix.span.end :]
 
-
-__all__ = ["Severity", "assert_clean", "assert_flagged", "fixed", "review", "span_of", "with_code"]

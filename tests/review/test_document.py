@@ -10,7 +10,6 @@ import re
 
 import pytest
 
-from notelsp.notation.model import Span
 from notelsp.review.document import kind_of_path, review_text
 from notelsp.review.findings import Finding, Severity
 from notelsp.review.rules import RULES

@@ -127,7 +127,10 @@ def bond_length_against_bent(context: RuleContext) -> Iterator[Finding]:
 
     Electronegative neighbours draw p character into their own bonds, leaving
     the remaining bond's hybrid s-richer, hence shorter: C-F is shorter in CF4
-    than in CH3F.  Checked only in comparisons (``A vs B``).
+    than in CH3F.  The bond between two fluorinated centres is the known
+    exception: repulsion between the ends lengthens it (C-C in C2F6 is longer
+    than in C2H6), so that prediction carries low confidence.  Checked only in
+    comparisons (``A vs B``).
     """
     claim = context.claim
     if not isinstance(claim, BondLengthClaim) or len(context.analyses) != 2:
@@ -146,6 +149,6 @@ def bond_length_against_bent(context: RuleContext) -> Iterator[Finding]:
     first, second = (a.formula for a in context.analyses)
     bond = "-".join(claim.bond)
     yield context.finding(
-        f"{first} vs {second}: {bond} is claimed {claim.relation} in {first}; Bent's rule predicts {trend.relation}",
+        f"{first} vs {second}: {bond} is claimed {claim.relation} in {first}; predicted {trend.relation} ({trend.reason})",
         fixes=[context.replace_claim(f"{bond} {trend.relation}")],
     )
