@@ -49,7 +49,7 @@ def is_reviewed(relative_path: str, settings: Settings) -> bool:
     return any(_glob_pattern(glob).match(path) for glob in settings.globs)
 
 
-@lru_cache(maxsize=64)
+@lru_cache(maxsize=8)  # a few versions of the open notes; each holds the text
 def cached_review(text: str, kind: "DocumentKind", settings: Settings) -> "DocumentReview":
     """``review_text`` memoised: hover, actions and hints on an unchanged text share one review."""
     from .document import review_text  # file selection above stays importable without the analysis stack

@@ -12,6 +12,7 @@ import importlib
 import logging
 import sys
 from dataclasses import dataclass
+from functools import lru_cache
 from pathlib import Path
 from urllib.parse import unquote, urlparse
 
@@ -80,16 +81,7 @@ class NoteServer(LanguageServer):
 
     def relative_path(self, uri: str) -> str | None:
         """The document's path relative to the workspace root (or its name), None for non-file URIs."""
-        parsed = urlparse(uri)
-        if parsed.scheme not in ("file", ""):
-            return Path(unquote(parsed.path)).name or None
-        path = Path(unquote(parsed.path))
-        if self.root is not None:
-            try:
-                return path.resolve().relative_to(self.root.resolve()).as_posix()
-            except (ValueError, OSError, RuntimeError):  # outside the root, or a symlink loop
-                pass
-        return path.name
+        return _relative_path(uri, self.root)
 
     def is_reviewed(self, uri: str) -> bool:
         relative = self.relative_path(uri)
@@ -117,6 +109,20 @@ class NoteServer(LanguageServer):
         log.warning("%s", message)
         self.window_log_message(types.LogMessageParams(type=kind, message=message))
         self.window_show_message(types.ShowMessageParams(type=kind, message=message))
+
+
+@lru_cache(maxsize=1024)  # resolving a path touches the file system; asked on every request
+def _relative_path(uri: str, root: Path | None) -> str | None:
+    parsed = urlparse(uri)
+    if parsed.scheme not in ("file", ""):
+        return Path(unquote(parsed.path)).name or None
+    path = Path(unquote(parsed.path))
+    if root is not None:
+        try:
+            return path.resolve().relative_to(root.resolve()).as_posix()
+        except (ValueError, OSError, RuntimeError):  # outside the root, or a symlink loop
+            pass
+    return path.name
 
 
 def build_server() -> NoteServer:

@@ -6,6 +6,7 @@ import logging
 
 from lsprotocol import types
 
+from ..review.describe import hover_markdown  # the review layer writes all chemistry text
 from .app import NoteServer
 
 log = logging.getLogger("notelsp.server")
@@ -21,7 +22,6 @@ def register(server: NoteServer) -> None:
         annotation = held.review.annotation_at(offset)
         if annotation is None:
             return None
-        from ..review.describe import hover_markdown  # the review layer writes all chemistry text
 
         markdown = hover_markdown(held.review, annotation, offset)
         if not markdown:
