@@ -64,8 +64,10 @@ class NoteServer(LanguageServer):
         self.pending: dict[str, asyncio.Task] = {}  # uri -> its scheduled diagnostics publication
 
     def start_io(self, stdin=None, stdout=None) -> None:
-        # End of input means the client is gone: status 0 (LSP), without waiting for running reviews.
-        super().start_io(ResyncingInput(stdin or sys.stdin.buffer, on_end=leave_now), stdout)
+        # End of input means the client is gone: leave at once (status 0, or 1 after an exit
+        # without shutdown), without waiting for running reviews.
+        on_end = lambda: leave_now(self.protocol.exit_status)  # noqa: E731
+        super().start_io(ResyncingInput(stdin or sys.stdin.buffer, on_end=on_end), stdout)
 
     def report_server_error(self, error: Exception, source) -> None:
         if source is JsonRpcException:  # the reader's own: a faulty frame from the client, not our failure

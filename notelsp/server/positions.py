@@ -16,6 +16,7 @@ from functools import lru_cache
 from lsprotocol import types
 
 from ..notation.model import Span
+from ..positions import line_starts
 
 UTF8, UTF16, UTF32 = "utf-8", "utf-16", "utf-32"
 # Codec and bytes per unit, for counting a long slice's units at C speed.
@@ -31,14 +32,6 @@ def units_of(char: str, encoding: str) -> int:
     if encoding == UTF8:
         return 1 if point < 0x80 else 2 if point < 0x800 else 3 if point < 0x10000 else 4
     return 2 if point > 0xFFFF else 1
-
-
-_LINE_BREAK = re.compile(r"\r\n?|\n")
-
-
-def _line_starts(text: str) -> tuple[int, ...]:
-    # LSP counts \r\n, \r and \n as line breaks; finditer keeps this C-speed on big notes.
-    return (0, *(match.end() for match in _LINE_BREAK.finditer(text)))
 
 
 @dataclass(frozen=True)
@@ -101,4 +94,4 @@ class LineIndex:
 @lru_cache(maxsize=8)  # a few versions of the open notes; each holds the text
 def line_index(text: str, encoding: str = UTF16) -> LineIndex:
     """The (cached) line index of ``text`` for ``encoding``."""
-    return LineIndex(text, str(getattr(encoding, "value", encoding)), _line_starts(text))
+    return LineIndex(text, str(getattr(encoding, "value", encoding)), line_starts(text))

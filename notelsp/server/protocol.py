@@ -73,6 +73,8 @@ def _usable_id(value: Any) -> bool:
 
 
 class NoteProtocol(LanguageServerProtocol):
+    exit_status = 0  # LSP: 1 when ``exit`` comes without ``shutdown`` before it
+
     def structure_message(self, data: dict[str, Any]):
         try:
             return super().structure_message(data)
@@ -86,8 +88,6 @@ class NoteProtocol(LanguageServerProtocol):
             else:
                 self.answer_fault(data["id"], error if isinstance(error, JsonRpcException) else JsonRpcInvalidParams())
             raise HandledFault(f"unreadable request {data.get('method')!r}: {error}") from error
-
-    exit_status = 0  # LSP: 1 when ``exit`` comes without ``shutdown`` before it
 
     def handle_message(self, message):
         if getattr(message, "method", None) == "exit":
