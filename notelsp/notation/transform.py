@@ -447,13 +447,20 @@ class _ClaimBuilder:
             return None
         return IsomerCountClaim(self.text, self.span, count)  # type: ignore[arg-type]
 
-    def triple(self, tree: Tree) -> tuple[tuple[str, str, str], Span] | None:
+    def known_symbols(self, tree: Tree) -> list[Token] | None:
+        """The element tokens of an atom path ("H-N-H", "C-C"); None, with an error, if one is unknown."""
         symbols = [token for token in tree.children if token.type == "SYMBOL"]
         for token in symbols:
             if not elements.is_symbol(str(token)):
                 message, suggestion = _unknown_element(str(token))
                 self.error("unknown-element", message, self.at(token), suggestion)
                 return None
+        return symbols
+
+    def triple(self, tree: Tree) -> tuple[tuple[str, str, str], Span] | None:
+        symbols = self.known_symbols(tree)
+        if symbols is None:
+            return None
         return (str(symbols[0]), str(symbols[1]), str(symbols[2])), Span(self.at(symbols[0]).start, self.at(symbols[2]).end)
 
     def angle_claim(self, children: list) -> Claim | None:
@@ -489,13 +496,8 @@ class _ClaimBuilder:
         return IndexClaim(self.text, self.span, float(children[-1]))
 
     def bond(self, tree: Tree) -> tuple[str, str] | None:
-        symbols = [token for token in tree.children if token.type == "SYMBOL"]
-        for token in symbols:
-            if not elements.is_symbol(str(token)):
-                message, suggestion = _unknown_element(str(token))
-                self.error("unknown-element", message, self.at(token), suggestion)
-                return None
-        return str(symbols[0]), str(symbols[1])
+        symbols = self.known_symbols(tree)
+        return None if symbols is None else (str(symbols[0]), str(symbols[1]))
 
     def s_claim(self, children: list) -> Claim | None:
         number = next(token for token in children if isinstance(token, Token) and token.type == "NUMBER")
