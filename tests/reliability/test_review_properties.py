@@ -6,8 +6,7 @@ from __future__ import annotations
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from notelsp.notation.transform import parse_body
-from notelsp.review.document import _cached_review, review_text
+from notelsp.review.document import forget_cached_results, review_text
 from notelsp.server.positions import UTF8, UTF16, line_index, units_of
 
 from .scale import scaled, tried
@@ -52,8 +51,7 @@ def _assert_inside(text: str, review) -> None:
 
 
 def _fresh_review(text: str, kind: str):
-    _cached_review.cache_clear()
-    parse_body.cache_clear()
+    forget_cached_results()  # every review-path cache, so this really is a review from scratch
     return review_text(text, kind)
 
 
