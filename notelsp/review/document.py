@@ -27,6 +27,7 @@ class DocumentReview:
     text: str
     scanned: ScannedDocument
     findings: tuple[Finding, ...]
+
     @cached_property
     def line_index(self) -> LineIndex:
         return LineIndex(self.text)
