@@ -145,12 +145,14 @@ def test_isomer_enumeration_is_bounded_by_construction():
 
 
 def test_an_enumeration_over_the_limit_is_refused_with_a_note(monkeypatch):
+    # Analyse before lowering the limit: the analysis is cached per process and must not
+    # remember a refused enumeration for later tests.
+    ligands = analyse(parse_formula("SF2Cl2Br2")).centres[0].ligands
     isomers._isomers.cache_clear()
     monkeypatch.setattr(isomers, "MAX_ARRANGEMENTS", 10)
-    formula = parse_formula("SF2Cl2Br2")
     try:
         with pytest.raises(isomers.IsomerLimitExceeded):
-            isomers.isomers_for("octahedral", analyse(formula).centres[0].ligands, 0)
+            isomers.isomers_for("octahedral", ligands, 0)
     finally:
         isomers._isomers.cache_clear()
 
