@@ -14,7 +14,7 @@ PROCESS_SETUP = {
     ("notelsp.elements", "by_name"),
     ("notelsp.notation.grammar", "parser"),
     ("notelsp.notation.markdown", "_markdown"),
-    ("notelsp.notation.transform", "_fields_of"),
+    ("notelsp.notation.model", "_fields_of"),
     ("notelsp.review.document", "_chemistry"),
 }
 

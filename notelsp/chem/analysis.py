@@ -53,6 +53,7 @@ class CentreAnalysis:
     bent: BentAnalysis
     isomers: tuple[isomer_module.Isomer, ...]
     notes: tuple[str, ...]
+    isomers_withheld: str | None = None  # why no isomers were listed (too many arrangements); None when they were
 
     def ranges_for(self, a: str, b: str) -> tuple[PairRange, ...]:
         """Every expected range for the angle a-centre-b (labels or element symbols)."""
@@ -143,7 +144,9 @@ def _analyse_centre(centre: CentreModel, formula_text: str) -> CentreAnalysis | 
     bent_result = bent(centre.central, centre.ligands, lone_pairs, result.steric_number)
     ranges = _pair_ranges(centre.ligands, result.site_angles, bent_result)
     coulson = _coulson(centre, formula_text, ranges, lone_pairs + odd, result.steric_number)
-    found_isomers, isomer_note = _isomers(result.electron_geometry, centre.ligands, lone_pairs, odd, atom.electronegativity)
+    found_isomers, withheld = _isomers(result.electron_geometry, centre.ligands, lone_pairs, odd, atom.electronegativity)
+    isomer_note = ((f"positional isomers not listed ({withheld}); "
+                    "placement, polarity, point-group and isomer-count claims are not checked",) if withheld else ())
     return CentreAnalysis(
         central=centre.central,
         charge=centre.charge,
@@ -163,25 +166,22 @@ def _analyse_centre(centre: CentreModel, formula_text: str) -> CentreAnalysis | 
         bent=bent_result,
         isomers=tuple(found_isomers),
         notes=_notes(centre, atom, lone_pairs, odd, result.steric_number, drago_result) + bent_result.notes + isomer_note,
+        isomers_withheld=withheld,
     )
 
 
 def _isomers(electron_geometry: str, ligands: tuple[Ligand, ...], lone_pairs: int, odd: int,
-             centre_electronegativity: float | None) -> tuple[tuple[isomer_module.Isomer, ...], tuple[str, ...]]:
-    """The centre's isomers, or none and a note saying why placement claims go unchecked.
+             centre_electronegativity: float | None) -> tuple[tuple[isomer_module.Isomer, ...], str | None]:
+    """The centre's isomers, or none and the reason they were not listed.
 
     An odd electron occupies a site of its own, so it is placed like a lone pair.
     """
     try:
         found = isomer_module.isomers_for(electron_geometry, ligands, lone_pairs + (1 if odd else 0),
                                           centre_electronegativity=centre_electronegativity)
-    except isomer_module.IsomerLimitExceeded as error:
-        return (), (f"too many arrangements to list positional isomers ({error}); "
-                    "placement, polarity, point-group and isomer-count claims are not checked",)
-    except ValueError as error:
-        return (), (f"positional isomers not available ({error}); "
-                    "placement, polarity, point-group and isomer-count claims are not checked",)
-    return found, ()
+    except ValueError as error:  # IsomerLimitExceeded included: its message gives the count and the limit
+        return (), str(error)
+    return found, None
 
 
 def _label_pairs(ligands: tuple[Ligand, ...]) -> list[tuple[str, str]]:

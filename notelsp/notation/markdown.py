@@ -1,10 +1,8 @@
-"""Where annotations may stand in a Markdown document, found with markdown-it-py.
+"""Where annotations may stand in a Markdown document, and re-parsing only around an edit.
 
-Block structure (fences, indented code, display math, HTML blocks) comes from
-markdown-it's block tokens and their line maps.  Inline structure (code spans,
-inline math, inline HTML, autolinks, escapes, link destinations) has no
-positions in markdown-it's tokens, so the inline rules are wrapped to record
-the exact source range each one consumed; those ranges are skipped.
+The block and inline structure comes from notelsp's own line-oriented scanner
+(:mod:`notelsp.notation.markdown_blocks`, :mod:`notelsp.notation.markdown_inline`),
+checked against markdown-it-py, a general-purpose CommonMark parser, in the tests.
 """
 
 from __future__ import annotations
@@ -12,28 +10,12 @@ from __future__ import annotations
 import threading
 from bisect import bisect_left, bisect_right
 from dataclasses import dataclass
-from functools import cache
 from itertools import accumulate
-from typing import Any
 
-from markdown_it import MarkdownIt
-from mdit_py_plugins.dollarmath import dollarmath_plugin
-
+from .markdown_blocks import BONDING_INFO, Block, Segment, parse_blocks
 from .model import Span
 
-BONDING_INFO = "bonding"
-_SKIPPED_INLINE_RULES = ("math_inline", "escape", "backticks", "autolink", "html_inline", "image")
-_SKIPS_KEY = "notelsp_skips"
-_SKIP_STARTS = frozenset("$\\`<![")  # the characters the skipped inline rules (and links) begin with
-
-
-@dataclass(frozen=True, slots=True)
-class Segment:
-    """One line of inline text, with the ranges in it where annotations may not start."""
-
-    start: int  # document offset of text[0]
-    text: str
-    skips: tuple[tuple[int, int], ...] = ()  # half-open, relative to ``text``
+__all__ = ["BONDING_INFO", "MarkdownStructure", "Segment", "forget_documents", "line_starts", "markdown_structure"]
 
 
 @dataclass(frozen=True, slots=True)
@@ -42,66 +24,10 @@ class MarkdownStructure:
     bonding_lines: tuple[Span, ...]  # content lines of ```bonding blocks
 
 
-def _recording(name: str, rule: Any) -> Any:
-    def run(state: Any, silent: bool) -> bool:
-        start = state.pos
-        matched = rule(state, silent)
-        skips = state.env.get(_SKIPS_KEY)
-        if matched and not silent and skips is not None:
-            if name != "link":
-                skips.append((start, state.pos))
-            else:
-                # The label stays prose; '[' and '](destination "title")' are skipped.
-                state.pos, end = start, state.pos
-                label_end = state.md.helpers.parseLinkLabel(state, start, True)
-                state.pos = end
-                skips.append((start, start + 1))
-                skips.append((label_end, end))
-        return matched
-
-    return run
-
-
-def _inline_with_skips(state: Any) -> None:
-    """markdown-it's core 'inline' step, keeping each inline token's skipped ranges in its meta."""
-    for token in state.tokens:
-        if token.type == "inline":
-            if token.children is None:
-                token.children = []
-            if "{" not in token.content:
-                continue  # no annotation can start here: leave its inline structure unparsed
-            if _SKIP_STARTS.isdisjoint(token.content):
-                token.meta["skips"] = ()  # none of the skipped constructs can begin here
-                continue
-            state.env[_SKIPS_KEY] = []
-            state.md.inline.parse(token.content, state.md, state.env, token.children)
-            token.meta["skips"] = tuple(state.env.pop(_SKIPS_KEY))
-
-
-@cache
-def _markdown() -> MarkdownIt:
-    md = MarkdownIt("commonmark").enable("table")
-    dollarmath_plugin(md)
-    for rule in md.inline.ruler.__rules__:
-        if rule.name in _SKIPPED_INLINE_RULES or rule.name == "link":
-            rule.fn = _recording(rule.name, rule.fn)
-    md.inline.ruler.__cache__ = None
-    md.core.ruler.at("inline", _inline_with_skips)
-    # Only structure is wanted: skip the typographic core steps.
-    md.disable(["replacements", "smartquotes", "text_join"], ignoreInvalid=True)
-    return md
-
-
 def line_starts(text: str) -> list[int]:
     """Offset of each line's first character (lines end at '\\n'); built in C, not a Python loop."""
     lengths = map(len, text.split("\n"))
     return list(accumulate(map((1).__add__, lengths), initial=0))[:-1]
-
-
-def _line(text: str, starts, index: int) -> tuple[int, str]:
-    start = starts[index]
-    end = starts[index + 1] - 1 if index + 1 < len(starts) else len(text)
-    return start, text[start:end].rstrip("\r")
 
 
 def markdown_structure(text: str) -> MarkdownStructure:
@@ -130,28 +56,10 @@ def markdown_structure(text: str) -> MarkdownStructure:
 
 
 @dataclass(frozen=True, slots=True)
-class _Block:
-    """One top-level block: its first line and what it contributes, in document offsets."""
-
-    first_line: int
-    segments: tuple[Segment, ...]
-    bonding: tuple[Span, ...]
-
-    def moved(self, lines: int, chars: int) -> "_Block":
-        if lines == 0 and chars == 0:
-            return self
-        return _Block(
-            self.first_line + lines,
-            tuple(Segment(s.start + chars, s.text, s.skips) for s in self.segments),
-            tuple(Span(b.start + chars, b.end + chars) for b in self.bonding),
-        )
-
-
-@dataclass(frozen=True, slots=True)
 class _Parsed:
     text: str
     starts: tuple[int, ...]
-    blocks: tuple[_Block, ...]
+    blocks: tuple[Block, ...]
 
 
 _RECENT_LIMIT = 4  # documents remembered for incremental re-parsing (about one per open editor)
@@ -169,7 +77,7 @@ def forget_documents() -> None:
         _recent.clear()
 
 
-def _blocks_of(text: str) -> tuple[_Block, ...]:
+def _blocks_of(text: str) -> tuple[Block, ...]:
     with _recent_lock:
         recent = list(_recent)
     for parsed in reversed(recent):
@@ -183,7 +91,7 @@ def _blocks_of(text: str) -> tuple[_Block, ...]:
         if previous is not None:
             blocks = _reparsed(previous, text, starts)
     if blocks is None:
-        blocks = _parse_blocks(text, starts)
+        blocks = parse_blocks(text)
     with _recent_lock:
         _recent.append(_Parsed(text, starts, blocks))
         del _recent[:-_RECENT_LIMIT]
@@ -227,7 +135,7 @@ def _closest(recent: list[_Parsed], text: str) -> tuple[_Parsed, int, int] | Non
     return best
 
 
-def _reparsed(previous: tuple[_Parsed, int, int], text: str, starts: tuple[int, ...]) -> tuple[_Block, ...] | None:
+def _reparsed(previous: tuple[_Parsed, int, int], text: str, starts: tuple[int, ...]) -> tuple[Block, ...] | None:
     old, prefix, suffix = previous
     blocks = old.blocks
     if not blocks:
@@ -258,59 +166,9 @@ def _reparsed(previous: tuple[_Parsed, int, int], text: str, starts: tuple[int, 
         resync = len(blocks)  # the edit reaches further (say, an unclosed fence): parse to the end
 
 
-def _parse_window(text: str, starts: tuple[int, ...], first: int, end: int) -> tuple[_Block, ...]:
+def _parse_window(text: str, starts: tuple[int, ...], first: int, end: int) -> tuple[Block, ...]:
     """The blocks of lines [first, end) parsed on their own, placed in the document."""
     begin = starts[first] if first < len(starts) else len(text)
     stop = starts[end] if end < len(starts) else len(text)
     window = text[begin:stop]
-    return tuple(block.moved(first, begin) for block in _parse_blocks(window, tuple(line_starts(window))))
-
-
-def _parse_blocks(text: str, starts: tuple[int, ...]) -> tuple[_Block, ...]:
-    tokens = _markdown().parse(text, {})
-    groups: list[tuple[int, list[Any]]] = []
-    for token in tokens:
-        if token.level == 0 and token.nesting >= 0 and token.map:
-            groups.append((token.map[0], []))
-        if groups:
-            groups[-1][1].append(token)
-    return tuple(_block(text, starts, first, members) for first, members in groups)
-
-
-def _block(text: str, starts: tuple[int, ...], first: int, tokens: list[Any]) -> _Block:
-    segments: list[Segment] = []
-    bonding: list[Span] = []
-    cursors: dict[int, int] = {}  # per line: where the previous inline fragment ended (table cells)
-    for token in tokens:
-        if token.type == "fence" and token.map and token.info.strip().split()[:1] == [BONDING_INFO]:
-            line = token.map[0] + 1
-            for index in range(line, line + token.content.count("\n")):
-                start, content = _line(text, starts, index)
-                bonding.append(Span(start, start + len(content)))
-        elif token.type == "inline" and token.map and "{" in token.content:
-            segments.extend(_inline_segments(text, starts, token, cursors))
-    return _Block(first, tuple(segments), tuple(bonding))
-
-
-def _inline_segments(text: str, starts, token: Any, cursors: dict[int, int]) -> list[Segment]:
-    """Map each line of an inline token's content back to its place in the document."""
-    skips: tuple[tuple[int, int], ...] = token.meta.get("skips", ())
-    segments = []
-    content_offset = 0
-    for number, fragment in enumerate(token.content.split("\n")):
-        index = token.map[0] + number
-        if index >= len(starts):
-            break
-        line_start, line = _line(text, starts, index)
-        column = line.find(fragment, cursors.get(index, 0)) if fragment else -1
-        if column >= 0:
-            cursors[index] = column + len(fragment)
-            end = content_offset + len(fragment)
-            local = tuple(
-                (max(a, content_offset) - content_offset, min(b, end) - content_offset)
-                for a, b in skips
-                if a < end and b > content_offset
-            )
-            segments.append(Segment(line_start + column, fragment, local))
-        content_offset += len(fragment) + 1
-    return segments
+    return tuple(block.moved(first, begin) for block in parse_blocks(window))

@@ -7,8 +7,10 @@ never re-read the text to find where something was.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
-from typing import Literal
+import dataclasses
+from dataclasses import dataclass
+from functools import cache, cached_property
+from typing import Any, Literal
 
 
 @dataclass(frozen=True, slots=True)
@@ -180,15 +182,69 @@ class NotationError:
 
 
 @dataclass(frozen=True, slots=True)
+class ParsedBody:
+    """What one annotation body says, with spans relative to the body."""
+
+    formulas: tuple[Formula, ...]
+    claims: tuple[Claim, ...]
+    errors: tuple[NotationError, ...]
+    has_colon: bool
+
+
+
+_POSITIONED_TYPES = ("Span", "Part", "Atom", "Group", "Formula", "Claim", "NotationError")
+
+
+@cache
+def _fields_of(cls: type) -> tuple[tuple[str, bool], ...]:
+    """(name, may hold a Span) for each field of ``cls``, decided once per class."""
+    return tuple(
+        (field.name, any(kind in str(field.type) for kind in _POSITIONED_TYPES)) for field in dataclasses.fields(cls)
+    )
+
+
+def shifted(value: Any, delta: int) -> Any:
+    """A copy of ``value`` (a model dataclass or a tuple of them) with every Span moved by ``delta``."""
+    if delta == 0 or value is None:
+        return value
+    if type(value) is Span:
+        return Span(value.start + delta, value.end + delta)
+    if type(value) is tuple:
+        return tuple([shifted(item, delta) for item in value])
+    # Frozen slotted dataclasses: copying field by field is several times faster than dataclasses.replace.
+    cls = type(value)
+    copy = object.__new__(cls)
+    for name, positioned in _fields_of(cls):
+        item = getattr(value, name)
+        object.__setattr__(copy, name, shifted(item, delta) if positioned else item)
+    return copy
+
+
+@dataclass(frozen=True)  # not slotted: the placed parts below are computed on first use
 class Annotation:
-    """One annotated species: an inline ``{...}`` group or one line of a ``bonding`` block."""
+    """One annotated species: an inline ``{...}`` group or one line of a ``bonding`` block.
+
+    The parse is kept position-free (``parsed``, relative to the body) and
+    placed in the document only when asked: a review needs no placed parse,
+    so an edit that moves most annotations costs almost nothing here.
+    """
 
     span: Span  # the whole group, braces included (block: the whole line)
     body: Span  # the text between the braces (block: the line without comment)
-    formulas: tuple[Formula, ...]  # one, or two for "A vs B"
-    claims: tuple[Claim, ...]
-    errors: tuple[NotationError, ...] = ()
+    parsed: ParsedBody  # what the body says, with spans relative to ``body.start``
     form: Literal["inline", "block"] = "inline"
+
+    @cached_property
+    def formulas(self) -> tuple[Formula, ...]:  # one, or two for "A vs B"
+        return shifted(self.parsed.formulas, self.body.start)
+
+    @cached_property
+    def claims(self) -> tuple[Claim, ...]:
+        return shifted(self.parsed.claims, self.body.start)
+
+    @cached_property
+    def errors(self) -> tuple[NotationError, ...]:
+        return shifted(self.parsed.errors, self.body.start)
 
     @property
     def formula(self) -> Formula | None:
@@ -196,12 +252,18 @@ class Annotation:
 
     @property
     def is_comparison(self) -> bool:
-        return len(self.formulas) == 2
+        return len(self.parsed.formulas) == 2
+
+    def relative(self) -> "Annotation":
+        """The same annotation with offsets counted from its own start (as if it were the whole text)."""
+        start = self.span.start
+        if start == 0:
+            return self
+        return Annotation(Span(0, self.span.end - start), self.body.shifted(-start), self.parsed, self.form)
 
 
 @dataclass(frozen=True, slots=True)
 class ScannedDocument:
     """Everything the scanner found in one document."""
 
-    annotations: tuple[Annotation, ...]
-    errors: tuple[NotationError, ...] = field(default=())  # errors outside any annotation
+    annotations: tuple[Annotation, ...]  # in document order; notation errors belong to their annotation

@@ -9,13 +9,14 @@ left alone.  Bodies are parsed through the position-free cache of
 
 from __future__ import annotations
 
+from bisect import bisect_right
 from functools import lru_cache
 from typing import Literal
 
 from .. import elements
-from .markdown import Segment, line_starts, markdown_structure
-from .model import Annotation, ScannedDocument, Span
-from .transform import MAX_BODY_CHARS, ParsedBody, parse_body, shifted
+from .markdown import MarkdownStructure, Segment, line_starts, markdown_structure
+from .model import Annotation, ParsedBody, ScannedDocument, Span
+from .transform import MAX_BODY_CHARS, parse_body
 
 DocumentKind = Literal["markdown", "text"]
 
@@ -31,10 +32,13 @@ _PLACED_CACHE_SIZE = 8192
 def scan(text: str, kind: DocumentKind = "markdown") -> ScannedDocument:
     """Every annotation in ``text``, with code-point offsets into it."""
     if kind == "markdown":
-        structure = markdown_structure(text)
-        segments, bonding_lines = structure.segments, structure.bonding_lines
-    else:
-        segments, bonding_lines = _text_segments(text), ()
+        return scan_with_structure(text, markdown_structure(text))
+    return scan_with_structure(text, MarkdownStructure(_text_segments(text), ()))
+
+
+def scan_with_structure(text: str, structure: MarkdownStructure) -> ScannedDocument:
+    """The annotations of ``text`` where ``structure`` says they may stand (tests pass a reference structure)."""
+    segments, bonding_lines = structure.segments, structure.bonding_lines
     annotations = [annotation for segment in segments for annotation in _segment_annotations(segment)]
     annotations.extend(
         annotation for line in bonding_lines if (annotation := _block_annotation(text[line.start : line.end], line))
@@ -55,8 +59,14 @@ def _text_segments(text: str) -> tuple[Segment, ...]:
     return tuple(segments)
 
 
-def _skipped(position: int, skips: tuple[tuple[int, int], ...]) -> bool:
-    return any(start <= position < end for start, end in skips)
+def _overlaps_skip(opening: int, closing: int, skips: tuple[tuple[int, int], ...], skip_starts: list[int]) -> bool:
+    """Whether a skipped range meets the braces ``[opening, closing]``.
+
+    Skipped ranges are disjoint and in order, so only the last one starting at or
+    before ``closing`` needs looking at (a bisection: linear even on a 1 MB line).
+    """
+    last = bisect_right(skip_starts, closing) - 1
+    return last >= 0 and skips[last][1] > opening
 
 
 def _begins_with_element(body: str) -> bool:
@@ -71,6 +81,7 @@ def _segment_annotations(segment: Segment) -> tuple[Annotation, ...]:
 
 def _inline_annotations(segment: Segment) -> list[Annotation]:
     text, found = segment.text, []
+    skip_starts = [start for start, _ in segment.skips]
     opening, closing = text.find("{"), -1
     while opening != -1:
         if closing < opening:  # reuse the last '}' while it is still ahead: linear in the line
@@ -81,7 +92,7 @@ def _inline_annotations(segment: Segment) -> list[Annotation]:
         if inner != -1:  # nested braces: only the innermost group can be an annotation
             opening = inner
             continue
-        annotation = _inline_candidate(segment, opening, closing)
+        annotation = _inline_candidate(segment, opening, closing, skip_starts)
         if annotation is not None:
             found.append(annotation)
             opening = text.find("{", closing + 1)
@@ -90,11 +101,11 @@ def _inline_annotations(segment: Segment) -> list[Annotation]:
     return found
 
 
-def _inline_candidate(segment: Segment, opening: int, closing: int) -> Annotation | None:
+def _inline_candidate(segment: Segment, opening: int, closing: int, skip_starts: list[int]) -> Annotation | None:
     text, skips = segment.text, segment.skips
     if opening > 0 and text[opening - 1] in _NOT_BEFORE_ANNOTATION:
         return None
-    if _skipped(opening, skips) or _skipped(closing, skips) or any(opening < a < closing for a, _ in skips):
+    if skips and _overlaps_skip(opening, closing, skips, skip_starts):
         return None
     body = text[opening + 1 : closing]
     if not _begins_with_element(body[:8]):
@@ -120,12 +131,4 @@ def _block_annotation(content: str, line: Span) -> Annotation | None:
 
 
 def _placed(parsed: ParsedBody, span: Span, body: Span, form: Literal["inline", "block"]) -> Annotation:
-    delta = body.start
-    return Annotation(
-        span=span,
-        body=body,
-        formulas=shifted(parsed.formulas, delta),
-        claims=shifted(parsed.claims, delta),
-        errors=shifted(parsed.errors, delta),
-        form=form,
-    )
+    return Annotation(span=span, body=body, parsed=parsed, form=form)

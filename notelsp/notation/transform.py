@@ -8,11 +8,10 @@ re-parses only the annotations whose text changed.
 
 from __future__ import annotations
 
-import dataclasses
 import difflib
 import re
 from dataclasses import dataclass
-from functools import cache, lru_cache
+from functools import lru_cache
 from typing import Any
 
 from lark import Token, Tree
@@ -39,6 +38,8 @@ from .model import (
     PolarityClaim,
     SCharacterClaim,
     ShapeClaim,
+    ParsedBody,
+    shifted,
     Span,
 )
 
@@ -58,16 +59,6 @@ class NotationSyntaxError(ValueError):
         self.error = error
 
 
-@dataclass(frozen=True, slots=True)
-class ParsedBody:
-    """What one annotation body says, with spans relative to the body."""
-
-    formulas: tuple[Formula, ...]
-    claims: tuple[Claim, ...]
-    errors: tuple[NotationError, ...]
-    has_colon: bool
-
-
 # --- shared helpers -------------------------------------------------------------
 
 
@@ -79,34 +70,6 @@ def _tokens(tree: Tree | Token) -> list[Token]:
     if isinstance(tree, Token):
         return [tree]
     return [token for child in tree.children for token in _tokens(child)]
-
-
-_POSITIONED_TYPES = ("Span", "Part", "Atom", "Group", "Formula", "Claim", "NotationError")
-
-
-@cache
-def _fields_of(cls: type) -> tuple[tuple[str, bool], ...]:
-    """(name, may hold a Span) for each field of ``cls``, decided once per class."""
-    return tuple(
-        (field.name, any(kind in str(field.type) for kind in _POSITIONED_TYPES)) for field in dataclasses.fields(cls)
-    )
-
-
-def shifted(value: Any, delta: int) -> Any:
-    """A copy of ``value`` (a model dataclass or a tuple of them) with every Span moved by ``delta``."""
-    if delta == 0 or value is None:
-        return value
-    if type(value) is Span:
-        return Span(value.start + delta, value.end + delta)
-    if type(value) is tuple:
-        return tuple([shifted(item, delta) for item in value])
-    # Frozen slotted dataclasses: copying field by field is several times faster than dataclasses.replace.
-    cls = type(value)
-    copy = object.__new__(cls)
-    for name, positioned in _fields_of(cls):
-        item = getattr(value, name)
-        object.__setattr__(copy, name, shifted(item, delta) if positioned else item)
-    return copy
 
 
 def _syntax_error(code: str, text: str, error: UnexpectedInput, offset: int, what: str) -> NotationError:

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 from bisect import bisect_left, bisect_right
 from dataclasses import dataclass
-from functools import cache, cached_property, lru_cache
+from functools import cache, cached_property
 from typing import Any, Literal
 
 from ..notation import scan
@@ -92,13 +92,33 @@ def analyses_of(annotation: Annotation) -> tuple[Any, ...]:
 def review_text(text: str, kind: DocumentKind = "markdown", settings: Settings | None = None) -> DocumentReview:
     settings = settings or Settings()
     scanned = scan(text, kind)
+    reviews = _reviews_for(settings)
     findings: list[Finding] = []
     for annotation in scanned.annotations:
-        findings.extend(review_annotation(text, annotation, settings))
-    for error in scanned.errors:
-        findings.extend(_notation_error_findings(error, settings))
+        span = annotation.span
+        source = text[span.start : span.end]
+        relative = reviews.get((source, annotation.form))
+        if relative is None:
+            relative = reviews[(source, annotation.form)] = _review_relative(annotation.relative(), settings)
+        if relative:  # most annotations have no findings: nothing to place
+            findings.extend(_shift(finding, span.start) for finding in relative)
     findings.sort(key=lambda f: (f.span.start, f.span.end, f.code))
     return DocumentReview(text, scanned, tuple(findings))
+
+
+# The findings of each annotation text (offsets from the annotation's start), per settings.
+# An annotation's findings depend only on its own text, its form and the settings.
+_REVIEWS_LIMIT = 20_000
+_reviews: dict[Settings, dict[tuple[str, str], tuple[Finding, ...]]] = {}
+
+
+def _reviews_for(settings: Settings) -> dict[tuple[str, str], tuple[Finding, ...]]:
+    reviews = _reviews.get(settings)
+    if reviews is None or len(reviews) > _REVIEWS_LIMIT:
+        if len(_reviews) >= 8:  # settings change rarely; a few sets are plenty
+            _reviews.clear()
+        reviews = _reviews[settings] = {}
+    return reviews
 
 
 def forget_cached_results() -> None:
@@ -108,68 +128,25 @@ def forget_cached_results() -> None:
     """
     from ..notation import markdown, scanner, transform
 
-    caches = (_cached_review, _placed_review, transform.parse_body, scanner._segment_annotations, scanner._block_annotation)
-    for cached in caches:
+    _reviews.clear()
+    for cached in (transform.parse_body, scanner._segment_annotations, scanner._block_annotation):
         cached.cache_clear()
     markdown.forget_documents()
 
 
-def review_annotation(text: str, annotation: Annotation, settings: Settings) -> tuple[Finding, ...]:
-    """Findings of one annotation, from the position-free cache."""
-    start = annotation.span.start
-    return _placed_review(text[start : annotation.span.end], start, annotation.form, settings, _Keyed(annotation))
-
-
-# Findings remembered at their exact place too: in an edited document everything before
-# the edit is found here unshifted.  About two large documents' worth of annotations.
-@lru_cache(maxsize=8192)
-def _placed_review(source: str, start: int, form: str, settings: Settings, keyed: "_Keyed") -> tuple[Finding, ...]:
-    relative = _cached_review(source, form, settings, keyed)
-    return tuple(_shift(finding, start) for finding in relative)
-
-
-class _Keyed:
-    """Carries the annotation into the cached call without being part of its key."""
-
-    __slots__ = ("annotation",)
-
-    def __init__(self, annotation: Annotation) -> None:
-        self.annotation = annotation
-
-    def __hash__(self) -> int:
-        return 0
-
-    def __eq__(self, other: object) -> bool:
-        return isinstance(other, _Keyed)
-
-
-@lru_cache(maxsize=20_000)
-def _cached_review(source: str, form: str, settings: Settings, keyed: _Keyed) -> tuple[Finding, ...]:
-    annotation = keyed.annotation
+def _review_relative(annotation: Annotation, settings: Settings) -> tuple[Finding, ...]:
+    """Run every enabled rule on one annotation (placed as if it were the whole text)."""
     rules = _chemistry()[1]
     analyses = analyses_of(annotation)
     found: list[Finding] = []
-    targets = [None, *annotation.claims]
-    for claim in targets:
+    for claim in (None, *annotation.claims):
         for rule in rules.rules_for(claim):
-            if not settings.enabled(rule.code):
-                continue
-            context = rules.RuleContext(rule, annotation, claim, analyses, settings)
-            found.extend(rule.check(context))
-    return tuple(_shift(finding, -annotation.span.start) for finding in found)
-
-
-def _notation_error_findings(error: Any, settings: Settings) -> list[Finding]:
-    rule = _chemistry()[1].RULES.get(error.code)
-    if rule is None or not settings.enabled(rule.code):
-        return []
-    fixes = (Fix(f"Replace with '{error.suggestion}'", error.span, error.suggestion),) if error.suggestion else ()
-    return [Finding(rule.code, settings.severity_of(rule), error.message, error.span, "", None, fixes)]
+            if settings.enabled(rule.code):
+                found.extend(rule.check(rules.RuleContext(rule, annotation, claim, analyses, settings)))
+    return tuple(found)
 
 
 def _shift(finding: Finding, delta: int) -> Finding:
-    if delta == 0:
-        return finding
     fixes = tuple(Fix(f.title, f.span.shifted(delta), f.replacement) for f in finding.fixes)
     return Finding(
         finding.code,

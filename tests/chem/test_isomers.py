@@ -57,12 +57,38 @@ def test_isomer_counts(geometry, symbols, lone_pairs, total, without_mirrors):
     assert diastereomer_count(isomers) == without_mirrors
 
 
-def test_seven_different_ligands_are_enumerated_quickly_and_bounded():
+SEVEN_DIFFERENT = ("F", "Cl", "Br", "I", "H", "O", "N")
+
+
+def test_seven_different_ligands_are_refused_at_the_default_limit():
+    # 7! = 5040 assignments of seven different ligands to seven sites (common practice, no source)
+    assert MAX_ARRANGEMENTS < 5040
+    with pytest.raises(IsomerLimitExceeded, match="5,040 site assignments exceed the limit"):
+        isomers_for("pentagonal-bipyramidal", ligands(*SEVEN_DIFFERENT), 0)
+
+
+def test_seven_different_ligands_are_counted_right_above_the_limit(monkeypatch):
+    import notelsp.chem.isomers as module
+
     # 7!/|D5| = 5040/10 = 504 stereoisomers, all chiral (common practice, no source)
-    isomers = isomers_for("pentagonal-bipyramidal", ligands("F", "Cl", "Br", "I", "H", "O", "N"), 0)
+    monkeypatch.setattr(module, "MAX_ARRANGEMENTS", 5040)
+    module._isomers.cache_clear()
+    try:
+        isomers = isomers_for("pentagonal-bipyramidal", ligands(*SEVEN_DIFFERENT), 0)
+    finally:
+        module._isomers.cache_clear()
     assert len(isomers) == 504
     assert diastereomer_count(isomers) == 252
-    assert MAX_ARRANGEMENTS >= 5040
+    assert all(isomer.chiral for isomer in isomers)
+    assert len({isomer.name for isomer in isomers}) == 504  # every isomer has a name of its own
+
+
+def test_the_largest_accepted_enumeration_still_runs():
+    # five different ligands and a pair: 7!/2! = 2520 assignments, 2520/10 = 252 isomers,
+    # none with a mirror plane (common practice, no source)
+    isomers = isomers_for("pentagonal-bipyramidal", ligands("F", "F", "Cl", "Br", "I", "H", "O"), 0)
+    assert MAX_ARRANGEMENTS >= 2520
+    assert len(isomers) == 252
 
 
 def test_over_the_limit_is_refused_with_a_reason(monkeypatch):
@@ -70,9 +96,11 @@ def test_over_the_limit_is_refused_with_a_reason(monkeypatch):
 
     monkeypatch.setattr(module, "MAX_ARRANGEMENTS", 10)
     module._isomers.cache_clear()
-    with pytest.raises(IsomerLimitExceeded, match="limit"):
-        module.isomers_for("octahedral", ligands("F", "F", "F", "Cl", "Cl", "Cl"), 0)
-    module._isomers.cache_clear()
+    try:
+        with pytest.raises(IsomerLimitExceeded, match="20 site assignments exceed the limit of 10"):
+            module.isomers_for("octahedral", ligands("F", "F", "F", "Cl", "Cl", "Cl"), 0)  # 6!/(3!3!) = 20
+    finally:
+        module._isomers.cache_clear()
 
 
 def test_domain_count_must_fill_the_polyhedron():
@@ -275,4 +303,22 @@ def test_analysis_turns_isomer_failures_into_a_note(formula, monkeypatch):
 
     monkeypatch.setattr(analysis.isomer_module, "isomers_for", refuse)
     centre_ = analysis._analyse(formula("SF4")).centres[0]  # uncached: the real analysis
-    assert centre_.isomers == () and any("too many arrangements" in note for note in centre_.notes)
+    assert centre_.isomers == () and centre_.isomers_withheld == "too many"
+    assert any(note.startswith("positional isomers not listed (too many)") for note in centre_.notes)
+
+
+def test_analysis_of_seven_different_ligands_withholds_the_isomers(formula):
+    from notelsp.chem import analysis
+
+    # I with seven single bonds: steric number 7, no lone pair (common practice, no source)
+    centre_ = analysis._analyse(formula("IFClBrH(OH)(CH3)(SH)")).centres[0]
+    assert centre_.electron_geometry == "pentagonal-bipyramidal" and centre_.lone_pairs == 0
+    assert centre_.isomers == ()
+    assert centre_.isomers_withheld == f"5,040 site assignments exceed the limit of {MAX_ARRANGEMENTS:,}"
+    assert centre_.shape == "pentagonal-bipyramidal"  # the rest of the analysis is still made
+
+
+def test_analysis_lists_isomers_when_they_are_available(formula):
+    from notelsp.chem import analysis
+
+    assert analysis._analyse(formula("SF4")).centres[0].isomers_withheld is None

@@ -4,7 +4,8 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from notelsp.notation import markdown
-from notelsp.notation.markdown import line_starts, markdown_structure
+from notelsp.notation.markdown import markdown_structure
+from notelsp.notation.markdown_blocks import parse_blocks
 
 # Lines that open, continue and close the Markdown structures that matter here
 # (common practice, no source).
@@ -49,7 +50,7 @@ documents = st.lists(st.sampled_from(LINES), min_size=0, max_size=40)
 
 
 def _whole(text):
-    blocks = markdown._parse_blocks(text, tuple(line_starts(text)))
+    blocks = parse_blocks(text)
     return (
         tuple(s for b in blocks for s in b.segments),
         tuple(span for b in blocks for span in b.bonding),

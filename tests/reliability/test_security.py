@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import sys
 import threading
+from itertools import cycle
 
 import pytest
 from hypothesis import given, settings
@@ -17,9 +18,8 @@ from hypothesis import strategies as st
 
 import notelsp.chem.isomers as isomers
 from notelsp.chem import analyse
-from notelsp.chem.polyhedra import polyhedron
 from notelsp.notation import parse_formula
-from notelsp.notation.transform import MAX_BODY_CHARS
+from notelsp.notation.transform import MAX_BODY_CHARS, MAX_COUNT, MAX_FORMULA_CHARS
 from notelsp.review.document import review_text
 from notelsp.review.settings import Settings, settings_from_toml
 
@@ -135,13 +135,52 @@ def test_an_oversized_annotation_gets_a_diagnostic_not_a_parse():
     assert [f.code for f in review.findings] == ["formula-too-large"]
 
 
-def test_isomer_enumeration_is_bounded_by_construction():
-    """The largest polyhedron's assignments stay under the refusal limit, so no request can explode."""
-    largest = max(len(polyhedron(geometry).sites) for geometry in isomers.ELECTRON_GEOMETRIES)
-    worst = 1
-    for n in range(2, largest + 1):
-        worst *= n
-    assert worst <= isomers.MAX_ARRANGEMENTS
+# The largest formulas and bodies the notation accepts, with the worst cases for the isomer enumeration:
+# iodine with five different ligands and a pair on a pentagonal bipyramid (7!/2! = 2520 arrangements,
+# the most that are enumerated) and with seven different ligands (7! = 5040, refused).  Counts by hand
+# (common practice, no source); chains of MAX_COUNT atoms pad the formulas to MAX_FORMULA_CHARS.
+LARGEST_ENUMERATED = "IF2ClBr(OC99H99)(C2H4CH2CH2CH2CH2CH2CH2CH2CH2CH2CH2CH2CH2C99H99)"
+LARGEST_REFUSED = "IFClBr(SC99H99)(OC99H99)(C99H99)(NCH2CH2CH2CH2CH2C2H4C2H4C99H99)"
+EVERY_KIND_OF_CLAIM = ["F axial", "polar", "C1", "252 isomers", "pentagonal bipyramidal", "sp3d3", "1 lone pair",
+                       "F-I-Cl 90°", "F-I-F < Cl-I-Cl", "I-F longer", "lone pair axial", "nonpolar"]
+
+
+def _largest_body(first: str, second: str) -> str:
+    """``first vs second: claims...`` padded to exactly MAX_BODY_CHARS."""
+    body = f"{first} vs {second}: "
+    for claim in cycle(EVERY_KIND_OF_CLAIM):
+        if len(body) + len(claim) + len(", ") > MAX_BODY_CHARS:
+            return body.ljust(MAX_BODY_CHARS)
+        body += claim + ", "
+
+
+def test_the_largest_formulas_are_the_ones_accepted():
+    for formula in (LARGEST_ENUMERATED, LARGEST_REFUSED):
+        assert len(formula) == MAX_FORMULA_CHARS and f"C{MAX_COUNT}H{MAX_COUNT}" in formula
+        assert parse_formula(formula).text == formula
+    assert len(_largest_body(LARGEST_ENUMERATED, LARGEST_REFUSED)) == MAX_BODY_CHARS
+
+
+@pytest.mark.timeout(120)  # a hang guard only: nothing here is timed
+@pytest.mark.parametrize("form", ["inline", "block"])
+@pytest.mark.parametrize("first, second", [(LARGEST_ENUMERATED, LARGEST_REFUSED), (LARGEST_REFUSED, LARGEST_ENUMERATED)])
+def test_the_largest_annotation_with_the_worst_species_is_reviewed_in_place(form, first, second):
+    body = _largest_body(first, second)
+    note = f"# Worst case\n\n{{{body}}}\n" if form == "inline" else f"# Worst case\n\n```bonding\n{body}\n```\n"
+    review = review_text(note)
+    tried("largest annotations with the worst isomer cases reviewed")
+    (annotation,) = review.annotations
+    assert annotation.errors == () and annotation.form == form
+    assert review.findings and "formula-too-large" not in {f.code for f in review.findings}
+    for finding in review.findings:
+        assert annotation.span.start <= finding.span.start <= finding.span.end <= annotation.span.end <= len(note)
+        assert all(annotation.span.start <= fix.span.start <= fix.span.end <= annotation.span.end for fix in finding.fixes)
+    refused = [f for f in review.findings if f.code == "isomers-not-enumerated"]
+    assert len(refused) == 1 and note[refused[0].span.start:refused[0].span.end] == LARGEST_REFUSED
+    if first == LARGEST_ENUMERATED:  # its isomers were listed, so the placement claims were judged
+        assert "misplaced-ligand" in {f.code for f in review.findings}
+    else:  # the refused species comes first: nothing is judged against isomers it does not have
+        assert not {"misplaced-ligand", "wrong-polarity", "wrong-point-group", "wrong-isomer-count"} & {f.code for f in review.findings}
 
 
 def test_an_enumeration_over_the_limit_is_refused_with_a_note(monkeypatch):

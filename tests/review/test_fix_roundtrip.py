@@ -43,7 +43,8 @@ FIXABLE = {
     "misplaced-ligand", "wrong-polarity", "wrong-point-group", "wrong-isomer-count",
 }
 # no correct replacement exists for these: the writer must say what was meant
-WITHOUT_FIXES = {"malformed-formula", "malformed-claim", "impossible-count", "formula-too-large", "outside-model"}
+WITHOUT_FIXES = {"malformed-formula", "malformed-claim", "impossible-count", "formula-too-large", "outside-model",
+                 "isomers-not-enumerated"}
 
 ORIGINAL = review(NOTE)
 

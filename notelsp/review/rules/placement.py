@@ -2,7 +2,9 @@
 
 Each compares the claim with the expected isomer(s) of the species' first
 centre (``notelsp.chem.isomers``); nothing is said when the analysis is
-outside the model, has no centres or no isomers.
+outside the model, has no centres or no isomers.  When the isomers were not
+enumerated (too many arrangements), ``isomers-not-enumerated`` says so and
+names the claims left unchecked.
 """
 
 from __future__ import annotations
@@ -19,6 +21,7 @@ from ..findings import Finding, Severity
 from . import RuleContext, rule
 
 _POSITIONS = ("axial", "equatorial", "apical", "basal")
+_NEEDS_ISOMERS = (PlacementClaim, PolarityClaim, PointGroupClaim, IsomerCountClaim)
 _WORDS = {1: "one", 2: "two", 3: "three", 4: "four", 5: "five", 6: "six"}
 
 
@@ -27,6 +30,30 @@ def _isomers(context: RuleContext) -> tuple[Isomer, ...]:
     if analysis is None or getattr(analysis, "outside_model", None) or not getattr(analysis, "centres", ()):
         return ()
     return tuple(getattr(analysis.centres[0], "isomers", ()) or ())
+
+
+@rule("isomers-not-enumerated", severity=Severity.INFORMATION)
+def isomers_not_enumerated(context: RuleContext) -> Iterator[Finding]:
+    """The species has too many arrangements to list its isomers, so the claims that need them are not checked.
+
+    Isomers are found by trying every assignment of ligands and lone pairs to
+    the sites of the polyhedron, and the assignments grow factorially with the
+    number of different ligands (seven different ligands on a pentagonal
+    bipyramid: 5,040).  Above a fixed limit, given in the message, the
+    enumeration is skipped to keep each check fast: placement, polarity,
+    point-group and isomer-count claims about the species go unchecked, while
+    shape, lone-pair, angle and hybridization claims are still checked.
+    """
+    for index, (formula, analysis) in enumerate(zip(context.annotation.formulas, context.analyses)):
+        withheld = next((c.isomers_withheld for c in getattr(analysis, "centres", ()) if c.isomers_withheld), None)
+        if withheld is None:
+            continue
+        # the isomer rules judge the first species only, so only its claims go unchecked
+        claims = context.annotation.claims if index == 0 else ()
+        unchecked = [f"'{claim.text}'" for claim in claims if isinstance(claim, _NEEDS_ISOMERS)]
+        consequence = (f"not checked: {', '.join(unchecked)}" if unchecked
+                       else "placement, polarity, point-group and isomer-count claims cannot be checked")
+        yield context.finding(f"{formula.text}: positional isomers not listed ({withheld}); {consequence}", span=formula.span)
 
 
 def _formula(context: RuleContext) -> str:

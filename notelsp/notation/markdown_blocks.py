@@ -1,0 +1,811 @@
+"""Markdown block structure, one line at a time, as far as annotations care.
+
+A CommonMark block parser reduced to what decides where annotations stand:
+which lines are prose (paragraphs, headings, table cells, inside block quotes
+and list items), which are code (fenced, indented), display math (``$$``),
+raw HTML or link reference definitions, and which are the content lines of a
+```` ```bonding ```` fence.  Prose is grouped into inline runs (a paragraph,
+a heading, a table cell) whose skipped ranges come from
+:mod:`notelsp.notation.markdown_inline`; only runs holding a ``{`` are looked
+at closely.  Most lines of a note are plain paragraph text and take the fast
+path: one character test.
+
+The output is a list of top-level blocks (first line, segments, bonding lines)
+so an edited document can be re-parsed around the edit only (see
+:mod:`notelsp.notation.markdown`).
+"""
+
+from __future__ import annotations
+
+import re
+from bisect import bisect_left, bisect_right
+from dataclasses import dataclass
+from functools import lru_cache
+from itertools import accumulate
+
+from .markdown_inline import SKIP_START, inline_skips, normalise_label
+from .model import Span
+
+BONDING_INFO = "bonding"
+
+
+@dataclass(frozen=True, slots=True)
+class Segment:
+    """One line of inline text, with the ranges in it where annotations may not start."""
+
+    start: int  # document offset of text[0]
+    text: str
+    skips: tuple[tuple[int, int], ...] = ()  # half-open, relative to ``text``
+
+
+@dataclass(frozen=True, slots=True)
+class Block:
+    """One top-level block: its first line and what it contributes, in document offsets."""
+
+    first_line: int
+    segments: tuple[Segment, ...]
+    bonding: tuple[Span, ...]  # content lines of ```bonding fences
+
+    def moved(self, lines: int, chars: int) -> "Block":
+        if lines == 0 and chars == 0:
+            return self
+        return Block(
+            self.first_line + lines,
+            tuple(Segment(s.start + chars, s.text, s.skips) for s in self.segments),
+            tuple(Span(b.start + chars, b.end + chars) for b in self.bonding),
+        )
+
+
+_LINE_BREAK = re.compile(r"\r\n|\r|\n")
+# At top level, a line starting with none of these is paragraph text whatever comes before it.
+_SIGNIFICANT_FIRST = frozenset(" \t>-+*_#=`~$<|:[0123456789")
+# The line break before such a line (searching for a literal first character is fast).
+_SIGNIFICANT_BREAK = re.compile(r"\n(?=[ \t>\-+*_#=`~$<|:\[0-9\n]|\Z)")
+_ATX_HEADING = re.compile(r"(#{1,6})(?:[ \t]+|$)")
+_ATX_CLOSING = re.compile(r"(?:^|[ \t]+)#+[ \t]*$")
+_FENCE_OPEN = re.compile(r"(`{3,}|~{3,})(.*)")
+_THEMATIC_BREAK = re.compile(r"(?:(?:\*[ \t]*){3,}|(?:-[ \t]*){3,}|(?:_[ \t]*){3,})$")
+_SETEXT_UNDERLINE = re.compile(r"(?:=+|-+)[ \t]*$")
+_LIST_MARKER = re.compile(r"([-+*]|(\d{1,9})[.)])(?=[ \t]|$)")
+_TABLE_DELIMITER = re.compile(r"[|:\-][|:\- \t]*$")
+_TABLE_DELIMITER_CELL = re.compile(r":?-+:?$")
+_REFERENCE_DEFINITION = re.compile(r"\[((?:[^\[\]\\]|\\.){1,999})\]:")
+_MATH_LABEL_CLOSE = re.compile(r".*\$\$\s*\([^)$\r\n]+?\)\s*$")
+_HTML_OPENERS = (  # CommonMark 0.31, section 4.6: start condition -> end condition (None: a blank line)
+    (re.compile(r"<(?:script|pre|style|textarea)(?:[ \t>]|$)", re.I), re.compile(r"</(?:script|pre|style|textarea)>", re.I)),
+    (re.compile(r"<!--"), re.compile(r"-->")),
+    (re.compile(r"<\?"), re.compile(r"\?>")),
+    (re.compile(r"<![A-Za-z]"), re.compile(r">")),
+    (re.compile(r"<!\[CDATA\["), re.compile(r"\]\]>")),
+    (re.compile(
+        r"</?(?:address|article|aside|base|basefont|blockquote|body|caption|center|col|colgroup|dd|details|"
+        r"dialog|dir|div|dl|dt|fieldset|figcaption|figure|footer|form|frame|frameset|h[1-6]|head|header|hr|"
+        r"html|iframe|legend|li|link|main|menu|menuitem|nav|noframes|ol|optgroup|option|p|param|search|"
+        r"section|summary|table|tbody|td|tfoot|th|thead|title|tr|track|ul)(?:[ \t]|/?>|$)", re.I), None),
+)
+_ATTRIBUTE = r"""(?:[ \t]+[A-Za-z_:][A-Za-z0-9:._\-]*(?:[ \t]*=[ \t]*(?:[^"'=<>`\x00-\x20]+|'[^']*'|"[^"]*"))?)"""
+_HTML_TAG_ALONE = re.compile(  # start condition 7: one complete tag and nothing else on the line
+    r"(?:<[A-Za-z][A-Za-z0-9\-]*" + _ATTRIBUTE + r"*[ \t]*/?>|</[A-Za-z][A-Za-z0-9\-]*[ \t]*>)[ \t]*$"
+)
+
+
+@lru_cache(maxsize=64)
+def _fence_closer(character: str, length: int) -> re.Pattern[str]:
+    return re.compile(r"^ {0,3}" + re.escape(character) + "{" + str(length) + r",}[ \t]*$", re.M)
+
+
+def split_lines(text: str) -> tuple[list[int], list[str]]:
+    """Each line's start offset and text without its line break (CRLF, CR or LF)."""
+    if "\r" not in text:
+        lines = text.split("\n")
+        return list(accumulate([len(line) + 1 for line in lines], initial=0))[:-1], lines
+    starts, lines, offset = [], [], 0
+    for match in _LINE_BREAK.finditer(text):
+        starts.append(offset)
+        lines.append(text[offset : match.start()])
+        offset = match.end()
+    starts.append(offset)
+    lines.append(text[offset:])
+    return starts, lines
+
+
+_MARKER_PREFIX = re.compile(r"[ \t>\-+*.)0-9]*")
+
+
+def _expanded_marker_tabs(line: str) -> tuple[str, str] | None:
+    """(expanded, original) block-quote and list-marker prefix of a line whose prefix holds a tab.
+
+    A tab after a marker is only partly consumed by it (CommonMark 2.2); as spaces
+    that falls out of counting columns.  None when there is nothing to expand.
+    """
+    prefix = _MARKER_PREFIX.match(line).group()
+    if "\t" not in prefix or prefix.strip(" \t0123456789") == "":
+        return None
+    return prefix.expandtabs(4), prefix
+
+
+def _column(line: str, position: int) -> int:
+    """The column of ``line[position]``, tabs stopping every 4 columns."""
+    column = 0
+    for character in line[:position]:
+        column += 4 - column % 4 if character == "\t" else 1
+    return column
+
+
+def _indent(line: str, position: int) -> tuple[int, int]:
+    """(columns of whitespace, offset of the first other character) from ``position``; tabs stop every 4."""
+    length = len(line)
+    if "\t" not in line:
+        at = position
+        while at < length and line[at] == " ":
+            at += 1
+        return at - position, at
+    start = column = _column(line, position)
+    while position < length:
+        character = line[position]
+        if character == " ":
+            column += 1
+        elif character == "\t":
+            column += 4 - column % 4
+        else:
+            break
+        position += 1
+    return column - start, position
+
+
+def _advance(line: str, position: int, columns: int) -> int:
+    """The offset after consuming up to ``columns`` columns of whitespace (a tab is taken whole)."""
+    taken = 0
+    while taken < columns and position < len(line) and line[position] in " \t":
+        taken += 1 if line[position] == " " else 4 - taken % 4
+        position += 1
+    return position
+
+
+def _cells(row: str) -> list[tuple[int, int]]:
+    """Ranges of a table row's cells, split at unescaped pipes, outer pipes dropped."""
+    stripped_start = len(row) - len(row.lstrip())
+    stripped_end = len(row.rstrip())
+    bounds, start, position, escaped = [], stripped_start, stripped_start, False
+    while position < stripped_end:
+        character = row[position]
+        if character == "|" and not escaped:
+            bounds.append((start, position))
+            start = position + 1
+        escaped = character == "\\" and not escaped
+        position += 1
+    bounds.append((start, stripped_end))
+    if bounds and bounds[0][0] == bounds[0][1]:
+        bounds.pop(0)
+    if bounds and bounds[-1][0] == bounds[-1][1]:
+        bounds.pop()
+    return bounds
+
+
+def _delimiter_cells(line: str) -> int | None:
+    """The number of columns of a table delimiter row, or None when ``line`` is not one."""
+    stripped = line.strip()
+    if not _TABLE_DELIMITER.match(stripped) or (stripped[0] == "-" and len(stripped) > 1 and stripped[1] in " \t"):
+        return None
+    if len(stripped) < 2:
+        return None
+    columns = stripped.split("|")
+    count = 0
+    for index, column in enumerate(columns):
+        column = column.strip()
+        if not column:
+            if index == 0 or index == len(columns) - 1:
+                continue
+            return None
+        if not _TABLE_DELIMITER_CELL.match(column):
+            return None
+        count += 1
+    return count
+
+
+# --- open blocks --------------------------------------------------------------------
+
+
+@dataclass(slots=True)
+class _Container:
+    quote: bool  # a block quote; otherwise a list item
+    indent: int = 0  # a list item's content column
+
+
+@dataclass(slots=True)
+class _Paragraph:
+    """An open paragraph.  While its lines are whole top-level lines of the document only
+    their range is kept; the first line that is not (indented, in a container) makes the
+    list of (document offset, text) explicit."""
+
+    first: int  # line range [first, stop) while ``lines`` is None
+    stop: int
+    lines: list[tuple[int, str]] | None = None
+
+    def explicit(self, parser: "_Parser") -> list[tuple[int, str]]:
+        if self.lines is None:
+            self.lines = list(zip(parser.starts[self.first : self.stop], parser.lines[self.first : self.stop]))
+        return self.lines
+
+
+@dataclass(slots=True)
+class _Fence:
+    character: str
+    length: int
+    indent: int
+    bonding: bool
+
+
+@dataclass(slots=True)
+class _Swallowing:
+    """Lines taken whole until ``end`` matches a line (HTML blocks 1-5, display math) or a blank line."""
+
+    end: re.Pattern[str] | None
+    math: bool = False
+    lines_left: int = 0  # a link reference definition: this many more lines, whatever they hold
+
+
+@dataclass(slots=True)
+class _Table:
+    columns: int
+
+
+class _Indented:
+    __slots__ = ()
+
+
+_INDENTED = _Indented()
+
+
+class _Parser:
+    def __init__(self, text: str) -> None:
+        self.text = text
+        self.starts, self.lines = split_lines(text)
+        self.references = _reference_labels(text)
+        self.blocks: list[tuple[int, list[Segment], list[Span]]] = []
+        self.tab_prefix: tuple[int, str] | None = None  # (line start, original prefix) while a line's prefix tabs are expanded
+        self.containers: list[_Container] = []
+        self.leaf: object | None = None
+        self._math_closers: list[int] | None = None
+
+    def parse(self) -> tuple[Block, ...]:
+        lines, starts, count = self.lines, self.starts, len(self.lines)
+        jumps = "\r" not in self.text  # the line-start searches below see only LF line breaks
+        index = 0
+        while index < count:
+            leaf = self.leaf
+            if jumps and not self.containers:
+                if leaf is None or type(leaf) is _Paragraph:
+                    # Fast path: a run of top-level lines that can only be paragraph text.
+                    run_end = self._plain_run_end(index)
+                    if run_end > index:
+                        if leaf is None:
+                            self._begin_block(index)
+                            self.leaf = _Paragraph(index, run_end)
+                        elif leaf.lines is None and leaf.stop == index:
+                            leaf.stop = run_end
+                        else:
+                            leaf.explicit(self).extend(zip(starts[index:run_end], lines[index:run_end]))
+                        index = run_end
+                        continue
+                    if self._top_level_opening(index, lines[index]):
+                        index += 1
+                        continue
+                elif type(leaf) is _Fence:
+                    index = self._fence_body(leaf, index)
+                    continue
+            self._line(index, lines[index], starts[index])
+            index += 1
+        self._close_leaf()
+        return tuple(Block(first, tuple(segments), tuple(bonding)) for first, segments, bonding in self.blocks)
+
+    def _plain_run_end(self, index: int) -> int:
+        """The first line from ``index`` on that is not plain paragraph text (top level)."""
+        line = self.lines[index]
+        if not line or line[0] in _SIGNIFICANT_FIRST:
+            return index
+        found = _SIGNIFICANT_BREAK.search(self.text, self.starts[index])
+        return bisect_left(self.starts, found.end(), index) if found else len(self.lines)
+
+    def _top_level_opening(self, index: int, line: str) -> bool:
+        """The commonest significant lines at top level, taken without the general path:
+        an unindented ATX heading or fence opening.  False: not one of those."""
+        first = line[:1]
+        if first == "#" and (heading := _ATX_HEADING.match(line)):
+            self._close_leaf()
+            self._begin_block(index)
+            if "{" in line:
+                text = line[heading.end() :]
+                closing = _ATX_CLOSING.search(text)
+                self._emit_run([(self.starts[index] + heading.end(), text[: closing.start()] if closing else text)])
+            return True
+        if first in ("`", "~") and (fence := _FENCE_OPEN.match(line)) and (first == "~" or "`" not in fence.group(2)):
+            self._close_leaf()
+            self._begin_block(index)
+            self.leaf = _Fence(first, len(fence.group(1)), 0, fence.group(2).split()[:1] == [BONDING_INFO])
+            return True
+        return False
+
+    def _fence_body(self, fence: _Fence, index: int) -> int:
+        """Take a top-level fence's content lines up to its closing line in one search; the next line's index."""
+        closing = _fence_closer(fence.character, fence.length).search(self.text, self.starts[index])
+        stop = bisect_left(self.starts, closing.start(), index) if closing else len(self.lines)
+        if fence.bonding:
+            bonding = self.blocks[-1][2]
+            for number in range(index, stop):
+                line, start = self.lines[number], self.starts[number]
+                content = _advance(line, 0, fence.indent) if fence.indent else 0
+                bonding.append(Span(start + content, start + len(line)))
+        if closing is None:
+            return stop
+        self.leaf = None
+        return stop + 1
+
+    # --- one line ------------------------------------------------------------
+
+    def _swallowed(self) -> None:
+        """One more line of a link reference definition taken."""
+        self.leaf.lines_left -= 1
+        if not self.leaf.lines_left:
+            self.leaf = None
+
+    def _document_offset(self, start: int, index: int) -> int:
+        """The document offset of ``line[index]`` for the line being read (its prefix tabs may be expanded)."""
+        if self.tab_prefix is None:
+            return start + index
+        line_start, prefix = self.tab_prefix
+        expanded_length = len(prefix.expandtabs(4))
+        if index >= expanded_length:
+            return start + index
+        column = 0
+        for position, character in enumerate(prefix):  # inside the expansion: the character covering it
+            column = column + 4 - column % 4 if character == "\t" else column + 1
+            if column > index:
+                return line_start + position + (1 if character == "\t" else 0)
+        return line_start + len(prefix)
+
+    def _matched_containers(self, line: str) -> tuple[int, int]:
+        """How many open containers ``line`` continues, and the offset after their markers."""
+        position, matched = 0, 0
+        for container in self.containers:
+            if container.quote:
+                columns, at = _indent(line, position)
+                if columns < 4 and at < len(line) and line[at] == ">":
+                    position = at + 1
+                    if position < len(line) and line[position] in " \t":
+                        position += 1
+                    matched += 1
+                    continue
+                break
+            columns, at = _indent(line, position)
+            if at >= len(line):  # blank (after the markers matched so far)
+                matched += 1
+                continue
+            if columns >= container.indent:
+                position = _advance(line, position, container.indent)
+                matched += 1
+                continue
+            break
+        return matched, position
+
+    def _line(self, index: int, line: str, start: int) -> None:
+        self.tab_prefix = None
+        if "\t" in line:
+            expanded = _expanded_marker_tabs(line)
+            if expanded is not None:
+                self.tab_prefix = (start, expanded[1])
+                line, start = expanded[0] + line[len(expanded[1]) :], start - (len(expanded[0]) - len(expanded[1]))
+        matched, position = self._matched_containers(line) if self.containers else (0, 0)
+        rest_blank = not line[position:].strip()
+        if matched < len(self.containers):
+            # Outside the paragraph's containers any list marker ends it (as markdown-it reads it).
+            # A link reference definition is read from a paragraph, so its lines may be lazy too.
+            definition = type(self.leaf) is _Swallowing and self.leaf.lines_left
+            lazy = (type(self.leaf) is _Paragraph or definition) and not rest_blank
+            if lazy and definition and not self._interrupts(index, line, position, any_list_marker=True):
+                self._swallowed()
+                return
+            if lazy and not self._interrupts(index, line, position, any_list_marker=True):
+                self.leaf.explicit(self).append(self._content(line, start, position))  # lazy continuation
+                return
+            self._close_leaf()
+            del self.containers[matched:]
+        leaf = self.leaf
+        if type(leaf) is _Fence:
+            self._fence_line(leaf, index, line, start, position)
+            return
+        if type(leaf) is _Swallowing and leaf.lines_left:  # the further lines of a link reference definition
+            self._swallowed()
+            return
+        if type(leaf) is _Swallowing:
+            if leaf.math:
+                if line[position:].strip().endswith("$$") or _MATH_LABEL_CLOSE.match(line, position):
+                    self.leaf = None
+            elif leaf.end is None:
+                if rest_blank:
+                    self.leaf = None
+            elif leaf.end.search(line, position):
+                self.leaf = None
+            return
+        if leaf is _INDENTED:
+            if rest_blank or _indent(line, position)[0] >= 4:
+                return
+            self.leaf = None
+        self._open_containers_and_leaf(index, line, start, position)
+
+    def _open_containers_and_leaf(self, index: int, line: str, start: int, position: int) -> None:
+        while True:
+            columns, at = _indent(line, position)
+            if columns >= 4 or at >= len(line):
+                break
+            character = line[at]
+            if character == ">":
+                self._close_leaf()
+                self._begin_block(index)
+                self.containers.append(_Container(quote=True))
+                position = at + 1
+                if position < len(line) and line[position] in " \t":
+                    position += 1
+                continue
+            if character in "-+*0123456789":
+                item = self._list_item(line, position, at, columns)
+                if item is not None:
+                    self._close_leaf()
+                    self._begin_block(index)
+                    self.containers.append(_Container(quote=False, indent=item[0]))
+                    position = item[1]
+                    continue
+            break
+        self._leaf_line(index, line, start, position)
+
+    def _list_item(self, line: str, position: int, at: int, columns: int) -> tuple[int, int] | None:
+        """(content column, content offset) of a list item starting at ``at``, or None."""
+        marker = _LIST_MARKER.match(line, at)
+        if marker is None or _THEMATIC_BREAK.match(line, at):
+            return None
+        after = marker.end()
+        empty = not line[after:].strip()
+        if type(self.leaf) is _Paragraph and (empty or (marker.group(2) is not None and int(marker.group(2)) != 1)):
+            return None  # cannot interrupt a paragraph
+        # Columns are absolute (tab stops count from the line's start); the content column is
+        # returned relative to ``position``, where this item's parent content begins.
+        tabbed = "\t" in line
+        base = _column(line, position) if tabbed else position
+        marker_end = (_column(line, at) if tabbed else at) + (after - at)
+        content, column = after, marker_end
+        while content < len(line) and line[content] in " \t":
+            column += 1 if line[content] == " " else 4 - column % 4
+            content += 1
+        spaces = column - marker_end
+        if empty or spaces > 4:
+            return marker_end + 1 - base, min(after + 1, len(line))
+        return column - base, content
+
+    def _leaf_line(self, index: int, line: str, start: int, position: int) -> None:
+        leaf = self.leaf
+        columns, at = _indent(line, position)
+        if at >= len(line):  # blank
+            if type(leaf) in (_Paragraph, _Table):
+                self._close_leaf()
+            return
+        if columns >= 4:
+            if type(leaf) is _Paragraph:
+                leaf.explicit(self).append(self._content(line, start, at))
+                return
+            self._close_leaf()
+            self._begin_block(index)
+            self.leaf = _INDENTED
+            return
+        character = line[at]
+        if type(leaf) is _Table:  # every line is a row until a block that ends tables starts
+            if self._table_row(leaf, index, line, start, at):
+                return
+            leaf = None
+        if character == "#" and (heading := _ATX_HEADING.match(line, at)):
+            self._close_leaf()
+            self._begin_block(index)
+            text = line[heading.end() :]
+            closing = _ATX_CLOSING.search(text)
+            self._emit_run([(start + heading.end(), text[: closing.start()] if closing else text)])
+            return
+        if character in "`~" and (fence := _FENCE_OPEN.match(line, at)):
+            info = fence.group(2)
+            if character == "~" or "`" not in info:
+                self._close_leaf()
+                self._begin_block(index)
+                words = info.split()
+                self.leaf = _Fence(character, len(fence.group(1)), columns, words[:1] == [BONDING_INFO])
+                return
+        # Display math cannot interrupt a paragraph (as in markdown-it's dollarmath plugin).
+        if character == "$" and type(leaf) is not _Paragraph and line.startswith("$$", at) and self._math_block(index, line, at):
+            return
+        if character == "<" and self._html_block(index, line, at):
+            return
+        if type(leaf) is _Paragraph:
+            if _SETEXT_UNDERLINE.match(line, at):
+                self._close_leaf()  # the paragraph was a heading; its text is prose all the same
+                return
+        if character in "*-_" and _THEMATIC_BREAK.match(line, at):
+            self._close_leaf()
+            self._begin_block(index)
+            return
+        if type(leaf) is _Paragraph and character in "|:-" and self._table_starts(leaf, line, at):
+            return
+        if leaf is None and character == "[" and (length := self._definition_length(index, line, at)):
+            self._begin_block(index)  # a link reference definition: destination and title are not prose
+            if length > 1:
+                self.leaf = _Swallowing(None, lines_left=length - 1)
+            return
+        if type(leaf) is not _Paragraph:
+            self._close_leaf()
+            self._begin_block(index)
+            if at == 0 and not self.containers:
+                self.leaf = _Paragraph(index, index + 1)
+                return
+            leaf = self.leaf = _Paragraph(index, index, [])
+        if leaf.lines is None and leaf.stop == index and at == 0 and not self.containers:
+            leaf.stop = index + 1
+        else:
+            leaf.explicit(self).append((start + at, line[at:]))
+
+    # --- leaves --------------------------------------------------------------
+
+    def _fence_line(self, fence: _Fence, index: int, line: str, start: int, position: int) -> None:
+        columns, at = _indent(line, position)
+        if columns < 4 and line.startswith(fence.character * fence.length, at):
+            run_end = at
+            while run_end < len(line) and line[run_end] == fence.character:
+                run_end += 1
+            if not line[run_end:].strip():
+                self.leaf = None
+                return
+        if fence.bonding:
+            content = _advance(line, position, fence.indent)
+            self.blocks[-1][2].append(Span(self._document_offset(start, content), start + len(line)))
+
+    def _math_block(self, index: int, line: str, at: int) -> bool:
+        """Open (or take whole) a ``$$`` display-math block; False when the line is not one."""
+        text = line[at:]
+        stripped = text.strip()
+        closed_here = False
+        if len(stripped) > 3:
+            if stripped.endswith("$$") or _MATH_LABEL_CLOSE.match(text):
+                closed_here = True
+            elif "$$" in text[2:]:
+                return False
+        if not closed_here and self._next_math_closer(index) is None:
+            return False  # never closed: the line is text
+        self._close_leaf()
+        self._begin_block(index)
+        if not closed_here:
+            self.leaf = _Swallowing(None, math=True)
+        return True
+
+    def _next_math_closer(self, index: int) -> int | None:
+        if self._math_closers is None:
+            self._math_closers = [
+                number
+                for number, line in enumerate(self.lines)
+                if "$$" in line and (line.rstrip().endswith("$$") or _MATH_LABEL_CLOSE.match(line))
+            ]
+        found = bisect_right(self._math_closers, index)
+        if found == len(self._math_closers):
+            return None
+        closer = self._math_closers[found]
+        depth = len(self.containers)
+        if depth and any(self._matched_containers(self.lines[line])[0] < depth for line in range(index + 1, closer + 1)):
+            return None  # the closing line is outside the block quote or list item the math opened in
+        return closer
+
+    def _html_block(self, index: int, line: str, at: int) -> bool:
+        for opener, end in _HTML_OPENERS:
+            if opener.match(line, at):
+                break
+        else:
+            if type(self.leaf) is _Paragraph or not _HTML_TAG_ALONE.match(line, at):
+                return False
+            end = None
+        self._close_leaf()
+        self._begin_block(index)
+        if end is None or not end.search(line, at):
+            self.leaf = _Swallowing(end)
+        return True
+
+    def _table_starts(self, paragraph: _Paragraph, line: str, at: int) -> bool:
+        """A delimiter row under a paragraph's last line makes that line a table header."""
+        columns = _delimiter_cells(line[at:])
+        if columns is None:
+            return False
+        lines = paragraph.explicit(self)
+        header_start, header = lines[-1]
+        if "|" not in header.strip() or len(_cells(header)) != columns:
+            return False
+        lines.pop()
+        self._close_leaf()
+        self._emit_cells(header_start, header)
+        self.leaf = _Table(columns)
+        return True
+
+    def _table_row(self, table: _Table, index: int, line: str, start: int, at: int) -> bool:
+        """A body row of an open table; False when the line ends it."""
+        if self._interrupts(index, line, at, any_list_marker=True):
+            self._close_leaf()
+            return False
+        self._emit_cells(start + at, line[at:], table.columns)
+        return True
+
+    def _interrupts(self, index: int, line: str, position: int, any_list_marker: bool = False) -> bool:
+        """Whether ``line`` (from ``position``) starts a block that ends a paragraph."""
+        columns, at = _indent(line, position)
+        if at >= len(line):
+            return True
+        if columns >= 4:
+            return False
+        character = line[at]
+        if character == ">":
+            return True
+        if character == "#" and _ATX_HEADING.match(line, at):
+            return True
+        if character in "`~" and (fence := _FENCE_OPEN.match(line, at)) and (character == "~" or "`" not in fence.group(2)):
+            return True
+        if character in "*-_" and _THEMATIC_BREAK.match(line, at):
+            return True
+        if character == "<" and any(opener.match(line, at) for opener, _ in _HTML_OPENERS):
+            return True
+        if character in "-+*0123456789":
+            marker = _LIST_MARKER.match(line, at)
+            if marker and (any_list_marker or (line[marker.end() :].strip() and marker.group(2) in (None, "1"))):
+                return True
+        return False
+
+    def _close_leaf(self) -> None:
+        leaf = self.leaf
+        if type(leaf) is _Paragraph:
+            if leaf.lines is None:
+                self._emit_whole_lines(leaf.first, leaf.stop)
+            else:
+                self._emit_run(leaf.lines)
+        self.leaf = None
+
+    def _begin_block(self, index: int) -> None:
+        if not self.containers:
+            self.blocks.append((index, [], []))
+
+    def _content(self, line: str, start: int, position: int) -> tuple[int, str]:
+        at = _indent(line, position)[1]
+        return start + at, line[at:]
+
+    def _definition_length(self, index: int, line: str, at: int) -> int:
+        """How many lines a link reference definition starting at ``at`` takes (0: it is not one).
+
+        CommonMark 4.7: ``[label]:``, a destination (on this line or the next), an
+        optional title (after whitespace, on the destination's line or the next, and
+        possibly over several lines), then nothing else on the title's last line.
+        """
+        label = _REFERENCE_DEFINITION.match(line, at)
+        if label is None or not label.group(1).strip():
+            return 0
+        following = []
+        for next_line in self.lines[index + 1 : index + 1 + _DEFINITION_LOOKAHEAD]:
+            if not next_line.strip():
+                break
+            following.append(next_line.lstrip(" \t>"))
+        text = "\n".join([line[label.end() :], *following])
+        position = _DEFINITION_SPACE.match(text).end()
+        if position < len(text) and text[position] == "<":
+            closing = text.find(">", position)
+            if closing == -1 or "\n" in text[position:closing]:
+                return 0
+            destination_end = closing + 1
+        else:
+            destination = _BARE_DESTINATION.match(text, position)
+            if destination is None:
+                return 0
+            destination_end = destination.end()
+        after = _DEFINITION_SPACE.match(text, destination_end).end()
+        title = _DEFINITION_TITLE.match(text, after) if after > destination_end else None
+        if title is not None:
+            title_line_rest = text[title.end() : _line_end(text, title.end())]
+            if not title_line_rest.strip():
+                return text.count("\n", 0, title.end()) + 1
+        # No valid title: the destination must end its line.
+        if text[destination_end : _line_end(text, destination_end)].strip():
+            return 0
+        return text.count("\n", 0, destination_end) + 1
+
+    # --- inline runs -----------------------------------------------------------
+
+    def _emit_whole_lines(self, first: int, stop: int) -> None:
+        """Segments of a paragraph made of whole lines ``[first, stop)``: its text is a slice of the document."""
+        if first >= stop:
+            return
+        starts, lines = self.starts, self.lines
+        base = starts[first]
+        text = self.text[base : starts[stop - 1] + len(lines[stop - 1])]
+        brace = text.find("{")
+        if brace == -1:
+            return
+        skips = inline_skips(text, self.references) if SKIP_START.search(text) else ()
+        ends = [end for _, end in skips]
+        segments = self.blocks[-1][1]
+        while brace != -1:
+            number = bisect_right(starts, base + brace, first, stop) - 1
+            begin = starts[number] - base
+            line = lines[number]
+            end = begin + len(line)
+            local = []
+            for skip in range(bisect_right(ends, begin), len(skips)):
+                a, b = skips[skip]
+                if a >= end:
+                    break
+                local.append((max(a, begin) - begin, min(b, end) - begin))
+            segments.append(Segment(starts[number], line, tuple(local)))
+            brace = text.find("{", end)
+
+    def _emit_run(self, lines: list[tuple[int, str]]) -> None:
+        """Segments of one inline run (lines of a paragraph or one heading), with their skipped ranges."""
+        segments = self.blocks[-1][1]
+        braced = [number for number, (_, text) in enumerate(lines) if "{" in text]
+        if not braced:
+            return
+        joined = lines[0][1] if len(lines) == 1 else "\n".join([text for _, text in lines])
+        skips = inline_skips(joined, self.references) if SKIP_START.search(joined) else ()
+        if not skips:
+            segments.extend(Segment(*lines[number]) for number in braced)
+            return
+        # Skipped ranges are disjoint and in order: find each line's share by bisecting their ends.
+        ends = [end for _, end in skips]
+        line_offsets = list(accumulate([len(text) + 1 for _, text in lines], initial=0))
+        for number in braced:
+            offset, text = lines[number]
+            begin = line_offsets[number]
+            end = begin + len(text)
+            local = []
+            for skip in range(bisect_right(ends, begin), len(skips)):
+                a, b = skips[skip]
+                if a >= end:
+                    break
+                local.append((max(a, begin) - begin, min(b, end) - begin))
+            segments.append(Segment(offset, text, tuple(local)))
+
+    def _emit_cells(self, offset: int, row: str, columns: int | None = None) -> None:
+        """One table row: each cell an inline run of its own (cells past the header's ``columns`` are dropped)."""
+        if "{" not in row:
+            return
+        skips: list[tuple[int, int]] = []
+        cells = _cells(row)
+        if columns is not None and len(cells) > columns:
+            skips.append((cells[columns][0], len(row)))
+            cells = cells[:columns]
+        for start, end in cells:
+            cell = row[start:end]
+            if "{" in cell and SKIP_START.search(cell):
+                skips.extend((start + a, start + b) for a, b in inline_skips(cell, self.references))
+        pipes = [(end, end + 1) for _, end in cells[:-1]]  # the pipes between cells: no annotation spans one
+        self.blocks[-1][1].append(Segment(offset, row, tuple(sorted(skips + pipes))))
+
+
+_DEFINITION_LOOKAHEAD = 50  # lines a definition's destination and title may take
+_DEFINITION_SPACE = re.compile(r"[ \t]*\n?[ \t]*")
+_BARE_DESTINATION = re.compile(r"[^\s\x00-\x1f<]+")
+_DEFINITION_TITLE = re.compile(r'"(?:[^"\\]|\\.)*"|\'(?:[^\'\\]|\\.)*\'|\((?:[^()\\]|\\.)*\)', re.S)
+
+
+def _line_end(text: str, position: int) -> int:
+    end = text.find("\n", position)
+    return len(text) if end == -1 else end
+
+
+def _reference_labels(text: str) -> frozenset[str]:
+    if "]:" not in text:
+        return frozenset()
+    return frozenset(
+        normalise_label(match.group(1))
+        for match in re.finditer(r"^[ \t]{0,3}" + _REFERENCE_DEFINITION.pattern, text, re.M)
+        if match.group(1).strip()
+    )
+
+
+def parse_blocks(text: str) -> tuple[Block, ...]:
+    """The top-level blocks of a Markdown document."""
+    return _Parser(text).parse()
