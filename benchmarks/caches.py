@@ -1,5 +1,8 @@
 """Empty notelsp's result caches, so a benchmark measures work rather than look-ups.
 
+``clear_result_caches`` empties all of them; ``clear_document_caches`` only the
+ones about whole documents (see there).
+
 What a process pays once (element data, the grammar's parser, the Markdown
 parser object, per-class field tables) is kept: the figures exclude a cold
 process.  Every cache of results (parses, placed annotations, findings,
@@ -38,3 +41,18 @@ def clear_result_caches() -> int:
         analysis._cache.clear()
     markdown.forget_documents()
     return emptied + 2
+
+
+def clear_document_caches() -> None:
+    """Empty only what is remembered about whole documents and exact places.
+
+    Kept: the per-annotation caches (a body's parse, a species' analysis, an
+    annotation text's findings), which a process fills once per distinct text.
+    What remains to do is the whole scan of the document and the placing of
+    every annotation and finding: a check of a note made of known species.
+    """
+    from notelsp.notation import markdown, scanner
+
+    scanner._segment_annotations.cache_clear()
+    scanner._block_annotation.cache_clear()
+    markdown.forget_documents()

@@ -24,14 +24,11 @@ _AUTOLINK = re.compile(r"<(?:[A-Za-z][A-Za-z0-9.+\-]{1,31}:[^<>\x00-\x20]*"
                        r"|[A-Za-z0-9.!#$%&'*+/=?^_`{|}~\-]+@[A-Za-z0-9](?:[A-Za-z0-9\-]{0,61}[A-Za-z0-9])?"
                        r"(?:\.[A-Za-z0-9](?:[A-Za-z0-9\-]{0,61}[A-Za-z0-9])?)*)>")
 _ATTRIBUTE = r"""(?:\s+[A-Za-z_:][A-Za-z0-9:._\-]*(?:\s*=\s*(?:[^"'=<>`\x00-\x20]+|'[^']*'|"[^"]*"))?)"""
-RAW_HTML = re.compile(
-    r"<[A-Za-z][A-Za-z0-9\-]*" + _ATTRIBUTE + r"*\s*/?>"
-    r"|</[A-Za-z][A-Za-z0-9\-]*\s*>"
-    r"|<!---?>|<!--(?:[^-]|-[^-]|--[^>])*-->"
-    r"|<[?][\s\S]*?[?]>"
-    r"|<![A-Za-z][^>]*>"
-    r"|<!\[CDATA\[[\s\S]*?\]\]>"
-)
+_HTML_TAG = re.compile(r"<[A-Za-z][A-Za-z0-9\-]*" + _ATTRIBUTE + r"*\s*/?>|</[A-Za-z][A-Za-z0-9\-]*\s*>")
+# Raw HTML that runs to a fixed closer (CommonMark 0.31, 6.6), longest opener first.
+_HTML_CLOSERS = (("<![CDATA[", "]]>"), ("<!--", "-->"), ("<?", "?>"), ("<!", ">"))
+_ANGLE_DESTINATION = re.compile(r"(?:\\.|[^>\n<\\])*")  # up to the first unescaped ">", "<" or line break
+_DESTINATION_EVENT = re.compile(r"[\x00- \x7f()\\]")
 _LINK_TITLE = re.compile(r'"(?:[^"\\]|\\[\s\S])*"|\'(?:[^\'\\]|\\[\s\S])*\'|\((?:[^()\\]|\\[\s\S])*\)')
 _SPACES = re.compile(r"[ \t]*\n?[ \t]*")
 _MAX_LINK_NESTING = 32  # parentheses in a bare destination, as CommonMark implementations cap it
@@ -73,10 +70,10 @@ def _scan(
         elif character == "`":
             position = _code_span(text, position, end, skips, dead_ends)
         elif character == "<":
-            match = _AUTOLINK.match(text, position, end) or RAW_HTML.match(text, position, end)
-            if match:
-                skips.append((position, match.end()))
-                position = match.end()
+            html_end = _html_end(text, position, end, dead_ends)
+            if html_end is not None:
+                skips.append((position, html_end))
+                position = html_end
             else:
                 position += 1
         elif character == "!":
@@ -141,35 +138,73 @@ def _code_span(text: str, position: int, end: int, skips: list[Skip], dead_ends:
 
 
 def _label_end(text: str, opening: int, end: int, dead_ends: DeadEnds) -> int | None:
-    """Offset of the ``]`` closing the label opened at ``opening``, or None.
+    """Offset of the ``]`` closing the label opened at ``opening`` (before ``end``), or None.
 
-    Brackets nest; code spans, math, autolinks, raw HTML and escapes inside the
-    label are stepped over whole, so their brackets do not count.
+    Brackets nest; code spans, math, autolinks, raw HTML and escapes inside a
+    label are stepped over whole, so their brackets do not count.  Every
+    bracket of the run is matched in one pass, the first time one is asked for,
+    so a line of ten thousand ``[`` costs one pass, not ten thousand.
     """
-    depth, position = 1, opening + 1
-    while position < end:
+    matches = dead_ends.get("labels")
+    if matches is None:
+        matches = dead_ends["labels"] = _matched_brackets(text, dead_ends)
+    closing = matches.get(opening)
+    return closing if closing is not None and closing < end else None
+
+
+_LABEL_EVENT = re.compile(r"[\[\]\\`$<]")
+
+
+def _matched_brackets(text: str, dead_ends: DeadEnds) -> dict[int, int]:
+    matches: dict[int, int] = {}
+    open_brackets: list[int] = []
+    position, end = 0, len(text)
+    while (found := _LABEL_EVENT.search(text, position)) is not None:
+        position = found.start()
         character = text[position]
         if character == "\\":
             position += 2
             continue
         if character in "`$":
             stepped = (_code_span if character == "`" else _math)(text, position, end, [], dead_ends)
-            if stepped > position + 1:
-                position = stepped
-                continue
+            position = max(stepped, position + 1)
+            continue
         if character == "<":
-            match = _AUTOLINK.match(text, position, end) or RAW_HTML.match(text, position, end)
-            if match:
-                position = match.end()
-                continue
+            html_end = _html_end(text, position, end, dead_ends)
+            position = html_end if html_end is not None else position + 1
+            continue
         if character == "[":
-            depth += 1
-        elif character == "]":
-            depth -= 1
-            if depth == 0:
-                return position
+            open_brackets.append(position)
+        elif open_brackets:
+            matches[open_brackets.pop()] = position
         position += 1
-    return None
+    return matches
+
+
+def _html_end(text: str, position: int, end: int, dead_ends: DeadEnds) -> int | None:
+    """End of the autolink or raw HTML at ``position``, or None.
+
+    Comments, processing instructions, CDATA and declarations run to a fixed
+    closer; once a closer is known to be absent past some offset, later openers
+    fail at once (so a line of many unclosed openers stays linear).
+    """
+    if text.startswith("<?", position) or text.startswith("<!", position):
+        for opener, closer in _HTML_CLOSERS:
+            if text.startswith(opener, position):
+                if opener == "<!--" and (text.startswith("<!-->", position) or text.startswith("<!--->", position)):
+                    return position + (5 if text[position + 4] == ">" else 6)
+                if opener == "<!" and not (position + 2 < end and text[position + 2].isascii() and text[position + 2].isalpha()):
+                    return None
+                if position >= dead_ends.get(("html", closer, end), end + 1):
+                    return None
+                closing = text.find(closer, position + len(opener), end)
+                if closing == -1:
+                    dead_ends[("html", closer, end)] = position
+                    return None
+                return closing + len(closer)
+        return None
+    match = _AUTOLINK.match(text, position, end) or _HTML_TAG.match(text, position, end)
+    return match.end() if match else None
 
 
 def _link(
@@ -203,15 +238,19 @@ def _inline_destination(text: str, position: int, end: int) -> int | None:
     """End (past ``)``) of ``(destination "title")`` whose ``(`` precedes ``position``, or None."""
     position = _SPACES.match(text, position, end).end()
     if position < end and text[position] == "<":
-        closing = position + 1
-        while closing < end and text[closing] not in ">\n<":
-            closing += 2 if text[closing] == "\\" else 1
+        closing = _ANGLE_DESTINATION.match(text, position + 1, end).end()
         if closing >= end or text[closing] != ">":
             return None
         position = closing + 1
     else:
         depth = 0
         while position < end:
+            # Jump over ordinary characters to the next one that matters.
+            found = _DESTINATION_EVENT.search(text, position, end)
+            if found is None:
+                position = end
+                break
+            position = found.start()
             character = text[position]
             if character == "\\" and position + 1 < end and text[position + 1] in _ASCII_PUNCTUATION:
                 position += 2
