@@ -16,6 +16,8 @@ import time
 from dataclasses import dataclass
 from typing import Any
 
+from notelsp.server.framing import encode_frame, frame_bodies
+
 
 @dataclass(frozen=True)
 class Received:
@@ -38,27 +40,12 @@ class StdioClient:
     # --- wire ---------------------------------------------------------------
 
     def _write(self, message: dict[str, Any]) -> None:
-        body = json.dumps(message).encode("utf-8")
-        self.process.stdin.write(b"Content-Length: %d\r\n\r\n" % len(body) + body)
+        self.process.stdin.write(encode_frame(json.dumps(message).encode("utf-8")))
         self.process.stdin.flush()
 
     def _read(self) -> None:
-        stream = self.process.stdout
-        while True:
-            length = None
-            while True:
-                line = stream.readline()
-                if not line:
-                    return
-                line = line.strip()
-                if not line:
-                    break
-                name, _, value = line.partition(b":")
-                if name.lower() == b"content-length":
-                    length = int(value)
-            if length is None:
-                continue
-            message = json.loads(stream.read(length))
+        for body in frame_bodies(self.process.stdout):
+            message = json.loads(body)
             received = Received(time.perf_counter(), message)
             if "id" in message and "method" in message:
                 self._write({"jsonrpc": "2.0", "id": message["id"], "result": None})  # server -> client request

@@ -39,14 +39,24 @@ def run(tcp: str | None = None) -> int:
             return 2
     logging.basicConfig(level=logging.INFO, stream=sys.stderr, format="notelsp: %(message)s")
     logging.getLogger("pygls").setLevel(logging.WARNING)  # it logs every message at INFO
-    from .app import build_server
+    if address is not None:
+        from .app import build_server, settle_long_lived_objects
+
+        server = build_server()
+        settle_long_lived_objects()
+        server.start_tcp(*address)
+        return 0
+    from .exiting import leave_now
+    from .quickstart import answer_initialize
+
+    early = answer_initialize(sys.stdin.buffer, sys.stdout.buffer)  # before pygls: see quickstart
+    if early is None:
+        leave_now(0)  # the client closed its end before its first message
+    from .app import build_server, settle_long_lived_objects
 
     server = build_server()
-    if address is None:
-        server.start_io()
-        from .protocol import leave_now
-
-        leave_now(server.protocol.exit_status)  # skip the interpreter's slow teardown
-    else:
-        server.start_tcp(*address)
-    return 0
+    settle_long_lived_objects()
+    if early.answered_id is not None:
+        server.protocol.expect_early_reply(early.answered_id, early.answered_result)
+    server.start_io(replay=early.replay)
+    leave_now(server.protocol.exit_status)  # skip the interpreter's slow teardown

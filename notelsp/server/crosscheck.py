@@ -12,10 +12,12 @@
 
 Every run reports work-done progress (begin, one report per optimisation
 step, end) and stops when the progress is cancelled or the request is
-cancelled (``$/cancelRequest``: the request's task is cancelled, which kills
-the worker process).  Requests answer ``{"status", "markdown", "findings"}``.
+cancelled (``$/cancelRequest`` of the ``notelsp/crossCheck`` request or of the
+``workspace/executeCommand``, which ``NoteProtocol`` passes on to the command:
+the running task is cancelled, which kills the worker process).  Requests
+answer ``{"status", "markdown", "findings"}``.
 The computed findings are kept per document, keyed by the annotation's text
-(:func:`computed_diagnostics`), and the diagnostics module publishes them
+(:func:`computed_findings`), and the diagnostics module publishes them
 with the review's, so they survive later reviews and vanish when the
 annotation is edited.  Results are also kept in memory by species and level,
 so automatic runs never repeat a calculation.
@@ -27,18 +29,19 @@ import asyncio
 import itertools
 import logging
 from dataclasses import replace
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from lsprotocol import types
 
 from ..crosscheck.availability import missing_extra
 from ..crosscheck.levels import DEFAULT_LEVEL, DEFAULT_LEVEL_TEXT, LevelOfTheory, Limits, parse_level
-from ..crosscheck.report import cross_check_findings, cross_check_markdown
-from ..crosscheck.runner import CrossCheckResult, Progress, cross_check
 from ..notation.model import Annotation, Span
 from ..review.findings import Finding
 from .app import HeldDocument, NoteServer
-from .diagnostics import diagnostics_of, to_diagnostic
+from .diagnostics import diagnostics_json, publish_json
+
+if TYPE_CHECKING:  # the runner and the report are imported on the first calculation: the server starts without them
+    from ..crosscheck.runner import CrossCheckResult, Progress
 
 log = logging.getLogger("notelsp.server")
 
@@ -116,17 +119,16 @@ def _remember_result(ls: NoteServer, result: CrossCheckResult) -> None:
         results.pop(next(iter(results)))
 
 
-def computed_diagnostics(ls: NoteServer, held: HeldDocument) -> list[types.Diagnostic]:
-    """Diagnostics of the cross-checks run on this document whose annotation is still there unchanged."""
+def computed_findings(ls: NoteServer, held: HeldDocument) -> list[Finding]:
+    """Findings of the cross-checks run on this document whose annotation is still there unchanged."""
     kept = _computed(ls).get(held.uri)
     if not kept or held.review is None:
         return []
-    diagnostics = []
+    findings = []
     for annotation in held.review.annotations:
         relative = kept.get(held.text[annotation.span.start : annotation.span.end])
-        for finding in relative or ():
-            diagnostics.append(to_diagnostic(_shifted(finding, annotation.span.start), held.index))
-    return diagnostics
+        findings += [_shifted(finding, annotation.span.start) for finding in relative or ()]
+    return findings
 
 
 def _shifted(finding: Finding, delta: int) -> Finding:
@@ -149,13 +151,8 @@ def _publish(ls: NoteServer, uri: str) -> None:
         if workspace and workspace.diagnostics and workspace.diagnostics.refresh_support:
             ls.workspace_diagnostic_refresh(None)
         return
-    ls.text_document_publish_diagnostics(
-        types.PublishDiagnosticsParams(
-            uri=held.uri,
-            version=held.version,
-            diagnostics=diagnostics_of(held.review, held.index) + computed_diagnostics(ls, held),
-        )
-    )
+    findings = [*(held.review.findings if held.review else ()), *computed_findings(ls, held)]
+    publish_json(ls, held.uri, held.version, diagnostics_json(findings, held.index))
 
 
 # --- one calculation, with progress ---------------------------------------------
@@ -217,6 +214,8 @@ async def _calculated(ls: NoteServer, annotation: Annotation, level: LevelOfTheo
     task = asyncio.current_task()
     assert task is not None
     reporter = _ProgressReporter(ls, task)
+    from ..crosscheck.runner import cross_check
+
     formula = annotation.formula
     await reporter.begin(f"Cross-check {formula.text} ({level.label})")
     try:
@@ -237,6 +236,8 @@ async def _calculated(ls: NoteServer, annotation: Annotation, level: LevelOfTheo
 
 async def run_cross_check(ls: NoteServer, uri: str, offset: int, level_text: str | None = None) -> dict[str, Any]:
     """Cross-check the annotation at ``offset`` of the open document ``uri``; the answer both entry points give."""
+    from ..crosscheck.report import cross_check_findings, cross_check_markdown
+
     held = ls.held(uri)
     annotation: Annotation | None = held.review.annotation_at(offset) if held and held.review else None
     if held is None or annotation is None or not _checkable(annotation):
@@ -315,6 +316,8 @@ async def _automatic_run(ls: NoteServer, uri: str, delay: float) -> None:
     await asyncio.sleep(delay)
     if missing_extra():
         return  # nothing to run; an explicit request says how to install the extra
+    from ..crosscheck.report import cross_check_findings
+
     lock = _state(ls, "crosscheck_lock", asyncio.Lock)  # one automatic calculation at a time: CPU is shared
     _calculating(ls).add(uri)
     try:

@@ -1,16 +1,23 @@
-"""Diagnostics: pushed after a short pause in typing, and pulled on request.
+"""Diagnostics: pushed as soon as typing pauses, and pulled on request.
 
-A change schedules a review of that version ~30 ms later; a newer change
-cancels it, and a result whose version is no longer current is dropped.
-The review runs in a worker thread so hover and completion stay responsive.
-Clients that pull diagnostics (textDocument/diagnostic) are not also pushed
-to, so nothing is shown twice.
+A change to a document with no review under way is reviewed at once; a change
+that arrives while one is pending or running (a burst: paste, replace-all,
+fast typing) cancels it and waits until changes have paused for ~30 ms, so a
+burst costs one review.  A result whose version is no longer current is
+dropped.  The review runs in a worker thread so hover and completion stay
+responsive.  Clients that pull diagnostics (textDocument/diagnostic) are not
+also pushed to, so nothing is shown twice.
+
+Pushed diagnostics are built as JSON directly: a long note has a thousand
+findings, and lsprotocol objects serialised through cattrs cost more than the
+review of a one-line edit.
 """
 
 from __future__ import annotations
 
 import asyncio
 import logging
+from typing import Any, Iterable
 
 from lsprotocol import types
 
@@ -21,8 +28,9 @@ from .app import NoteServer
 from .positions import LineIndex, line_index
 
 log = logging.getLogger("notelsp.server")
-DEBOUNCE_SECONDS = 0.03  # long enough to merge a burst of keystrokes; a re-review takes ~30 ms
+PAUSE_SECONDS = 0.03  # quiet time that ends a burst of changes; keystrokes are further apart
 SOURCE = "notelsp"
+PUBLISH = types.TEXT_DOCUMENT_PUBLISH_DIAGNOSTICS
 
 _SEVERITY = {
     Severity.ERROR: types.DiagnosticSeverity.Error,
@@ -30,6 +38,7 @@ _SEVERITY = {
     Severity.INFORMATION: types.DiagnosticSeverity.Information,
     Severity.HINT: types.DiagnosticSeverity.Hint,
 }
+_SEVERITY_NUMBER = {severity: lsp.value for severity, lsp in _SEVERITY.items()}
 
 
 def to_diagnostic(finding: Finding, index: LineIndex) -> types.Diagnostic:
@@ -46,19 +55,46 @@ def diagnostics_of(review: DocumentReview | None, index: LineIndex) -> list[type
     return [] if review is None else [to_diagnostic(f, index) for f in review.findings]
 
 
+def diagnostic_json(finding: Finding, index: LineIndex) -> dict[str, Any]:
+    """``to_diagnostic(finding, index)`` as the JSON lsprotocol would make of it."""
+    start_line, start_character = index.line_character(finding.span.start)
+    end_line, end_character = index.line_character(finding.span.end)
+    return {
+        "range": {"start": {"line": start_line, "character": start_character},
+                  "end": {"line": end_line, "character": end_character}},
+        "severity": _SEVERITY_NUMBER[finding.severity],
+        "code": finding.code,
+        "source": SOURCE,
+        "message": finding.message,
+    }
+
+
+def diagnostics_json(findings: Iterable[Finding], index: LineIndex) -> list[dict[str, Any]]:
+    return [diagnostic_json(finding, index) for finding in findings]
+
+
+def publish_json(ls: NoteServer, uri: str, version: int | None, diagnostics: list[dict[str, Any]]) -> None:
+    """Push ``diagnostics`` (from ``diagnostics_json``) for that version of the document."""
+    params: dict[str, Any] = {"uri": uri}
+    if version is not None:
+        params["version"] = version
+    params["diagnostics"] = diagnostics
+    ls.protocol.notify_json(PUBLISH, params)
+
+
 def _client_pulls(ls: NoteServer) -> bool:
     document = ls.client_capabilities.text_document
     return bool(document and document.diagnostic)
 
 
-def _computed(ls: NoteServer, uri: str) -> list[types.Diagnostic]:
+def _computed(ls: NoteServer, uri: str) -> list[Finding]:
     """Findings of cross-checks run on this document (optional feature notelsp.server.crosscheck)."""
     try:
-        from .crosscheck import computed_diagnostics  # imported late: it imports this module
+        from .crosscheck import computed_findings  # imported late: it imports this module
     except ImportError:
         return []
     held = ls.held(uri)
-    return [] if held is None else computed_diagnostics(ls, held)
+    return [] if held is None else computed_findings(ls, held)
 
 
 def _cross_check_later(ls: NoteServer, uri: str) -> None:
@@ -70,38 +106,45 @@ def _cross_check_later(ls: NoteServer, uri: str) -> None:
     schedule_automatic(ls, uri)
 
 
-def schedule(ls: NoteServer, uri: str, delay: float = DEBOUNCE_SECONDS) -> None:
+def schedule(ls: NoteServer, uri: str, delay: float | None = None) -> None:
+    """Publish the document's diagnostics after ``delay``; by default at once, or after the pause in a burst."""
     _cross_check_later(ls, uri)
     if _client_pulls(ls):
         return
-    tasks = ls.pending
-    if (previous := tasks.pop(uri, None)) is not None:
+    previous = ls.pending.pop(uri, None)
+    in_burst = previous is not None and not previous.done()
+    if previous is not None:
         previous.cancel()
-    tasks[uri] = asyncio.get_running_loop().create_task(_publish_later(ls, uri, delay))
+    if delay is None:
+        delay = PAUSE_SECONDS if in_burst else 0.0
+    ls.pending[uri] = asyncio.get_running_loop().create_task(_publish_later(ls, uri, delay))
+
+
+def _reviewed_json(text: str, kind, settings, encoding: str) -> list[dict[str, Any]]:
+    return diagnostics_json(cached_review(text, kind, settings).findings, line_index(text, encoding))
 
 
 async def _publish_later(ls: NoteServer, uri: str, delay: float) -> None:
-    await asyncio.sleep(delay)
+    if delay > 0:
+        await asyncio.sleep(delay)
     document = ls.open_document(uri)
     if document is None:
         return
     text, version = document.source, document.version
-    diagnostics: list[types.Diagnostic] = []
+    diagnostics: list[dict[str, Any]] = []
     if ls.is_reviewed(uri):
         kind, settings, encoding = kind_of_path(ls.relative_path(uri) or uri), ls.settings, ls.encoding()
         try:
-            diagnostics = await asyncio.to_thread(
-                lambda: diagnostics_of(cached_review(text, kind, settings), line_index(text, encoding))
-            )
+            diagnostics = await asyncio.to_thread(_reviewed_json, text, kind, settings, encoding)
         except Exception:
             log.exception("review of %s failed", uri)
     current = ls.open_document(uri)
     if current is None or current.version != version:
         return  # stale: a newer change has its own publication scheduled (or the document closed)
-    diagnostics += _computed(ls, uri)
-    ls.text_document_publish_diagnostics(
-        types.PublishDiagnosticsParams(uri=uri, version=version, diagnostics=diagnostics)
-    )
+    computed = _computed(ls, uri)
+    if computed:
+        diagnostics += diagnostics_json(computed, line_index(text, ls.encoding()))
+    publish_json(ls, uri, version, diagnostics)
 
 
 def refresh_all(ls: NoteServer) -> None:
@@ -130,7 +173,7 @@ def register(server: NoteServer) -> None:
         if (task := ls.pending.pop(uri, None)) is not None:
             task.cancel()
         if not _client_pulls(ls):
-            ls.text_document_publish_diagnostics(types.PublishDiagnosticsParams(uri=uri, diagnostics=[]))
+            publish_json(ls, uri, None, [])
 
     @server.feature(
         types.TEXT_DOCUMENT_DIAGNOSTIC,
@@ -138,5 +181,6 @@ def register(server: NoteServer) -> None:
     )
     def pulled(ls: NoteServer, params: types.DocumentDiagnosticParams) -> types.FullDocumentDiagnosticReport:
         held = ls.held(params.text_document.uri)
-        items = [] if held is None else diagnostics_of(held.review, held.index) + _computed(ls, held.uri)
+        items = [] if held is None else diagnostics_of(held.review, held.index) + [
+            to_diagnostic(finding, held.index) for finding in _computed(ls, held.uri)]
         return types.FullDocumentDiagnosticReport(items=items)

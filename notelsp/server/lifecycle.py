@@ -9,7 +9,7 @@ from urllib.parse import unquote, urlparse
 from lsprotocol import types
 
 from .. import elements
-from .app import NoteServer
+from .app import NoteServer, settle_long_lived_objects
 
 
 def _root_of(params: types.InitializeParams) -> Path | None:
@@ -21,6 +21,11 @@ def _root_of(params: types.InitializeParams) -> Path | None:
     return Path(params.root_path) if params.root_path else None
 
 
+def _load_element_data() -> None:
+    elements.preload()
+    settle_long_lived_objects()  # the tables live as long as the process
+
+
 def register(server: NoteServer) -> None:
     @server.feature(types.INITIALIZE)
     def initialize(ls: NoteServer, params: types.InitializeParams) -> None:
@@ -29,7 +34,7 @@ def register(server: NoteServer) -> None:
     @server.feature(types.INITIALIZED)
     async def initialized(ls: NoteServer, params: types.InitializedParams) -> None:
         # mendeleev takes seconds to load: do it off the request path so start-up stays fast.
-        threading.Thread(target=elements.preload, name="notelsp-preload", daemon=True).start()
+        threading.Thread(target=_load_element_data, name="notelsp-preload", daemon=True).start()
         from .configuration import reload_settings, watch_config_file
 
         await reload_settings(ls)

@@ -60,15 +60,18 @@ class LineIndex:
             end -= 1
         return end
 
-    def position(self, offset: int) -> types.Position:
+    def line_character(self, offset: int) -> tuple[int, int]:
+        """(line, character) of ``offset``, without building a Position (publishing converts thousands)."""
         offset = max(0, min(offset, len(self.text)))
         line = bisect_right(self.starts, offset) - 1
         start = self.starts[line]
         if self._is_narrow(line):
-            character = offset - start
-        else:
-            codec, width = _CODECS[self.encoding]
-            character = len(self.text[start:offset].encode(codec, "surrogatepass")) // width
+            return line, offset - start
+        codec, width = _CODECS[self.encoding]
+        return line, len(self.text[start:offset].encode(codec, "surrogatepass")) // width
+
+    def position(self, offset: int) -> types.Position:
+        line, character = self.line_character(offset)
         return types.Position(line=line, character=character)
 
     def offset(self, position: types.Position) -> int:

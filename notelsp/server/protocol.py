@@ -1,18 +1,24 @@
-"""JSON-RPC faults from the client: every readable request id gets an answer, junk is logged.
+"""Where notelsp's JSON-RPC handling departs from pygls's.
 
-pygls drops a request whose params cannot be read (the client then waits
-forever) and pops an error up in the editor for every unreadable frame.  Here
-such a request is answered with its JSON-RPC error, frames that are not
-messages are answered per JSON-RPC 2.0 (error with id null), and nothing is
-shown in the editor for a fault of the wire.
+- Faults from the client: pygls drops a request whose params cannot be read
+  (the client then waits forever) and pops an error up in the editor for every
+  unreadable frame.  Here such a request is answered with its JSON-RPC error,
+  frames that are not messages are answered per JSON-RPC 2.0 (error with id
+  null), and nothing is shown in the editor for a fault of the wire.
+- The fast start-up (``quickstart``) answers ``initialize`` before the server
+  exists; the server's own reply to it is checked against that one and dropped.
+- ``$/cancelRequest`` also cancels what a generator handler is running for the
+  request (pygls cancels only the request's own future, so an executeCommand's
+  command would run on).
 """
 
 from __future__ import annotations
 
+import io
+import json
 import logging
-import os
-import sys
-from typing import Any, Callable, NoReturn
+from concurrent.futures import Future
+from typing import Any, Callable
 
 from pygls.exceptions import (
     JsonRpcException,
@@ -29,18 +35,6 @@ log = logging.getLogger("notelsp.server")
 HEADER = b"Content-Length:"
 
 
-def leave_now(status: int = 0) -> NoReturn:
-    """Exit at once: a review still running or the interpreter's teardown (over a second with
-    the element tables loaded) must not keep a server alive whose client is gone."""
-    for stream in (sys.stdout, sys.stderr):
-        try:
-            stream.flush()
-        except Exception:  # the client may have closed the pipe: nothing left to tell it
-            pass
-    logging.shutdown()
-    os._exit(status)
-
-
 class ResyncingInput:
     """The client's byte stream, read so that a wrong Content-Length costs one frame, not the session.
 
@@ -49,19 +43,25 @@ class ResyncingInput:
     would never find one again.  Junk before a header is dropped here.
     """
 
-    def __init__(self, stream, on_end: Callable[[], Any] | None = None) -> None:
+    def __init__(self, stream, on_end: Callable[[], Any] | None = None, replay: bytes = b"") -> None:
         self.stream = stream
         self.on_end = on_end  # called when the client closes its end
+        self.replay = io.BytesIO(replay)  # bytes already read off ``stream`` (by the fast start-up), read first
 
     def readline(self) -> bytes:
-        line = self.stream.readline()
+        line = self.replay.readline()
+        if not line.endswith(b"\n"):
+            line += self.stream.readline()
         if not line and self.on_end is not None:
             self.on_end()
         at = line.find(HEADER)
         return line[at:] if at > 0 else line
 
     def read(self, size: int) -> bytes:
-        return self.stream.read(size)
+        data = self.replay.read(size)
+        if len(data) < size:
+            data += self.stream.read(size - len(data))
+        return data
 
 
 class HandledFault(Exception):
@@ -74,6 +74,62 @@ def _usable_id(value: Any) -> bool:
 
 class NoteProtocol(LanguageServerProtocol):
     exit_status = 0  # LSP: 1 when ``exit`` comes without ``shutdown`` before it
+
+    def __init__(self, *args, **kwargs) -> None:
+        super().__init__(*args, **kwargs)
+        self._early_reply: tuple[int | str, dict[str, Any]] | None = None
+        # request id -> running steps of its generator handler (an executeCommand's command, for one)
+        self._request_steps: dict[Any, set[Future]] = {}
+
+    def notify_json(self, method: str, params: dict[str, Any]) -> None:
+        """Send a notification whose params are JSON already (skips lsprotocol objects and cattrs)."""
+        self._send_data({"jsonrpc": "2.0", "method": method, "params": params})
+
+    # --- the initialize reply the fast start-up sent already ---------------------
+
+    def expect_early_reply(self, request_id: int | str, result: dict[str, Any]) -> None:
+        """``initialize`` ``request_id`` was answered with ``result`` before this server existed: send no second reply."""
+        self._early_reply = (request_id, result)
+
+    def _send_response(self, msg_id, result=None, error=None) -> None:
+        if self._early_reply is not None and msg_id == self._early_reply[0]:
+            early = self._early_reply[1]
+            self._early_reply = None
+            self._result_types.pop(msg_id, None)
+            own = json.loads(json.dumps(result, default=self._serialize_message)) if error is None else None
+            if own != early:  # the snapshot no longer matches the server: say so, the client has the early one
+                log.warning("the early initialize reply differs from the server's own (%s); "
+                            "run python -m notelsp.server.snapshot_tool", error or own)
+            return
+        super()._send_response(msg_id, result, error)
+
+    # --- $/cancelRequest reaching the steps of a generator handler ---------------
+
+    def _execute_handler(self, msg_id, handler, callback, args=None, kwargs=None) -> None:
+        super()._execute_handler(msg_id, handler, callback, args, kwargs)
+        step = self._request_futures.get(msg_id)  # only handlers still running (coroutines, threads) have one
+        if step is None or step.done():
+            return
+        request = self._ctx_msg_id.get()  # the client's request this runs for (a step has an id of its own)
+        if request is None or request == msg_id:
+            return
+        steps = self._request_steps.setdefault(request, set())
+        steps.add(step)
+        step.add_done_callback(lambda done: self._forget_step(request, done))
+
+    def _forget_step(self, request, step) -> None:
+        steps = self._request_steps.get(request)
+        if steps is not None:
+            steps.discard(step)
+            if not steps:
+                del self._request_steps[request]
+
+    def _handle_cancel_notification(self, msg_id) -> None:
+        # pygls cancels only the request's own future; a generator handler such as executeCommand's
+        # would keep running the command it yielded to.
+        for step in list(self._request_steps.pop(msg_id, ())):
+            step.cancel()
+        super()._handle_cancel_notification(msg_id)
 
     def structure_message(self, data: dict[str, Any]):
         try:

@@ -16,11 +16,9 @@ import time
 from dataclasses import dataclass, field
 from typing import Any
 
+from notelsp.server.framing import encode_frame as frame, frame_bodies
+
 SERVER_COMMAND = [sys.executable, "-m", "notelsp", "serve"]
-
-
-def frame(payload: bytes) -> bytes:
-    return b"Content-Length: %d\r\n\r\n" % len(payload) + payload
 
 
 def message(body: dict[str, Any]) -> bytes:
@@ -103,18 +101,7 @@ class WireServer:
 
 
 def _read_messages(stream, inbox: "queue.Queue[dict[str, Any]]") -> None:
-    while True:
-        headers: dict[str, str] = {}
-        while True:
-            line = stream.readline()
-            if not line:
-                return
-            line = line.strip()
-            if not line:
-                break
-            name, _, value = line.decode("ascii").partition(":")
-            headers[name.strip().lower()] = value.strip()
-        body = stream.read(int(headers["content-length"]))
+    for body in frame_bodies(stream):
         inbox.put(json.loads(body))
 
 
