@@ -44,15 +44,14 @@ def clear_result_caches() -> int:
 
 
 def clear_document_caches() -> None:
-    """Empty only what is remembered about whole documents and exact places.
+    """Empty only what is remembered about whole documents.
 
-    Kept: the per-annotation caches (a body's parse, a species' analysis, an
-    annotation text's findings), which a process fills once per distinct text.
-    What remains to do is the whole scan of the document and the placing of
-    every annotation and finding: a check of a note made of known species.
+    Kept: the caches keyed by text alone (a body's parse, a line's annotation
+    groups, a species' analysis, an annotation text's findings), which a process
+    fills once per distinct text.  What remains to do is the whole scan of the
+    document's structure and the placing of every annotation and finding: a
+    check of a note whose lines were met before.
     """
-    from notelsp.notation import markdown, scanner
+    from notelsp.notation import markdown
 
-    scanner._segment_annotations.cache_clear()
-    scanner._block_annotation.cache_clear()
     markdown.forget_documents()

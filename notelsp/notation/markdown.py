@@ -12,7 +12,7 @@ from bisect import bisect_left, bisect_right
 from dataclasses import dataclass
 from itertools import accumulate
 
-from .markdown_blocks import BONDING_INFO, Block, Segment, parse_blocks
+from .markdown_blocks import BONDING_INFO, Block, Segment, parse_blocks, parse_document
 from .model import Span
 
 __all__ = ["BONDING_INFO", "MarkdownStructure", "Segment", "forget_documents", "line_starts", "markdown_structure"]
@@ -83,15 +83,18 @@ def _blocks_of(text: str) -> tuple[Block, ...]:
     for parsed in reversed(recent):
         if parsed.text == text:
             return parsed.blocks
-    starts = tuple(line_starts(text))
     blocks = None
-    # Reference definitions reach across blocks; a lone CR counts as a line break only for markdown-it.
-    if "]:" not in text and ("\r" not in text or text.count("\r") == text.count("\r\n")):
+    # Reference definitions reach across blocks, and whether a '$$' line opens display math
+    # depends on a closing line anywhere below it: with either, parse the whole text.  So
+    # does a lone CR (the line numbering below counts LF only).
+    if "]:" not in text and "$$" not in text and ("\r" not in text or text.count("\r") == text.count("\r\n")):
         previous = _closest(recent, text)
         if previous is not None:
+            starts = tuple(line_starts(text))
             blocks = _reparsed(previous, text, starts)
     if blocks is None:
-        blocks = parse_blocks(text)
+        line_numbering, blocks = parse_document(text)
+        starts = tuple(line_numbering)
     with _recent_lock:
         _recent.append(_Parsed(text, starts, blocks))
         del _recent[:-_RECENT_LIMIT]

@@ -112,16 +112,25 @@ def split_lines(text: str) -> tuple[list[int], list[str]]:
 _MARKER_PREFIX = re.compile(r"[ \t>\-+*.)0-9]*")
 
 
-def _expanded_marker_tabs(line: str) -> tuple[str, str] | None:
+def _expanded_marker_tabs(line: str, in_container: bool) -> tuple[str, str] | None:
     """(expanded, original) block-quote and list-marker prefix of a line whose prefix holds a tab.
 
-    A tab after a marker is only partly consumed by it (CommonMark 2.2); as spaces
-    that falls out of counting columns.  None when there is nothing to expand.
+    A tab after a marker, or under a container's indent, is only partly consumed
+    (CommonMark 2.2); as spaces that falls out of counting columns.  None when
+    there is nothing to expand.
     """
     prefix = _MARKER_PREFIX.match(line).group()
-    if "\t" not in prefix or prefix.strip(" \t0123456789") == "":
+    if "\t" not in prefix or (not in_container and prefix.strip(" \t0123456789") == ""):
         return None
     return prefix.expandtabs(4), prefix
+
+
+def _with_expanded_tabs(line: str) -> str:
+    """``line`` with the tabs of its marker prefix expanded (for looking ahead; offsets are not kept)."""
+    if "\t" not in line:
+        return line
+    expanded = _expanded_marker_tabs(line, True)
+    return line if expanded is None else expanded[0] + line[len(expanded[1]) :]
 
 
 def _column(line: str, position: int) -> int:
@@ -248,6 +257,7 @@ class _Swallowing:
 @dataclass(slots=True)
 class _Table:
     columns: int
+    delimiter_next: bool = False  # the header was found looking ahead: the next line is its delimiter row
 
 
 class _Indented:
@@ -311,6 +321,8 @@ class _Parser:
         """The commonest significant lines at top level, taken without the general path:
         an unindented ATX heading or fence opening.  False: not one of those."""
         first = line[:1]
+        if "|" in line:
+            return False  # perhaps a table header, which takes precedence: the general path looks ahead
         if first == "#" and (heading := _ATX_HEADING.match(line)):
             self._close_leaf()
             self._begin_block(index)
@@ -391,7 +403,7 @@ class _Parser:
     def _line(self, index: int, line: str, start: int) -> None:
         self.tab_prefix = None
         if "\t" in line:
-            expanded = _expanded_marker_tabs(line)
+            expanded = _expanded_marker_tabs(line, bool(self.containers))
             if expanded is not None:
                 self.tab_prefix = (start, expanded[1])
                 line, start = expanded[0] + line[len(expanded[1]) :], start - (len(expanded[0]) - len(expanded[1]))
@@ -498,9 +510,14 @@ class _Parser:
             return
         character = line[at]
         if type(leaf) is _Table:  # every line is a row until a block that ends tables starts
+            if leaf.delimiter_next:
+                leaf.delimiter_next = False
+                return
             if self._table_row(leaf, index, line, start, at):
                 return
             leaf = None
+        if "|" in line and self._table_header_here(index, line, start, at):  # tables come before any other block
+            return
         if character == "#" and (heading := _ATX_HEADING.match(line, at)):
             self._close_leaf()
             self._begin_block(index)
@@ -593,7 +610,8 @@ class _Parser:
             return None
         closer = self._math_closers[found]
         depth = len(self.containers)
-        if depth and any(self._matched_containers(self.lines[line])[0] < depth for line in range(index + 1, closer + 1)):
+        lines = range(index + 1, closer + 1)
+        if depth and any(self._matched_containers(_with_expanded_tabs(self.lines[line]))[0] < depth for line in lines):
             return None  # the closing line is outside the block quote or list item the math opened in
         return closer
 
@@ -624,6 +642,24 @@ class _Parser:
         self._close_leaf()
         self._emit_cells(header_start, header)
         self.leaf = _Table(columns)
+        return True
+
+    def _table_header_here(self, index: int, line: str, start: int, at: int) -> bool:
+        """A table whose header is this line, its delimiter row the next (CommonMark tables extension)."""
+        if index + 1 >= len(self.lines):
+            return False
+        following = _with_expanded_tabs(self.lines[index + 1])
+        matched, position = self._matched_containers(following) if self.containers else (0, 0)
+        if matched < len(self.containers) or _indent(following, position)[0] >= 4:
+            return False
+        columns = _delimiter_cells(following[position:])
+        header = line[at:]
+        if columns is None or "|" not in header.strip() or len(_cells(header)) != columns:
+            return False
+        self._close_leaf()
+        self._begin_block(index)
+        self._emit_cells(start + at, header)
+        self.leaf = _Table(columns, delimiter_next=True)
         return True
 
     def _table_row(self, table: _Table, index: int, line: str, start: int, at: int) -> bool:
@@ -685,11 +721,13 @@ class _Parser:
         label = _REFERENCE_DEFINITION.match(line, at)
         if label is None or not label.group(1).strip():
             return 0
-        following = []
-        for next_line in self.lines[index + 1 : index + 1 + _DEFINITION_LOOKAHEAD]:
-            if not next_line.strip():
+        following = []  # the paragraph's further lines: a definition cannot run past its paragraph
+        for number in range(index + 1, min(index + 1 + _DEFINITION_LOOKAHEAD, len(self.lines))):
+            raw = _with_expanded_tabs(self.lines[number])
+            matched, position = self._matched_containers(raw) if self.containers else (0, 0)
+            if self._interrupts(number, raw, position, any_list_marker=matched < len(self.containers)):
                 break
-            following.append(next_line.lstrip(" \t>"))
+            following.append(raw[position:].lstrip(" \t"))
         text = "\n".join([line[label.end() :], *following])
         position = _DEFINITION_SPACE.match(text).end()
         if position < len(text) and text[position] == "<":
@@ -809,3 +847,9 @@ def _reference_labels(text: str) -> frozenset[str]:
 def parse_blocks(text: str) -> tuple[Block, ...]:
     """The top-level blocks of a Markdown document."""
     return _Parser(text).parse()
+
+
+def parse_document(text: str) -> tuple[list[int], tuple[Block, ...]]:
+    """Each line's start offset (the numbering of ``Block.first_line``) and the top-level blocks."""
+    parser = _Parser(text)
+    return parser.starts, parser.parse()

@@ -64,8 +64,8 @@ def _scan(
         if character == "$":
             position = _math(text, position, end, skips, dead_ends)
         elif character == "\\":
-            if position + 1 < end:  # an escape (or hard break) takes the next character whatever it is
-                skips.append((position, position + 2))
+            if position + 1 < end and (text[position + 1] in _ASCII_PUNCTUATION or text[position + 1] == "\n"):
+                skips.append((position, position + 2))  # an escape, or a hard line break
             position += 2
         elif character == "`":
             position = _code_span(text, position, end, skips, dead_ends)

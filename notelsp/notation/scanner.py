@@ -23,10 +23,9 @@ DocumentKind = Literal["markdown", "text"]
 # A brace right after these belongs to something else: \frac{a}, x_{i}, x^{2}, }{.
 _NOT_BEFORE_ANNOTATION = set("\\_^}$") | set("abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789")
 
-# Placed annotations are remembered by their exact place, so the part of an edited
-# document before the edit costs nothing to re-scan (the part after it has moved and
-# is placed again from the position-free parse cache).  About two large documents' worth.
-_PLACED_CACHE_SIZE = 8192
+# Lines are remembered by their text, not their place: after an edit, the lines that
+# moved are placed again without being looked at again.  About two large documents' worth.
+_LINE_CACHE_SIZE = 8192
 
 
 def scan(text: str, kind: DocumentKind = "markdown") -> ScannedDocument:
@@ -74,14 +73,19 @@ def _begins_with_element(body: str) -> bool:
     return head.startswith("[") or elements.is_symbol(head[:2]) or elements.is_symbol(head[:1])
 
 
-@lru_cache(maxsize=_PLACED_CACHE_SIZE)
-def _segment_annotations(segment: Segment) -> tuple[Annotation, ...]:
-    return tuple(_inline_annotations(segment))
+def _segment_annotations(segment: Segment) -> list[Annotation]:
+    start = segment.start
+    return [
+        Annotation(Span(start + opening, start + closing + 1), Span(start + opening + 1, start + closing), parsed, "inline")
+        for opening, closing, parsed in _inline_groups(segment.text, segment.skips)
+    ]
 
 
-def _inline_annotations(segment: Segment) -> list[Annotation]:
-    text, found = segment.text, []
-    skip_starts = [start for start, _ in segment.skips]
+@lru_cache(maxsize=_LINE_CACHE_SIZE)
+def _inline_groups(text: str, skips: tuple[tuple[int, int], ...]) -> tuple[tuple[int, int, ParsedBody], ...]:
+    """(opening brace, closing brace, parse) of each annotation in one line of inline text."""
+    found = []
+    skip_starts = [start for start, _ in skips]
     opening, closing = text.find("{"), -1
     while opening != -1:
         if closing < opening:  # reuse the last '}' while it is still ahead: linear in the line
@@ -92,17 +96,18 @@ def _inline_annotations(segment: Segment) -> list[Annotation]:
         if inner != -1:  # nested braces: only the innermost group can be an annotation
             opening = inner
             continue
-        annotation = _inline_candidate(segment, opening, closing, skip_starts)
-        if annotation is not None:
-            found.append(annotation)
+        parsed = _inline_candidate(text, skips, skip_starts, opening, closing)
+        if parsed is not None:
+            found.append((opening, closing, parsed))
             opening = text.find("{", closing + 1)
         else:
             opening = text.find("{", opening + 1)
-    return found
+    return tuple(found)
 
 
-def _inline_candidate(segment: Segment, opening: int, closing: int, skip_starts: list[int]) -> Annotation | None:
-    text, skips = segment.text, segment.skips
+def _inline_candidate(
+    text: str, skips: tuple[tuple[int, int], ...], skip_starts: list[int], opening: int, closing: int
+) -> ParsedBody | None:
     if opening > 0 and text[opening - 1] in _NOT_BEFORE_ANNOTATION:
         return None
     if skips and _overlaps_skip(opening, closing, skips, skip_starts):
@@ -113,22 +118,23 @@ def _inline_candidate(segment: Segment, opening: int, closing: int, skip_starts:
     parsed = parse_body(body[: MAX_BODY_CHARS + 1] if len(body) > MAX_BODY_CHARS else body)
     if not parsed.has_colon and parsed.errors and len(body) <= MAX_BODY_CHARS:
         return None  # not a formula on its own: some other use of braces
-    start = segment.start + opening
-    return _placed(parsed, Span(start, segment.start + closing + 1), Span(start + 1, segment.start + closing), "inline")
+    return parsed
 
 
-@lru_cache(maxsize=_PLACED_CACHE_SIZE)
 def _block_annotation(content: str, line: Span) -> Annotation | None:
     """The annotation on one line of a bonding block (``content`` is the line's text)."""
-    code = content.split("#", 1)[0]
-    if not code.strip():
+    found = _block_body(content)
+    if found is None:
         return None
-    lead = len(code) - len(code.lstrip())
+    lead, length, parsed = found
+    return Annotation(line, Span(line.start + lead, line.start + lead + length), parsed, "block")
+
+
+@lru_cache(maxsize=_LINE_CACHE_SIZE)
+def _block_body(content: str) -> tuple[int, int, ParsedBody] | None:
+    """(offset, length, parse) of the body of one bonding-block line: the line without its comment."""
+    code = content.split("#", 1)[0]
     body = code.strip()
-    body_start = line.start + lead
-    parsed = parse_body(body[: MAX_BODY_CHARS + 1])
-    return _placed(parsed, line, Span(body_start, body_start + len(body)), "block")
-
-
-def _placed(parsed: ParsedBody, span: Span, body: Span, form: Literal["inline", "block"]) -> Annotation:
-    return Annotation(span=span, body=body, parsed=parsed, form=form)
+    if not body:
+        return None
+    return len(code) - len(code.lstrip()), len(body), parse_body(body[: MAX_BODY_CHARS + 1])

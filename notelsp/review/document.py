@@ -129,7 +129,7 @@ def forget_cached_results() -> None:
     from ..notation import markdown, scanner, transform
 
     _reviews.clear()
-    for cached in (transform.parse_body, scanner._segment_annotations, scanner._block_annotation):
+    for cached in (transform.parse_body, scanner._inline_groups, scanner._block_body):
         cached.cache_clear()
     markdown.forget_documents()
 
