@@ -23,7 +23,7 @@ from dataclasses import dataclass
 from functools import lru_cache
 from itertools import accumulate
 
-from .markdown_inline import SKIP_START, inline_skips, normalise_label
+from .markdown_inline import SKIP_START, Skip, inline_skips, normalise_label
 from .model import Span
 
 BONDING_INFO = "bonding"
@@ -123,6 +123,14 @@ def _expanded_marker_tabs(line: str, in_container: bool) -> tuple[str, str] | No
     if "\t" not in prefix or (not in_container and prefix.strip(" \t0123456789") == ""):
         return None
     return prefix.expandtabs(4), prefix
+
+
+def _fence_opening(line: str, at: int) -> re.Match[str] | None:
+    """A code fence opening at ``at`` (a backtick fence's info string holds no backtick)."""
+    fence = _FENCE_OPEN.match(line, at)
+    if fence is None or (fence.group(1)[0] == "`" and "`" in fence.group(2)):
+        return None
+    return fence
 
 
 def _with_expanded_tabs(line: str) -> str:
@@ -324,19 +332,26 @@ class _Parser:
         if "|" in line:
             return False  # perhaps a table header, which takes precedence: the general path looks ahead
         if first == "#" and (heading := _ATX_HEADING.match(line)):
-            self._close_leaf()
-            self._begin_block(index)
-            if "{" in line:
-                text = line[heading.end() :]
-                closing = _ATX_CLOSING.search(text)
-                self._emit_run([(self.starts[index] + heading.end(), text[: closing.start()] if closing else text)])
+            self._open_heading(index, line, self.starts[index], heading)
             return True
-        if first in ("`", "~") and (fence := _FENCE_OPEN.match(line)) and (first == "~" or "`" not in fence.group(2)):
-            self._close_leaf()
-            self._begin_block(index)
-            self.leaf = _Fence(first, len(fence.group(1)), 0, fence.group(2).split()[:1] == [BONDING_INFO])
+        if first in ("`", "~") and (fence := _fence_opening(line, 0)):
+            self._open_fence(index, fence, 0)
             return True
         return False
+
+    def _open_heading(self, index: int, line: str, start: int, heading: re.Match[str]) -> None:
+        self._close_leaf()
+        self._begin_block(index)
+        if "{" in line:
+            text = line[heading.end() :]
+            closing = _ATX_CLOSING.search(text)
+            self._emit_run([(start + heading.end(), text[: closing.start()] if closing else text)])
+
+    def _open_fence(self, index: int, fence: re.Match[str], columns: int) -> None:
+        self._close_leaf()
+        self._begin_block(index)
+        character = fence.group(1)[0]
+        self.leaf = _Fence(character, len(fence.group(1)), columns, fence.group(2).split()[:1] == [BONDING_INFO])
 
     def _fence_body(self, fence: _Fence, index: int) -> int:
         """Take a top-level fence's content lines up to its closing line in one search; the next line's index."""
@@ -519,20 +534,11 @@ class _Parser:
         if "|" in line and self._table_header_here(index, line, start, at):  # tables come before any other block
             return
         if character == "#" and (heading := _ATX_HEADING.match(line, at)):
-            self._close_leaf()
-            self._begin_block(index)
-            text = line[heading.end() :]
-            closing = _ATX_CLOSING.search(text)
-            self._emit_run([(start + heading.end(), text[: closing.start()] if closing else text)])
+            self._open_heading(index, line, start, heading)
             return
-        if character in "`~" and (fence := _FENCE_OPEN.match(line, at)):
-            info = fence.group(2)
-            if character == "~" or "`" not in info:
-                self._close_leaf()
-                self._begin_block(index)
-                words = info.split()
-                self.leaf = _Fence(character, len(fence.group(1)), columns, words[:1] == [BONDING_INFO])
-                return
+        if character in "`~" and (fence := _fence_opening(line, at)):
+            self._open_fence(index, fence, columns)
+            return
         # Display math cannot interrupt a paragraph (as in markdown-it's dollarmath plugin).
         if character == "$" and type(leaf) is not _Paragraph and line.startswith("$$", at) and self._math_block(index, line, at):
             return
@@ -682,7 +688,7 @@ class _Parser:
             return True
         if character == "#" and _ATX_HEADING.match(line, at):
             return True
-        if character in "`~" and (fence := _FENCE_OPEN.match(line, at)) and (character == "~" or "`" not in fence.group(2)):
+        if character in "`~" and _fence_opening(line, at):
             return True
         if character in "*-_" and _THEMATIC_BREAK.match(line, at):
             return True
@@ -771,13 +777,7 @@ class _Parser:
             begin = starts[number] - base
             line = lines[number]
             end = begin + len(line)
-            local = []
-            for skip in range(bisect_right(ends, begin), len(skips)):
-                a, b = skips[skip]
-                if a >= end:
-                    break
-                local.append((max(a, begin) - begin, min(b, end) - begin))
-            segments.append(Segment(starts[number], line, tuple(local)))
+            segments.append(Segment(starts[number], line, _share_of(skips, ends, begin, end)))
             brace = text.find("{", end)
 
     def _emit_run(self, lines: list[tuple[int, str]]) -> None:
@@ -791,20 +791,13 @@ class _Parser:
         if not skips:
             segments.extend(Segment(*lines[number]) for number in braced)
             return
-        # Skipped ranges are disjoint and in order: find each line's share by bisecting their ends.
         ends = [end for _, end in skips]
         line_offsets = list(accumulate([len(text) + 1 for _, text in lines], initial=0))
         for number in braced:
             offset, text = lines[number]
             begin = line_offsets[number]
             end = begin + len(text)
-            local = []
-            for skip in range(bisect_right(ends, begin), len(skips)):
-                a, b = skips[skip]
-                if a >= end:
-                    break
-                local.append((max(a, begin) - begin, min(b, end) - begin))
-            segments.append(Segment(offset, text, tuple(local)))
+            segments.append(Segment(offset, text, _share_of(skips, ends, begin, end)))
 
     def _emit_cells(self, offset: int, row: str, columns: int | None = None) -> None:
         """One table row: each cell an inline run of its own (cells past the header's ``columns`` are dropped)."""
@@ -832,6 +825,20 @@ _DEFINITION_TITLE = re.compile(r'"(?:[^"\\]|\\.)*"|\'(?:[^\'\\]|\\.)*\'|\((?:[^(
 def _line_end(text: str, position: int) -> int:
     end = text.find("\n", position)
     return len(text) if end == -1 else end
+
+
+def _share_of(skips: tuple[Skip, ...], ends: list[int], begin: int, end: int) -> tuple[Skip, ...]:
+    """The skipped ranges of an inline run that fall in its line ``[begin, end)``, relative to the line.
+
+    Skipped ranges are disjoint and in order, so the first one is found by bisecting their ends.
+    """
+    share = []
+    for index in range(bisect_right(ends, begin), len(skips)):
+        start, stop = skips[index]
+        if start >= end:
+            break
+        share.append((max(start, begin) - begin, min(stop, end) - begin))
+    return tuple(share)
 
 
 def _reference_labels(text: str) -> frozenset[str]:
