@@ -91,7 +91,9 @@ def analyses_of(annotation: Annotation) -> tuple[Any, ...]:
 
 def review_text(text: str, kind: DocumentKind = "markdown", settings: Settings | None = None) -> DocumentReview:
     settings = settings or Settings()
-    scanned = scan(text, kind)
+    rules = _chemistry()[1]
+    reviewed = _reviewed_length(text, rules.notation.MAX_REVIEWED_CHARS)
+    scanned = scan(text if reviewed == len(text) else text[:reviewed], kind)
     reviews = _reviews_for(settings)
     findings: list[Finding] = []
     for annotation in scanned.annotations:
@@ -102,8 +104,17 @@ def review_text(text: str, kind: DocumentKind = "markdown", settings: Settings |
             relative = reviews[(source, annotation.form)] = _review_relative(annotation.relative(), settings)
         if relative:  # most annotations have no findings: nothing to place
             findings.extend(_shift(finding, span.start) for finding in relative)
+    findings.extend(rules.whole_note_findings(text, reviewed, settings))
     findings.sort(key=lambda f: (f.span.start, f.span.end, f.code))
     return DocumentReview(text, scanned, tuple(findings))
+
+
+def _reviewed_length(text: str, limit: int) -> int:
+    """How much of ``text`` is reviewed: all of it, or up to the last line break within ``limit``."""
+    if len(text) <= limit:
+        return len(text)
+    line_break = text.rfind("\n", 0, limit)
+    return line_break + 1 if line_break > 0 else limit
 
 
 # The findings of each annotation text (offsets from the annotation's start), per settings.

@@ -47,16 +47,18 @@ def run(tcp: str | None = None) -> int:
         server.start_tcp(*address)
         return 0
     from .exiting import leave_now
-    from .quickstart import answer_initialize
+    from .quickstart import ClientInput, answer_initialize
 
     early = answer_initialize(sys.stdin.buffer, sys.stdout.buffer)  # before pygls: see quickstart
     if early is None:
         leave_now(0)  # the client closed its end before its first message
+    client_input = ClientInput(sys.stdin.buffer, early.replay)  # an exit while building is not kept waiting
     from .app import build_server, settle_long_lived_objects
 
     server = build_server()
     settle_long_lived_objects()
     if early.answered_id is not None:
         server.protocol.expect_early_reply(early.answered_id, early.answered_result)
-    server.start_io(replay=early.replay)
+    client_input.server_ready()
+    server.start_io(stdin=client_input)
     leave_now(server.protocol.exit_status)  # skip the interpreter's slow teardown

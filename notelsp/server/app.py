@@ -65,12 +65,12 @@ class NoteServer(LanguageServer):
         self.root: Path | None = None
         self.pending: dict[str, asyncio.Task] = {}  # uri -> its scheduled diagnostics publication
 
-    def start_io(self, stdin=None, stdout=None, replay: bytes = b"") -> None:
-        """Serve ``stdin``; ``replay`` holds bytes already read off it (by the fast start-up), read first."""
+    def start_io(self, stdin=None, stdout=None) -> None:
+        """Serve ``stdin`` (the fast start-up hands a :class:`~.quickstart.ClientInput`)."""
         # End of input means the client is gone: leave at once (status 0, or 1 after an exit
         # without shutdown), without waiting for running reviews.
         on_end = lambda: leave_now(self.protocol.exit_status)  # noqa: E731
-        super().start_io(ResyncingInput(stdin or sys.stdin.buffer, on_end=on_end, replay=replay), stdout)
+        super().start_io(ResyncingInput(stdin or sys.stdin.buffer, on_end=on_end), stdout)
 
     def report_server_error(self, error: Exception, source) -> None:
         if source is JsonRpcException:  # the reader's own: a faulty frame from the client, not our failure

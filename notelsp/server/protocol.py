@@ -14,7 +14,6 @@
 
 from __future__ import annotations
 
-import io
 import json
 import logging
 from concurrent.futures import Future
@@ -43,25 +42,19 @@ class ResyncingInput:
     would never find one again.  Junk before a header is dropped here.
     """
 
-    def __init__(self, stream, on_end: Callable[[], Any] | None = None, replay: bytes = b"") -> None:
+    def __init__(self, stream, on_end: Callable[[], Any] | None = None) -> None:
         self.stream = stream
         self.on_end = on_end  # called when the client closes its end
-        self.replay = io.BytesIO(replay)  # bytes already read off ``stream`` (by the fast start-up), read first
 
     def readline(self) -> bytes:
-        line = self.replay.readline()
-        if not line.endswith(b"\n"):
-            line += self.stream.readline()
+        line = self.stream.readline()
         if not line and self.on_end is not None:
             self.on_end()
         at = line.find(HEADER)
         return line[at:] if at > 0 else line
 
     def read(self, size: int) -> bytes:
-        data = self.replay.read(size)
-        if len(data) < size:
-            data += self.stream.read(size - len(data))
-        return data
+        return self.stream.read(size)
 
 
 class HandledFault(Exception):

@@ -15,10 +15,13 @@ as the first frame is handed to pygls unchanged.
 from __future__ import annotations
 
 import json
+import queue
+import threading
 from dataclasses import dataclass
 from typing import Any, BinaryIO
 
 from .. import __version__
+from .exiting import leave_now
 from .framing import read_frame
 from .initialize_snapshot import CAPABILITIES, CHANGES_WHEN_OFFERED
 
@@ -144,3 +147,86 @@ def answer_initialize(stdin: BinaryIO, stdout: BinaryIO) -> EarlyStart | None:
     stdout.write(b"Content-Length: %d\r\n" % len(reply) + CONTENT_TYPE + b"\r\n" + reply)
     stdout.flush()
     return EarlyStart(frame.raw, request["id"], result)
+
+
+class ClientInput:
+    """The client's byte stream, read by a thread of its own from the fast start-up on.
+
+    Building the server takes about half a second after the early reply.  A
+    client that closes its end, or sends ``exit``, in that time must not wait
+    for it: until :meth:`server_ready`, frames are read whole, and either ends
+    the process at once unless a request read meanwhile still wants its answer
+    (a client that sends everything, then closes, is served first).  Every byte
+    read is handed on unchanged, so the server reads (``readline``/``read``)
+    exactly what the client sent, replay first.
+    """
+
+    _CHUNK = 65536
+
+    def __init__(self, stream: BinaryIO, replay: bytes = b"") -> None:
+        self._buffer = bytearray(replay)
+        self._searched = 0  # bytes of the buffer known to hold no line break
+        self._arrived: queue.SimpleQueue[bytes] = queue.SimpleQueue()
+        self._ended = False
+        self._ready = threading.Event()
+        self._requests_waiting = False  # a request arrived while building: its answer is owed
+        threading.Thread(target=self._pump, args=(stream,), name="notelsp-input", daemon=True).start()
+
+    def server_ready(self) -> None:
+        self._ready.set()
+
+    def _pump(self, stream: BinaryIO) -> None:
+        while not self._ready.is_set():
+            frame = read_frame(stream)
+            method = self._method_of(frame.body)
+            if not self._ready.is_set() and not self._requests_waiting:
+                if frame.ended:
+                    leave_now(0)  # the client is gone before the server was even built
+                if method == "exit":
+                    leave_now(1)  # LSP: exit without a shutdown before it is status 1
+            self._arrived.put(frame.raw)
+            if frame.ended:
+                self._arrived.put(b"")
+                return
+        read = getattr(stream, "read1", stream.read)
+        while chunk := read(self._CHUNK):
+            self._arrived.put(chunk)
+        self._arrived.put(b"")  # end of input
+
+    def _method_of(self, body: bytes | None) -> str | None:
+        try:
+            message = json.loads(body) if body else None
+        except ValueError:
+            return None
+        if not isinstance(message, dict):
+            return None
+        if "id" in message and "method" in message:
+            self._requests_waiting = True
+        return message.get("method")
+
+    def _take_more(self) -> bool:
+        """Wait for the next bytes from the client; False once its input has ended."""
+        if not self._ended:
+            chunk = self._arrived.get()
+            self._ended = not chunk
+            self._buffer += chunk
+        return not self._ended
+
+    def readline(self) -> bytes:
+        while (at := self._buffer.find(b"\n", self._searched)) == -1:
+            self._searched = len(self._buffer)
+            if not self._take_more():
+                at = len(self._buffer) - 1
+                break
+        line = bytes(self._buffer[: at + 1])
+        del self._buffer[: at + 1]
+        self._searched = 0
+        return line
+
+    def read(self, size: int) -> bytes:
+        while len(self._buffer) < size and self._take_more():
+            pass
+        data = bytes(self._buffer[:size])
+        del self._buffer[:size]
+        self._searched = 0
+        return data

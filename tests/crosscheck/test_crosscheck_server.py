@@ -207,14 +207,15 @@ async def test_cancel_request_stops_the_worker(client, tmp_path):
     running = asyncio.ensure_future(
         client.protocol.send_request_async(REQUEST, {"uri": uri, "offset": offset, "level": "HF/STO-3G"}, msg_id=request_id)
     )
-    (token,) = await wait_for(lambda: list(client.progress_reports))
+    # the token is created before its first report arrives: wait for the report
+    (token,) = await wait_for(lambda: [t for t, reports in client.progress_reports.items() if reports])
     assert "HF/STO-3G" in client.progress_reports[token][0].title
     await wait_for(lambda: workers_of(server))
     client.protocol.notify(types.CANCEL_REQUEST, types.CancelParams(id=request_id))
     with pytest.raises(Exception, match="cancel"):
         await asyncio.wait_for(running, WAIT)
     assert workers_of(server) == []
-    await wait_for(lambda: kinds(client.progress_reports[token])[-1] == "WorkDoneProgressEnd")
+    await wait_for(lambda: kinds(client.progress_reports[token])[-1:] == ["WorkDoneProgressEnd"])
     assert client.progress_reports[token][-1].message == "cancelled"
 
 

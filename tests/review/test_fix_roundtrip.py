@@ -44,7 +44,7 @@ FIXABLE = {
 }
 # no correct replacement exists for these: the writer must say what was meant
 WITHOUT_FIXES = {"malformed-formula", "malformed-claim", "impossible-count", "formula-too-large", "outside-model",
-                 "isomers-not-enumerated"}
+                 "isomers-not-enumerated", "note-too-large"}
 
 ORIGINAL = review(NOTE)
 

@@ -47,7 +47,7 @@ async def test_cancel_request_for_the_command_stops_its_cross_check(client, tmp_
     with pytest.raises(Exception, match="cancel"):
         await asyncio.wait_for(running, WAIT)
     # The calculation ends as cancelled, not with a result: the command itself was stopped.
-    await wait_for(lambda: kinds(client.progress_reports[token])[-1] == "WorkDoneProgressEnd")
+    await wait_for(lambda: kinds(client.progress_reports[token])[-1:] == ["WorkDoneProgressEnd"])
     assert client.progress_reports[token][-1].message == "cancelled"
     await wait_for(lambda: workers_of(server) == [], timeout=10)
     assert "computed-angle" not in codes(client, uri)

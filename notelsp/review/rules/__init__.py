@@ -31,13 +31,16 @@ class Rule:
     severity: Severity
     claims: tuple[type[Claim], ...]  # claim types it checks; () means once per annotation
     check: Check
+    whole_note: bool = False  # checks the note itself (a DocumentContext), not an annotation
 
 
 RULES: dict[str, Rule] = {}
 
 
-def rule(code: str, *, severity: Severity, claims: tuple[type[Claim], ...] = ()) -> Callable[[Check], Check]:
-    """Register ``check`` as the rule ``code``."""
+def rule(
+    code: str, *, severity: Severity, claims: tuple[type[Claim], ...] = (), whole_note: bool = False
+) -> Callable[[Check], Check]:
+    """Register ``check`` as the rule ``code`` (``whole_note``: it is given a :class:`DocumentContext`)."""
 
     def register(check: Check) -> Check:
         if code in RULES:
@@ -46,7 +49,7 @@ def rule(code: str, *, severity: Severity, claims: tuple[type[Claim], ...] = ())
         title, _, explanation = doc.partition("\n")
         if not title:
             raise ValueError(f"rule {code!r} has no docstring")
-        RULES[code] = Rule(code, title.strip(), explanation.strip(), severity, claims, check)
+        RULES[code] = Rule(code, title.strip(), explanation.strip(), severity, claims, check, whole_note)
         return check
 
     return register
@@ -92,8 +95,31 @@ class RuleContext:
         return Fix(title or f"Replace with '{replacement}'", self.claim.span, replacement)
 
 
+@dataclass(frozen=True, slots=True)
+class DocumentContext:
+    """What a whole-note rule sees: the text, how much of it was reviewed, the settings."""
+
+    rule: Rule
+    text: str
+    reviewed_chars: int
+    settings: Any
+
+    def finding(self, message: str, span: Span) -> Finding:
+        return Finding(self.rule.code, self.settings.severity_of(self.rule), message, span, "")
+
+
+def whole_note_findings(text: str, reviewed_chars: int, settings: Any) -> list[Finding]:
+    found: list[Finding] = []
+    for candidate in RULES.values():
+        if candidate.whole_note and settings.enabled(candidate.code):
+            found.extend(candidate.check(DocumentContext(candidate, text, reviewed_chars, settings)))
+    return found
+
+
 def rules_for(claim: Claim | None) -> Iterator[Rule]:
     for candidate in RULES.values():
+        if candidate.whole_note:
+            continue
         if claim is None and not candidate.claims:
             yield candidate
         elif claim is not None and isinstance(claim, candidate.claims):

@@ -4,9 +4,9 @@ from __future__ import annotations
 
 from collections.abc import Iterator
 
-from ...notation.model import NotationError
+from ...notation.model import NotationError, Span
 from ..findings import Finding, Fix, Severity
-from . import RuleContext, rule
+from . import DocumentContext, RuleContext, rule
 
 
 def _errors_with_code(context: RuleContext) -> Iterator[Finding]:
@@ -76,3 +76,27 @@ def formula_too_large(context: RuleContext) -> Iterator[Finding]:
     The bounds keep every check fast; real molecular species fall well inside them.
     """
     yield from _errors_with_code(context)
+
+
+MAX_REVIEWED_CHARS = 4_000_000  # ~4 MB: a review stays under a few seconds even of hostile text
+
+
+@rule("note-too-large", severity=Severity.WARNING, whole_note=True)
+def note_too_large(context: DocumentContext) -> Iterator[Finding]:
+    """A note larger than the tool reviews: only its beginning was checked.
+
+    Reviewing is linear in the text, but a file of several megabytes is an
+    export or a data dump rather than a lab note, and reviewing all of it on
+    every keystroke would stall the editor.  The first 4,000,000 characters (up
+    to a line break) are reviewed; split the note to have the rest checked.
+    """
+    text, reviewed = context.text, context.reviewed_chars
+    if reviewed >= len(text):
+        return
+    line_end = text.find("\n", reviewed)
+    span = Span(reviewed, len(text) if line_end == -1 else line_end)
+    yield context.finding(
+        f"note of {len(text):,} characters: the first {reviewed:,} were reviewed, the remaining "
+        f"{len(text) - reviewed:,} were not (limit {MAX_REVIEWED_CHARS:,})",
+        span,
+    )

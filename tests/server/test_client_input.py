@@ -1,0 +1,118 @@
+"""ClientInput: the stream the server reads after the fast start-up.  It hands on every byte the
+client sent, in order, and while the server is still being built an exit or the end of input ends
+the process at once (LSP 3.17, "exit" notification: status 1 without a shutdown before it, from memory).
+"""
+
+from __future__ import annotations
+
+import io
+import os
+import threading
+
+import pytest
+
+import notelsp.server.quickstart as quickstart
+from notelsp.server.framing import encode_frame
+from notelsp.server.quickstart import ClientInput
+
+
+class _Left(Exception):
+    pass
+
+
+@pytest.fixture
+def exits(monkeypatch):
+    """Record the status the pump would leave with (instead of leaving), and stop its thread there."""
+    statuses: list[int] = []
+    done = threading.Event()
+
+    def leave(status: int = 0):
+        statuses.append(status)
+        done.set()
+        raise _Left  # ends the pump thread, as os._exit would end the process
+
+    monkeypatch.setattr(quickstart, "leave_now", leave)
+    monkeypatch.setattr(threading, "excepthook", lambda args: None)  # the _Left above is expected
+    return statuses, done
+
+
+def _frames(*bodies: bytes) -> bytes:
+    return b"".join(encode_frame(body) for body in bodies)
+
+
+def _read_everything(client_input: ClientInput) -> bytes:
+    """Read as pygls does (header lines, then a body by length), until the input ends."""
+    out = bytearray()
+    while line := client_input.readline():
+        out += line
+        if line.lower().startswith(b"content-length:"):
+            length = int(line.split(b":")[1])
+            out += client_input.readline()  # the blank line
+            out += client_input.read(length)
+    return bytes(out)
+
+
+def _ready_input(sent: bytes, replay: bytes = b"") -> ClientInput:
+    """A ClientInput on a pipe that ends only once the server is ready (as a client closing later)."""
+    read_end, write_end = os.pipe()
+    client_input = ClientInput(os.fdopen(read_end, "rb"), replay)
+    with os.fdopen(write_end, "wb") as pipe:
+        pipe.write(sent)
+        pipe.flush()
+        client_input.server_ready()
+    return client_input
+
+
+def test_every_byte_is_handed_on_replay_first(exits):
+    replay = _frames(b'{"jsonrpc": "2.0", "id": 1, "method": "initialize", "params": {"capabilities": {}}}')
+    rest = _frames(b'{"jsonrpc":"2.0","method":"initialized","params":{}}', b"x" * 200_000, "{\"é\": 1}".encode())
+    assert _read_everything(_ready_input(rest, replay)) == replay + rest
+    assert exits[0] == []
+
+
+def test_junk_without_line_breaks_and_a_short_body_are_handed_on_unchanged(exits):
+    sent = b"junk" * 50_000 + b"\r\n" + b"Content-Length: 99\r\n\r\n{}"
+    client_input = _ready_input(sent)
+    assert client_input.readline() == b"junk" * 50_000 + b"\r\n"
+    assert client_input.readline() == b"Content-Length: 99\r\n"
+    assert client_input.readline() == b"\r\n"
+    assert client_input.read(99) == b"{}"  # the input ended inside the body
+    assert client_input.readline() == b""
+
+
+def test_frames_before_the_server_is_ready_are_kept(exits):
+    statuses, done = exits
+    sent = _frames(b'{"jsonrpc":"2.0","method":"initialized","params":{}}', b'{"jsonrpc":"2.0","method":"exit"}')
+    client_input = ClientInput(io.BytesIO(sent))
+    assert done.wait(5) and statuses == [1]
+    assert client_input.readline() == b"Content-Length: 52\r\n"
+
+
+def test_a_request_read_while_building_is_answered_before_leaving(exits):
+    statuses, _ = exits
+    request = b'{"jsonrpc":"2.0","id":2,"method":"shutdown"}'
+    sent = _frames(request, b'{"jsonrpc":"2.0","method":"exit"}')
+    client_input = ClientInput(io.BytesIO(sent))  # then the input ends, still while building
+    assert _read_everything(client_input) == sent  # all handed on for the server to answer
+    assert statuses == []
+
+
+def test_exit_without_shutdown_while_building_leaves_with_status_one(exits):
+    statuses, done = exits
+    ClientInput(io.BytesIO(_frames(b'{"jsonrpc":"2.0","method":"exit"}')))
+    assert done.wait(5) and statuses == [1]
+
+
+@pytest.mark.parametrize("sent", [b"", b"Content-Length: 40\r\n\r\n{\"jsonrpc\""], ids=["closed", "inside a frame"])
+def test_end_of_input_while_building_leaves_with_status_zero(exits, sent):
+    statuses, done = exits
+    ClientInput(io.BytesIO(sent))
+    assert done.wait(5) and statuses == [0]
+
+
+def test_unreadable_frames_while_building_are_not_mistaken_for_exit(exits):
+    statuses, done = exits
+    sent = _frames(b"not json", b"[1, 2]", b'"exit"', b'\xff\xfe')
+    client_input = ClientInput(io.BytesIO(sent))
+    assert done.wait(5) and statuses == [0]  # only the end of input ended it
+    assert client_input.readline() == b"Content-Length: 8\r\n"
