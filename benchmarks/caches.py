@@ -35,11 +35,11 @@ def clear_result_caches() -> int:
                 value.cache_clear()
                 emptied += 1
     from notelsp.chem import analysis
-    from notelsp.notation import markdown
+    from notelsp.review.document import forget_cached_results
 
     with analysis._cache_lock:
         analysis._cache.clear()
-    markdown.forget_documents()
+    forget_cached_results()  # findings per annotation text, placed results, remembered documents
     return emptied + 2
 
 
@@ -50,8 +50,12 @@ def clear_document_caches() -> None:
     groups, a species' analysis, an annotation text's findings), which a process
     fills once per distinct text.  What remains to do is the whole scan of the
     document's structure and the placing of every annotation and finding: a
-    check of a note whose lines were met before.
+    check of a note whose lines were met before (none of them at its place).
     """
+    from notelsp import positions
     from notelsp.notation import markdown
+    from notelsp.review.document import forget_placed_results
 
     markdown.forget_documents()
+    positions.lf_line_starts.cache_clear()  # keyed by the whole text
+    forget_placed_results()  # annotations and findings at their offsets

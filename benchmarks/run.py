@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import os
 import sys
+import time
 from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
@@ -17,8 +18,21 @@ import analysis  # noqa: E402
 import server  # noqa: E402
 
 
+def python_loop_ms() -> float:
+    """Best of five runs of one million pure-Python additions: the machine's speed, so that absolute
+    figures (milliseconds, seconds) of runs on different machines can be compared."""
+    best = float("inf")
+    for _ in range(5):
+        start, total = time.perf_counter(), 0
+        for number in range(1_000_000):
+            total += number
+        best = min(best, time.perf_counter() - start)
+    return best * 1e3
+
+
 def main() -> None:
     print(f"cores: {os.cpu_count()}")
+    print(f"python_loop_ms: {python_loop_ms():.0f}", flush=True)
     for name, value in server.measure().items():  # first: its fresh processes should not share the CPU with us
         print(f"{name}: {value}", flush=True)
     analysis.main()

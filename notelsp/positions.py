@@ -11,12 +11,22 @@ from __future__ import annotations
 
 import re
 from bisect import bisect_right
+from functools import lru_cache
+from itertools import accumulate
 
 LINE_BREAK = re.compile(r"\r\n?|\n")
 
 
+@lru_cache(maxsize=4)  # the scanner and the server's line index ask for the same text's starts
+def lf_line_starts(text: str) -> tuple[int, ...]:
+    """Offset of each line's first character, lines ending at '\\n' only (built in C, not a Python loop)."""
+    return tuple(accumulate(map((1).__add__, map(len, text.split("\n"))), initial=0))[:-1]
+
+
 def line_starts(text: str) -> tuple[int, ...]:
-    """Offset of the first character of every line (one regex pass, C speed on big notes)."""
+    """Offset of the first character of every line, lines ending at CRLF, CR or LF."""
+    if "\r" not in text:
+        return lf_line_starts(text)
     return (0, *(match.end() for match in LINE_BREAK.finditer(text)))
 
 

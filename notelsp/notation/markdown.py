@@ -10,9 +10,9 @@ from __future__ import annotations
 import threading
 from bisect import bisect_left, bisect_right
 from dataclasses import dataclass
-from itertools import accumulate
 
 from .markdown_blocks import BONDING_INFO, Block, Segment, parse_blocks, parse_document
+from ..positions import lf_line_starts as line_starts  # Markdown lines end at LF here
 from .model import Span
 
 __all__ = ["BONDING_INFO", "MarkdownStructure", "Segment", "forget_documents", "line_starts", "markdown_structure"]
@@ -22,12 +22,6 @@ __all__ = ["BONDING_INFO", "MarkdownStructure", "Segment", "forget_documents", "
 class MarkdownStructure:
     segments: tuple[Segment, ...]
     bonding_lines: tuple[Span, ...]  # content lines of ```bonding blocks
-
-
-def line_starts(text: str) -> list[int]:
-    """Offset of each line's first character (lines end at '\\n'); built in C, not a Python loop."""
-    lengths = map(len, text.split("\n"))
-    return list(accumulate(map((1).__add__, lengths), initial=0))[:-1]
 
 
 def markdown_structure(text: str) -> MarkdownStructure:

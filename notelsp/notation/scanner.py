@@ -11,6 +11,7 @@ from __future__ import annotations
 
 from bisect import bisect_right
 from functools import lru_cache
+from operator import attrgetter
 from typing import Literal
 
 from .. import elements
@@ -19,6 +20,7 @@ from .model import Annotation, ParsedBody, ScannedDocument, Span
 from .transform import MAX_BODY_CHARS, parse_body
 
 DocumentKind = Literal["markdown", "text"]
+_START = attrgetter("span.start")
 
 # A brace right after these belongs to something else: \frac{a}, x_{i}, x^{2}, }{.
 _NOT_BEFORE_ANNOTATION = set("\\_^}$") | set("abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789")
@@ -42,7 +44,7 @@ def scan_with_structure(text: str, structure: MarkdownStructure) -> ScannedDocum
     annotations.extend(
         annotation for line in bonding_lines if (annotation := _block_annotation(text[line.start : line.end], line))
     )
-    annotations.sort(key=lambda annotation: annotation.span.start)
+    annotations.sort(key=_START)
     return ScannedDocument(tuple(annotations))
 
 
@@ -73,12 +75,30 @@ def _begins_with_element(body: str) -> bool:
     return head.startswith("[") or elements.is_symbol(head[:2]) or elements.is_symbol(head[:1])
 
 
-def _segment_annotations(segment: Segment) -> list[Annotation]:
-    start = segment.start
-    return [
-        Annotation(Span(start + opening, start + closing + 1), Span(start + opening + 1, start + closing), parsed, "inline")
-        for opening, closing, parsed in _inline_groups(segment.text, segment.skips)
-    ]
+# Annotations placed at a position, by segment (or bonding line) and its text: after an edit the
+# lines before it are where they were, and their annotations are taken as they are.
+_PLACED_LIMIT = 4 * _LINE_CACHE_SIZE
+_placed_segments: dict[Segment, tuple[Annotation, ...]] = {}
+_placed_lines: dict[tuple[Span, str], Annotation | None] = {}
+
+
+def forget_placed() -> None:
+    _placed_segments.clear()
+    _placed_lines.clear()
+
+
+def _segment_annotations(segment: Segment) -> tuple[Annotation, ...]:
+    placed = _placed_segments.get(segment)
+    if placed is None:
+        start = segment.start
+        placed = tuple(
+            Annotation(Span(start + opening, start + closing + 1), Span(start + opening + 1, start + closing), parsed, "inline")
+            for opening, closing, parsed in _inline_groups(segment.text, segment.skips)
+        )
+        if len(_placed_segments) >= _PLACED_LIMIT:
+            _placed_segments.clear()
+        _placed_segments[segment] = placed
+    return placed
 
 
 @lru_cache(maxsize=_LINE_CACHE_SIZE)
@@ -123,11 +143,18 @@ def _inline_candidate(
 
 def _block_annotation(content: str, line: Span) -> Annotation | None:
     """The annotation on one line of a bonding block (``content`` is the line's text)."""
+    key = (line, content)
+    if key in _placed_lines:
+        return _placed_lines[key]
     found = _block_body(content)
-    if found is None:
-        return None
-    lead, length, parsed = found
-    return Annotation(line, Span(line.start + lead, line.start + lead + length), parsed, "block")
+    placed = None
+    if found is not None:
+        lead, length, parsed = found
+        placed = Annotation(line, Span(line.start + lead, line.start + lead + length), parsed, "block")
+    if len(_placed_lines) >= _PLACED_LIMIT:
+        _placed_lines.clear()
+    _placed_lines[key] = placed
+    return placed
 
 
 @lru_cache(maxsize=_LINE_CACHE_SIZE)

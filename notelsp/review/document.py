@@ -94,7 +94,7 @@ def review_text(text: str, kind: DocumentKind = "markdown", settings: Settings |
     rules = _chemistry()[1]
     reviewed = _reviewed_length(text, rules.notation.MAX_REVIEWED_CHARS)
     scanned = scan(text if reviewed == len(text) else text[:reviewed], kind)
-    reviews = _reviews_for(settings)
+    reviews, placed = _reviews_for(settings)
     findings: list[Finding] = []
     for annotation in scanned.annotations:
         span = annotation.span
@@ -103,7 +103,11 @@ def review_text(text: str, kind: DocumentKind = "markdown", settings: Settings |
         if relative is None:
             relative = reviews[(source, annotation.form)] = _review_relative(annotation.relative(), settings)
         if relative:  # most annotations have no findings: nothing to place
-            findings.extend(_shift(finding, span.start) for finding in relative)
+            key = (source, annotation.form, span.start)
+            here = placed.get(key)
+            if here is None:
+                here = placed[key] = tuple(_shift(finding, span.start) for finding in relative)
+            findings.extend(here)
     findings.extend(rules.whole_note_findings(text, reviewed, settings))
     findings.sort(key=lambda f: (f.span.start, f.span.end, f.code))
     return DocumentReview(text, scanned, tuple(findings))
@@ -118,18 +122,31 @@ def _reviewed_length(text: str, limit: int) -> int:
 
 
 # The findings of each annotation text (offsets from the annotation's start), per settings.
-# An annotation's findings depend only on its own text, its form and the settings.
+# An annotation's findings depend only on its own text, its form and the settings.  Beside
+# them, the same findings placed at an offset: after an edit, the annotations before it are
+# where they were, and their findings are taken as they are.
 _REVIEWS_LIMIT = 20_000
-_reviews: dict[Settings, dict[tuple[str, str], tuple[Finding, ...]]] = {}
+Relative = dict[tuple[str, str], tuple[Finding, ...]]
+Placed = dict[tuple[str, str, int], tuple[Finding, ...]]
+_reviews: dict[Settings, tuple[Relative, Placed]] = {}
 
 
-def _reviews_for(settings: Settings) -> dict[tuple[str, str], tuple[Finding, ...]]:
+def _reviews_for(settings: Settings) -> tuple[Relative, Placed]:
     reviews = _reviews.get(settings)
-    if reviews is None or len(reviews) > _REVIEWS_LIMIT:
+    if reviews is None or len(reviews[0]) > _REVIEWS_LIMIT or len(reviews[1]) > _REVIEWS_LIMIT:
         if len(_reviews) >= 8:  # settings change rarely; a few sets are plenty
             _reviews.clear()
-        reviews = _reviews[settings] = {}
+        reviews = _reviews[settings] = ({}, {})
     return reviews
+
+
+def forget_placed_results() -> None:
+    """Empty only the caches of results at positions (placed annotations and findings)."""
+    from ..notation import scanner
+
+    scanner.forget_placed()
+    for _, placed in list(_reviews.values()):
+        placed.clear()
 
 
 def forget_cached_results() -> None:
@@ -142,6 +159,7 @@ def forget_cached_results() -> None:
     _reviews.clear()
     for cached in (transform.parse_body, scanner._inline_groups, scanner._block_body):
         cached.cache_clear()
+    scanner.forget_placed()
     markdown.forget_documents()
 
 

@@ -7,6 +7,8 @@
   null), and nothing is shown in the editor for a fault of the wire.
 - The fast start-up (``quickstart``) answers ``initialize`` before the server
   exists; the server's own reply to it is checked against that one and dropped.
+- Open documents take incremental changes by offset (``documents``), not by
+  pygls's rebuilding of the text line by line.
 - ``$/cancelRequest`` also cancels what a generator handler is running for the
   request (pygls cancels only the request's own future, so an executeCommand's
   command would run on).
@@ -27,6 +29,8 @@ from pygls.exceptions import (
     JsonRpcParseError,
 )
 from pygls.protocol import LanguageServerProtocol
+
+from .documents import spliced
 
 log = logging.getLogger("notelsp.server")
 
@@ -67,6 +71,15 @@ def _usable_id(value: Any) -> bool:
 
 class NoteProtocol(LanguageServerProtocol):
     exit_status = 0  # LSP: 1 when ``exit`` comes without ``shutdown`` before it
+
+    # pygls builds its Workspace on initialize; documents in it take changes by offset (see documents)
+    @property
+    def _workspace(self):
+        return self.__dict__.get("_spliced_workspace")
+
+    @_workspace.setter
+    def _workspace(self, workspace) -> None:
+        self.__dict__["_spliced_workspace"] = spliced(workspace)
 
     def __init__(self, *args, **kwargs) -> None:
         super().__init__(*args, **kwargs)
