@@ -158,12 +158,16 @@ class ClientInput:
     the process at once unless a request read meanwhile still wants its answer
     (a client that sends everything, then closes, is served first).  Every byte
     read is handed on unchanged, so the server reads (``readline``/``read``)
-    exactly what the client sent, replay first.
+    exactly what the client sent, replay first.  Once the server is ready the
+    thread stops after the frame it is reading, and the stream is read
+    directly: no hand-over between threads per message for the rest of the session.
     """
 
     _CHUNK = 65536
 
     def __init__(self, stream: BinaryIO, replay: bytes = b"") -> None:
+        self._stream = stream
+        self._direct = False  # the thread has stopped: read the stream itself
         self._buffer = bytearray(replay)
         self._searched = 0  # bytes of the buffer known to hold no line break
         self._arrived: queue.SimpleQueue[bytes] = queue.SimpleQueue()
@@ -186,12 +190,9 @@ class ClientInput:
                     leave_now(1)  # LSP: exit without a shutdown before it is status 1
             self._arrived.put(frame.raw)
             if frame.ended:
-                self._arrived.put(b"")
+                self._arrived.put(b"")  # end of input
                 return
-        read = getattr(stream, "read1", stream.read)
-        while chunk := read(self._CHUNK):
-            self._arrived.put(chunk)
-        self._arrived.put(b"")  # end of input
+        self._arrived.put(None)  # the stream is handed back, at a frame boundary
 
     def _method_of(self, body: bytes | None) -> str | None:
         try:
@@ -205,14 +206,24 @@ class ClientInput:
         return message.get("method")
 
     def _take_more(self) -> bool:
-        """Wait for the next bytes from the client; False once its input has ended."""
-        if not self._ended:
+        """Wait for more of a line from the client (from the thread, or once it has stopped, from
+        the stream); False once the input has ended."""
+        if self._ended:
+            return False
+        if self._direct:
+            chunk = self._stream.readline()
+        else:
             chunk = self._arrived.get()
-            self._ended = not chunk
-            self._buffer += chunk
+            if chunk is None:  # the thread has stopped: the next call reads the stream
+                self._direct = True
+                return True
+        self._ended = not chunk
+        self._buffer += chunk
         return not self._ended
 
     def readline(self) -> bytes:
+        if self._direct and not self._buffer:
+            return self._stream.readline()
         while (at := self._buffer.find(b"\n", self._searched)) == -1:
             self._searched = len(self._buffer)
             if not self._take_more():
@@ -224,8 +235,12 @@ class ClientInput:
         return line
 
     def read(self, size: int) -> bytes:
-        while len(self._buffer) < size and self._take_more():
+        if self._direct and not self._buffer:
+            return self._stream.read(size)
+        while len(self._buffer) < size and not self._direct and self._take_more():
             pass
+        if self._direct and len(self._buffer) < size:
+            self._buffer += self._stream.read(size - len(self._buffer))
         data = bytes(self._buffer[:size])
         del self._buffer[:size]
         self._searched = 0

@@ -116,3 +116,27 @@ def test_unreadable_frames_while_building_are_not_mistaken_for_exit(exits):
     client_input = ClientInput(io.BytesIO(sent))
     assert done.wait(5) and statuses == [0]  # only the end of input ended it
     assert client_input.readline() == b"Content-Length: 8\r\n"
+
+
+def test_after_the_server_is_ready_the_stream_is_read_directly(exits):
+    read_end, write_end = os.pipe()
+    client_input = ClientInput(os.fdopen(read_end, "rb"))
+    pipe = os.fdopen(write_end, "wb")
+    first = _frames(b'{"jsonrpc":"2.0","method":"initialized","params":{}}')
+    pipe.write(first)
+    pipe.flush()
+    client_input.server_ready()
+    later = _frames(b'{"jsonrpc":"2.0","id":2,"method":"shutdown"}', b"y" * 100_000)
+    pipe.write(later[:30])  # the thread's last frame may arrive in pieces
+    pipe.flush()
+    assert client_input.readline() == b"Content-Length: 52\r\n"  # the frame read before readiness
+
+    def send_the_rest() -> None:  # more than a pipe holds: written while the test reads
+        pipe.write(later[30:])
+        pipe.close()
+
+    writer = threading.Thread(target=send_the_rest)
+    writer.start()
+    assert _read_everything(client_input) == first[len(b"Content-Length: 52\r\n"):] + later
+    writer.join(5)
+    assert client_input._direct and exits[0] == []
