@@ -133,10 +133,12 @@ _reviews: dict[Settings, tuple[Relative, Placed]] = {}
 
 def _reviews_for(settings: Settings) -> tuple[Relative, Placed]:
     reviews = _reviews.get(settings)
-    if reviews is None or len(reviews[0]) > _REVIEWS_LIMIT or len(reviews[1]) > _REVIEWS_LIMIT:
+    if reviews is None or len(reviews[0]) > _REVIEWS_LIMIT:
         if len(_reviews) >= 8:  # settings change rarely; a few sets are plenty
             _reviews.clear()
         reviews = _reviews[settings] = ({}, {})
+    elif len(reviews[1]) > _REVIEWS_LIMIT:  # edits leave findings at old offsets behind: cheap to place again
+        reviews[1].clear()
     return reviews
 
 
