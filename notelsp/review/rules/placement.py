@@ -163,6 +163,15 @@ def _polarity_word(polar: bool) -> str:
     return "polar" if polar else "nonpolar"
 
 
+def _agreed_expected(context: RuleContext, attribute: str) -> Isomer | None:
+    """The expected isomer when every equally expected one has the same ``attribute``; else None
+    (the claim cannot be judged against isomers that disagree)."""
+    best = expected(_isomers(context))
+    if not best or len({getattr(isomer, attribute) for isomer in best}) != 1:
+        return None
+    return best[0]
+
+
 @rule("wrong-polarity", severity=Severity.WARNING, claims=(PolarityClaim,))
 def wrong_polarity(context: RuleContext) -> Iterator[Finding]:
     """The claimed polarity differs from that of the expected isomer.
@@ -173,11 +182,8 @@ def wrong_polarity(context: RuleContext) -> Iterator[Finding]:
     """
     claim = context.claim
     assert isinstance(claim, PolarityClaim)
-    best = expected(_isomers(context))
-    if not best or len({isomer.polar for isomer in best}) != 1:
-        return
-    isomer = best[0]
-    if isomer.polar == claim.polar:
+    isomer = _agreed_expected(context, "polar")
+    if isomer is None or isomer.polar == claim.polar:
         return
     size = f", about {isomer.dipole_debye:.1f} D" if isomer.polar else ""
     yield context.finding(
@@ -197,11 +203,8 @@ def wrong_point_group(context: RuleContext) -> Iterator[Finding]:
     """
     claim = context.claim
     assert isinstance(claim, PointGroupClaim)
-    best = expected(_isomers(context))
-    if not best or len({isomer.point_group for isomer in best}) != 1:
-        return
-    isomer = best[0]
-    if normalised_symbol(isomer.point_group) == normalised_symbol(claim.symbol):
+    isomer = _agreed_expected(context, "point_group")
+    if isomer is None or normalised_symbol(isomer.point_group) == normalised_symbol(claim.symbol):
         return
     yield context.finding(
         f"{_formula(context)} is claimed {claim.symbol}; predicted {isomer.point_group} (the {isomer.name} isomer)",
