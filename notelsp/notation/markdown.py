@@ -11,8 +11,8 @@ import threading
 from bisect import bisect_left, bisect_right
 from dataclasses import dataclass
 
-from .markdown_blocks import BONDING_INFO, Block, Segment, parse_blocks, parse_document
 from ..positions import lf_line_starts as line_starts  # Markdown lines end at LF here
+from .markdown_blocks import BONDING_INFO, Block, Segment, parse_blocks, parse_document
 from .model import Span
 
 __all__ = ["BONDING_INFO", "MarkdownStructure", "Segment", "forget_documents", "line_starts", "markdown_structure"]
