@@ -87,17 +87,22 @@ def forget_placed() -> None:
     _placed_lines.clear()
 
 
+def _remember(placed: dict, key, value):
+    """Keep ``value`` under ``key``; a full cache starts again (old positions are cheap to place anew)."""
+    if len(placed) >= _PLACED_LIMIT:
+        placed.clear()
+    placed[key] = value
+    return value
+
+
 def _segment_annotations(segment: Segment) -> tuple[Annotation, ...]:
     placed = _placed_segments.get(segment)
     if placed is None:
         start = segment.start
-        placed = tuple(
+        placed = _remember(_placed_segments, segment, tuple(
             Annotation(Span(start + opening, start + closing + 1), Span(start + opening + 1, start + closing), parsed, "inline")
             for opening, closing, parsed in _inline_groups(segment.text, segment.skips)
-        )
-        if len(_placed_segments) >= _PLACED_LIMIT:
-            _placed_segments.clear()
-        _placed_segments[segment] = placed
+        ))
     return placed
 
 
@@ -151,10 +156,7 @@ def _block_annotation(content: str, line: Span) -> Annotation | None:
     if found is not None:
         lead, length, parsed = found
         placed = Annotation(line, Span(line.start + lead, line.start + lead + length), parsed, "block")
-    if len(_placed_lines) >= _PLACED_LIMIT:
-        _placed_lines.clear()
-    _placed_lines[key] = placed
-    return placed
+    return _remember(_placed_lines, key, placed)
 
 
 @lru_cache(maxsize=_LINE_CACHE_SIZE)

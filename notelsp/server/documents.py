@@ -12,13 +12,13 @@ from __future__ import annotations
 from lsprotocol import types
 from pygls.workspace import TextDocument, Workspace
 
-from .positions import line_index
+from .positions import UTF16, line_index
 
 
 class SplicedDocument(TextDocument):
     def _apply_incremental_change(self, change: types.TextDocumentContentChangePartial) -> None:
         source = self.source
-        index = line_index(source, str(getattr(self.position_codec.encoding, "value", self.position_codec.encoding)))
+        index = line_index(source, self.position_codec.encoding or UTF16)  # the index names the encoding
         start, end = sorted((index.offset(change.range.start), index.offset(change.range.end)))
         self._source = source[:start] + change.text + source[end:]
 

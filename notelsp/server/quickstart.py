@@ -163,25 +163,23 @@ class ClientInput:
     directly: no hand-over between threads per message for the rest of the session.
     """
 
-    _CHUNK = 65536
-
     def __init__(self, stream: BinaryIO, replay: bytes = b"") -> None:
         self._stream = stream
         self._direct = False  # the thread has stopped: read the stream itself
         self._buffer = bytearray(replay)
         self._searched = 0  # bytes of the buffer known to hold no line break
-        self._arrived: queue.SimpleQueue[bytes] = queue.SimpleQueue()
+        self._arrived: queue.SimpleQueue[bytes | None] = queue.SimpleQueue()  # None: the thread has stopped
         self._ended = False
         self._ready = threading.Event()
         self._requests_waiting = False  # a request arrived while building: its answer is owed
-        threading.Thread(target=self._pump, args=(stream,), name="notelsp-input", daemon=True).start()
+        threading.Thread(target=self._pump, name="notelsp-input", daemon=True).start()
 
     def server_ready(self) -> None:
         self._ready.set()
 
-    def _pump(self, stream: BinaryIO) -> None:
+    def _pump(self) -> None:
         while not self._ready.is_set():
-            frame = read_frame(stream)
+            frame = read_frame(self._stream)
             method = self._method_of(frame.body)
             if not self._ready.is_set() and not self._requests_waiting:
                 if frame.ended:
