@@ -254,16 +254,32 @@ class Annotation:
     def is_comparison(self) -> bool:
         return len(self.parsed.formulas) == 2
 
-    def relative(self) -> "Annotation":
-        """The same annotation with offsets counted from its own start (as if it were the whole text)."""
-        start = self.span.start
-        if start == 0:
-            return self
-        return Annotation(Span(0, self.span.end - start), self.body.shifted(-start), self.parsed, self.form)
+
+# One annotation as the scanner finds it: (start, end, body start, body end, parse, form).
+# Plain offsets are cheap to make for every annotation of a large note; an
+# :class:`Annotation` is made from them only for the consumers that ask for one.
+Found = tuple[int, int, int, int, ParsedBody, str]
 
 
-@dataclass(frozen=True, slots=True)
+def annotation_of(found: Found) -> Annotation:
+    start, end, body_start, body_end, parsed, form = found
+    return Annotation(Span(start, end), Span(body_start, body_end), parsed, form)
+
+
+@dataclass(frozen=True)
 class ScannedDocument:
-    """Everything the scanner found in one document."""
+    """Everything the scanner found in one document, in document order.
 
-    annotations: tuple[Annotation, ...]  # in document order; notation errors belong to their annotation
+    Notation errors belong to their annotation.  A review reads ``found``; the
+    :class:`Annotation` objects are made on first use of ``annotations``.
+    """
+
+    found: tuple[Found, ...]
+
+    @cached_property
+    def annotations(self) -> tuple[Annotation, ...]:
+        return tuple(map(annotation_of, self.found))
+
+    @cached_property
+    def starts(self) -> list[int]:
+        return [found[0] for found in self.found]

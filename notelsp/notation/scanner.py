@@ -11,22 +11,23 @@ from __future__ import annotations
 
 from bisect import bisect_right
 from functools import lru_cache
-from operator import attrgetter
+from operator import itemgetter
 from typing import Literal
 
 from .. import elements
 from .markdown import MarkdownStructure, Segment, line_starts, markdown_structure
-from .model import Annotation, ParsedBody, ScannedDocument, Span
+from .model import Found, ParsedBody, ScannedDocument, Span
 from .transform import MAX_BODY_CHARS, parse_body
 
 DocumentKind = Literal["markdown", "text"]
-_START = attrgetter("span.start")
+_START = itemgetter(0)
 
 # A brace right after these belongs to something else: \frac{a}, x_{i}, x^{2}, }{.
 _NOT_BEFORE_ANNOTATION = set("\\_^}$") | set("abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789")
 
 # Lines are remembered by their text, not their place: after an edit, the lines that
-# moved are placed again without being looked at again.  About two large documents' worth.
+# moved are placed again (plain offsets, cheap) without being looked at again.  About
+# two large documents' worth.
 _LINE_CACHE_SIZE = 8192
 
 
@@ -39,13 +40,11 @@ def scan(text: str, kind: DocumentKind = "markdown") -> ScannedDocument:
 
 def scan_with_structure(text: str, structure: MarkdownStructure) -> ScannedDocument:
     """The annotations of ``text`` where ``structure`` says they may stand (tests pass a reference structure)."""
-    segments, bonding_lines = structure.segments, structure.bonding_lines
-    annotations = [annotation for segment in segments for annotation in _segment_annotations(segment)]
-    annotations.extend(
-        annotation for line in bonding_lines if (annotation := _block_annotation(text[line.start : line.end], line))
-    )
-    annotations.sort(key=_START)
-    return ScannedDocument(tuple(annotations))
+    found = [placed for segment in structure.segments for placed in _segment_found(segment)]
+    if structure.bonding_lines:
+        found.extend(placed for line in structure.bonding_lines if (placed := _block_found(text, line)))
+        found.sort(key=_START)
+    return ScannedDocument(tuple(found))
 
 
 def _text_segments(text: str) -> tuple[Segment, ...]:
@@ -75,35 +74,12 @@ def _begins_with_element(body: str) -> bool:
     return head.startswith("[") or elements.is_symbol(head[:2]) or elements.is_symbol(head[:1])
 
 
-# Annotations placed at a position, by segment (or bonding line) and its text: after an edit the
-# lines before it are where they were, and their annotations are taken as they are.
-_PLACED_LIMIT = 4 * _LINE_CACHE_SIZE
-_placed_segments: dict[Segment, tuple[Annotation, ...]] = {}
-_placed_lines: dict[tuple[Span, str], Annotation | None] = {}
-
-
-def forget_placed() -> None:
-    _placed_segments.clear()
-    _placed_lines.clear()
-
-
-def _remember(placed: dict, key, value):
-    """Keep ``value`` under ``key``; a full cache starts again (old positions are cheap to place anew)."""
-    if len(placed) >= _PLACED_LIMIT:
-        placed.clear()
-    placed[key] = value
-    return value
-
-
-def _segment_annotations(segment: Segment) -> tuple[Annotation, ...]:
-    placed = _placed_segments.get(segment)
-    if placed is None:
-        start = segment.start
-        placed = _remember(_placed_segments, segment, tuple(
-            Annotation(Span(start + opening, start + closing + 1), Span(start + opening + 1, start + closing), parsed, "inline")
-            for opening, closing, parsed in _inline_groups(segment.text, segment.skips)
-        ))
-    return placed
+def _segment_found(segment: Segment) -> list[Found]:
+    start = segment.start
+    return [
+        (start + opening, start + closing + 1, start + opening + 1, start + closing, parsed, "inline")
+        for opening, closing, parsed in _inline_groups(segment.text, segment.skips)
+    ]
 
 
 @lru_cache(maxsize=_LINE_CACHE_SIZE)
@@ -146,17 +122,13 @@ def _inline_candidate(
     return parsed
 
 
-def _block_annotation(content: str, line: Span) -> Annotation | None:
-    """The annotation on one line of a bonding block (``content`` is the line's text)."""
-    key = (line, content)
-    if key in _placed_lines:
-        return _placed_lines[key]
-    found = _block_body(content)
-    placed = None
-    if found is not None:
-        lead, length, parsed = found
-        placed = Annotation(line, Span(line.start + lead, line.start + lead + length), parsed, "block")
-    return _remember(_placed_lines, key, placed)
+def _block_found(text: str, line: Span) -> Found | None:
+    """The annotation on one line of a bonding block, if the line holds more than a comment."""
+    body = _block_body(text[line.start : line.end])
+    if body is None:
+        return None
+    lead, length, parsed = body
+    return (line.start, line.end, line.start + lead, line.start + lead + length, parsed, "block")
 
 
 @lru_cache(maxsize=_LINE_CACHE_SIZE)

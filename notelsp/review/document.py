@@ -14,7 +14,7 @@ from functools import cache, cached_property
 from typing import Any, Literal
 
 from ..notation import scan
-from ..notation.model import Annotation, ScannedDocument, Span
+from ..notation.model import Annotation, Found, ScannedDocument, Span, annotation_of
 from ..positions import LineIndex
 from .findings import Finding, Fix
 from .settings import Settings
@@ -40,10 +40,6 @@ class DocumentReview:
         return analyses_of(annotation)
 
     @cached_property
-    def _annotation_starts(self) -> list[int]:
-        return [annotation.span.start for annotation in self.scanned.annotations]
-
-    @cached_property
     def _finding_starts(self) -> list[int]:
         return [finding.span.start for finding in self.findings]
 
@@ -53,13 +49,13 @@ class DocumentReview:
 
     def annotation_at(self, offset: int) -> Annotation | None:
         """The first annotation (in document order) whose span holds ``offset``, ends included."""
-        annotations = self.scanned.annotations
+        found = self.scanned.found
         # Annotations are sorted by start and do not overlap: only the last two starting at or before
         # ``offset`` can hold it, and of those the earlier wins when both touch it.
-        last = bisect_right(self._annotation_starts, offset) - 1
-        for annotation in annotations[max(last - 1, 0) : last + 1]:
-            if annotation.span.start <= offset <= annotation.span.end:
-                return annotation
+        last = bisect_right(self.scanned.starts, offset) - 1
+        for index in range(max(last - 1, 0), last + 1):
+            if found[index][0] <= offset <= found[index][1]:
+                return annotation_of(found[index])  # one made for the asker: no need to make them all
         return None
 
     def findings_in(self, span: Span) -> tuple[Finding, ...]:
@@ -96,17 +92,17 @@ def review_text(text: str, kind: DocumentKind = "markdown", settings: Settings |
     scanned = scan(text if reviewed == len(text) else text[:reviewed], kind)
     reviews, placed = _reviews_for(settings)
     findings: list[Finding] = []
-    for annotation in scanned.annotations:
-        span = annotation.span
-        source = text[span.start : span.end]
-        relative = reviews.get((source, annotation.form))
+    for found in scanned.found:
+        start, end, _, _, _, form = found
+        source = text[start:end]
+        relative = reviews.get((source, form))
         if relative is None:
-            relative = reviews[(source, annotation.form)] = _review_relative(annotation.relative(), settings)
+            relative = reviews[(source, form)] = _review_relative(_relative_annotation(found), settings)
         if relative:  # most annotations have no findings: nothing to place
-            key = (source, annotation.form, span.start)
+            key = (source, form, start)
             here = placed.get(key)
             if here is None:
-                here = placed[key] = tuple(_shift(finding, span.start) for finding in relative)
+                here = placed[key] = tuple(_shift(finding, start) for finding in relative)
             findings.extend(here)
     findings.extend(rules.whole_note_findings(text, reviewed, settings))
     findings.sort(key=lambda f: (f.span.start, f.span.end, f.code))
@@ -143,16 +139,13 @@ def _reviews_for(settings: Settings) -> tuple[Relative, Placed]:
 
 
 def forget_placed_results() -> None:
-    """Empty only the caches of results at positions (placed annotations and findings)."""
-    from ..notation import scanner
-
-    scanner.forget_placed()
+    """Empty only the caches of results at positions (placed findings)."""
     for _, placed in list(_reviews.values()):
         placed.clear()
 
 
 def forget_cached_results() -> None:
-    """Empty the review path's result caches (parses, placed annotations, findings, remembered documents).
+    """Empty the review path's result caches (parses, line scans, findings, remembered documents).
 
     For tests and benchmarks that need a review computed afresh; species analyses keep their own cache.
     """
@@ -161,8 +154,13 @@ def forget_cached_results() -> None:
     _reviews.clear()
     for cached in (transform.parse_body, scanner._inline_groups, scanner._block_body):
         cached.cache_clear()
-    scanner.forget_placed()
     markdown.forget_documents()
+
+
+def _relative_annotation(found: Found) -> Annotation:
+    """The annotation with offsets counted from its own start (as if it were the whole text)."""
+    start, end, body_start, body_end, parsed, form = found
+    return Annotation(Span(0, end - start), Span(body_start - start, body_end - start), parsed, form)
 
 
 def _review_relative(annotation: Annotation, settings: Settings) -> tuple[Finding, ...]:
