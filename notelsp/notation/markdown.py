@@ -10,6 +10,8 @@ from __future__ import annotations
 import threading
 from bisect import bisect_left, bisect_right
 from dataclasses import dataclass
+from itertools import chain
+from operator import attrgetter
 
 from ..positions import lf_line_starts as line_starts  # Markdown lines end at LF here
 from .markdown_blocks import BONDING_INFO, Block, Segment, parse_blocks, parse_document
@@ -33,9 +35,11 @@ def markdown_structure(text: str) -> MarkdownStructure:
         return MarkdownStructure((), ())
     blocks = _blocks_of(text)
     return MarkdownStructure(
-        tuple(segment for block in blocks for segment in block.segments),
-        tuple(span for block in blocks for span in block.bonding),
+        tuple(chain.from_iterable(map(_SEGMENTS, blocks))), tuple(chain.from_iterable(map(_BONDING, blocks)))
     )
+
+
+_SEGMENTS, _BONDING = attrgetter("segments"), attrgetter("bonding")
 
 
 # --- top-level blocks, re-parsed only where an edit touched them ------------------------
