@@ -5,7 +5,7 @@ ones about whole documents (see there).
 
 What a process pays once (element data, the grammar's parser, the Markdown
 parser object, per-class field tables) is kept: the figures exclude a cold
-process.  Every cache of results (parses, placed annotations, findings,
+process.  Every cache of results (parses, line scans, placed findings,
 species analyses, isomers, polyhedra, remembered documents) is emptied.
 """
 
@@ -39,7 +39,7 @@ def clear_result_caches() -> int:
 
     with analysis._cache_lock:
         analysis._cache.clear()
-    forget_cached_results()  # findings per annotation text, placed results, remembered documents
+    forget_cached_results()  # parses, line scans, findings per annotation text, remembered documents
     return emptied + 2
 
 
@@ -49,7 +49,7 @@ def clear_document_caches() -> None:
     Kept: the caches keyed by text alone (a body's parse, a line's annotation
     groups, a species' analysis, an annotation text's findings), which a process
     fills once per distinct text.  What remains to do is the whole scan of the
-    document's structure and the placing of every annotation and finding: a
+    document's structure, every annotation's offsets and the placing of every finding: a
     check of a note whose lines were met before (none of them at its place).
     """
     from notelsp import positions
@@ -58,4 +58,4 @@ def clear_document_caches() -> None:
 
     markdown.forget_documents()
     positions.lf_line_starts.cache_clear()  # keyed by the whole text
-    forget_placed_results()  # annotations and findings at their offsets
+    forget_placed_results()  # findings at their offsets

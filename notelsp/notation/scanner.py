@@ -4,7 +4,8 @@ A brace group is an annotation when it begins with an element symbol (or '['
 for a bracketed ion) and either contains ':' or reads cleanly as a formula.
 Everything else in braces (``{a, b}``, ``{#id .class}``, LaTeX arguments) is
 left alone.  Bodies are parsed through the position-free cache of
-:func:`notelsp.notation.transform.parse_body` and shifted into place.
+:func:`notelsp.notation.transform.parse_body`; an annotation is recorded as
+plain offsets beside that parse (:data:`notelsp.notation.model.Found`).
 """
 
 from __future__ import annotations
