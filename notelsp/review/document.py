@@ -55,8 +55,19 @@ class DocumentReview:
         last = bisect_right(self.scanned.starts, offset) - 1
         for index in range(max(last - 1, 0), last + 1):
             if found[index][0] <= offset <= found[index][1]:
-                return annotation_of(found[index])  # one made for the asker: no need to make them all
+                return self._annotation(index)
         return None
+
+    @cached_property
+    def _made(self) -> dict[int, Annotation]:
+        return {}
+
+    def _annotation(self, index: int) -> Annotation:
+        """The annotation ``found[index]``, made once per review (its placed parse with it), not all of them."""
+        made = self._made.get(index)
+        if made is None:
+            made = self._made[index] = annotation_of(self.scanned.found[index])
+        return made
 
     def findings_in(self, span: Span) -> tuple[Finding, ...]:
         """Findings whose range overlaps ``span`` (touching counts, so empty ranges are found)."""
