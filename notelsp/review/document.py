@@ -171,7 +171,7 @@ def forget_cached_results() -> None:
 def _relative_annotation(found: Found) -> Annotation:
     """The annotation with offsets counted from its own start (as if it were the whole text)."""
     start, end, body_start, body_end, parsed, form = found
-    return Annotation(Span(0, end - start), Span(body_start - start, body_end - start), parsed, form)
+    return annotation_of((0, end - start, body_start - start, body_end - start, parsed, form))
 
 
 def _review_relative(annotation: Annotation, settings: Settings) -> tuple[Finding, ...]:
