@@ -270,15 +270,27 @@ def annotation_of(found: Found) -> Annotation:
 class ScannedDocument:
     """Everything the scanner found in one document, in document order.
 
-    Notation errors belong to their annotation.  A review reads ``found``; the
-    :class:`Annotation` objects are made on first use of ``annotations``.
+    Notation errors belong to their annotation.  A review reads ``found``; an
+    :class:`Annotation` is made on first use (one at a time through
+    :meth:`annotation`, or all of them through ``annotations``), once.
     """
 
     found: tuple[Found, ...]
 
     @cached_property
+    def _made(self) -> dict[int, Annotation]:
+        return {}
+
+    def annotation(self, index: int) -> Annotation:
+        """The annotation ``found[index]`` (its placed parse made with it on first use)."""
+        made = self._made.get(index)
+        if made is None:
+            made = self._made[index] = annotation_of(self.found[index])
+        return made
+
+    @cached_property
     def annotations(self) -> tuple[Annotation, ...]:
-        return tuple(map(annotation_of, self.found))
+        return tuple(map(self.annotation, range(len(self.found))))
 
     @cached_property
     def starts(self) -> list[int]:

@@ -55,19 +55,8 @@ class DocumentReview:
         last = bisect_right(self.scanned.starts, offset) - 1
         for index in range(max(last - 1, 0), last + 1):
             if found[index][0] <= offset <= found[index][1]:
-                return self._annotation(index)
+                return self.scanned.annotation(index)  # only this one is made, not all of them
         return None
-
-    @cached_property
-    def _made(self) -> dict[int, Annotation]:
-        return {}
-
-    def _annotation(self, index: int) -> Annotation:
-        """The annotation ``found[index]``, made once per review (its placed parse with it), not all of them."""
-        made = self._made.get(index)
-        if made is None:
-            made = self._made[index] = annotation_of(self.scanned.found[index])
-        return made
 
     def findings_in(self, span: Span) -> tuple[Finding, ...]:
         """Findings whose range overlaps ``span`` (touching counts, so empty ranges are found)."""

@@ -17,7 +17,7 @@ def test_lookups_match_a_scan_of_every_annotation_and_finding(pieces):
     review = review_text(text, "markdown")
     for offset in range(len(text) + 1):
         expected = next((a for a in review.annotations if a.span.start <= offset <= a.span.end), None)
-        assert review.annotation_at(offset) == expected  # made on request: equal, not the same object
+        assert review.annotation_at(offset) is expected
     for start in range(len(text) + 1):
         for end in (start, min(start + 3, len(text))):
             span = Span(start, end)
