@@ -31,7 +31,10 @@ BONDING_INFO = "bonding"
 
 @dataclass(frozen=True, slots=True)
 class Segment:
-    """One line of inline text, with the ranges in it where annotations may not start."""
+    """Inline text, with the ranges in it where annotations may not start.
+
+    One line, or several whole lines of a paragraph (annotations never span a line break).
+    """
 
     start: int  # document offset of text[0]
     text: str
@@ -760,25 +763,27 @@ class _Parser:
     # --- inline runs -----------------------------------------------------------
 
     def _emit_whole_lines(self, first: int, stop: int) -> None:
-        """Segments of a paragraph made of whole lines ``[first, stop)``: its text is a slice of the document."""
+        """Segments of a paragraph made of whole lines ``[first, stop)``: its text is a slice of the
+        document, taken as one segment (or a few, split between lines, when it is long)."""
         if first >= stop:
             return
         starts, lines = self.starts, self.lines
-        base = starts[first]
-        text = self.text[base : starts[stop - 1] + len(lines[stop - 1])]
-        brace = text.find("{")
-        if brace == -1:
+        base, end = starts[first], starts[stop - 1] + len(lines[stop - 1])
+        if self.text.find("{", base, end) == -1:
             return
+        text = self.text[base:end]
         skips = inline_skips(text, self.references) if SKIP_START.search(text) else ()
-        ends = [end for _, end in skips]
         segments = self.blocks[-1][1]
-        while brace != -1:
-            number = bisect_right(starts, base + brace, first, stop) - 1
-            begin = starts[number] - base
-            line = lines[number]
-            end = begin + len(line)
-            segments.append(Segment(starts[number], line, _share_of(skips, ends, begin, end)))
-            brace = text.find("{", end)
+        if len(text) <= _SEGMENT_CHARS:
+            segments.append(Segment(base, text, skips))
+            return
+        ends = [end for _, end in skips]
+        while first < stop:  # pieces of whole lines, each holding a brace
+            limit = bisect_right(starts, starts[first] + _SEGMENT_CHARS, first + 1, stop)
+            begin, piece_end = starts[first] - base, starts[limit - 1] + len(lines[limit - 1]) - base
+            if text.find("{", begin, piece_end) != -1:
+                segments.append(Segment(starts[first], text[begin:piece_end], _share_of(skips, ends, begin, piece_end)))
+            first = limit
 
     def _emit_run(self, lines: list[tuple[int, str]]) -> None:
         """Segments of one inline run (lines of a paragraph or one heading), with their skipped ranges."""
@@ -816,6 +821,7 @@ class _Parser:
         self.blocks[-1][1].append(Segment(offset, row, tuple(sorted(skips + pipes))))
 
 
+_SEGMENT_CHARS = 2048  # a longer paragraph is split between lines: its pieces are cached by their text
 _DEFINITION_LOOKAHEAD = 50  # lines a definition's destination and title may take
 _DEFINITION_SPACE = re.compile(r"[ \t]*\n?[ \t]*")
 _BARE_DESTINATION = re.compile(r"[^\s\x00-\x1f<]+")
@@ -828,7 +834,7 @@ def _line_end(text: str, position: int) -> int:
 
 
 def _share_of(skips: tuple[Skip, ...], ends: list[int], begin: int, end: int) -> tuple[Skip, ...]:
-    """The skipped ranges of an inline run that fall in its line ``[begin, end)``, relative to the line.
+    """The skipped ranges of an inline run that fall in ``[begin, end)`` (a line or whole lines), relative to it.
 
     Skipped ranges are disjoint and in order, so the first one is found by bisecting their ends.
     """

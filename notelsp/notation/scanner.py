@@ -26,9 +26,9 @@ _START = itemgetter(0)
 # A brace right after these belongs to something else: \frac{a}, x_{i}, x^{2}, }{.
 _NOT_BEFORE_ANNOTATION = set("\\_^}$") | set("abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789")
 
-# Lines are remembered by their text, not their place: after an edit, the lines that
-# moved are placed again (plain offsets, cheap) without being looked at again.  About
-# two large documents' worth.
+# Segments (a line, or a paragraph's whole lines) are remembered by their text, not their
+# place: after an edit, the segments that moved are placed again (plain offsets, cheap)
+# without being looked at again.  About two large documents' worth.
 _LINE_CACHE_SIZE = 8192
 
 
@@ -85,7 +85,7 @@ def _segment_found(segment: Segment) -> list[Found]:
 
 @lru_cache(maxsize=_LINE_CACHE_SIZE)
 def _inline_groups(text: str, skips: tuple[tuple[int, int], ...]) -> tuple[tuple[int, int, ParsedBody], ...]:
-    """(opening brace, closing brace, parse) of each annotation in one line of inline text."""
+    """(opening brace, closing brace, parse) of each annotation in a segment of inline text."""
     found = []
     skip_starts = [start for start, _ in skips]
     opening, closing = text.find("{"), -1
@@ -97,6 +97,9 @@ def _inline_groups(text: str, skips: tuple[tuple[int, int], ...]) -> tuple[tuple
         inner = text.find("{", opening + 1, closing)
         if inner != -1:  # nested braces: only the innermost group can be an annotation
             opening = inner
+            continue
+        if text.find("\n", opening, closing) != -1:  # a segment of several lines: no group spans two
+            opening = text.find("{", opening + 1)
             continue
         parsed = _inline_candidate(text, skips, skip_starts, opening, closing)
         if parsed is not None:
