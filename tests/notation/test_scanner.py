@@ -3,6 +3,7 @@
 import pytest
 
 from notelsp.notation import scan
+from notelsp.notation.markdown import markdown_structure
 from notelsp.notation.model import PlacementClaim, ShapeClaim
 from notelsp.notation.transform import parse_body
 
@@ -112,3 +113,19 @@ def test_rescan_after_an_edit_reparses_only_the_changed_annotation():
     assert len(document.annotations) == 40
     changed = document.annotations[7]
     assert written(edited, changed.claims[0].span) == "seesaw"
+
+
+def test_no_annotation_spans_two_lines_of_a_paragraph():
+    text = "Opened {ClF3:\nt-shaped} here, then {PH3: sp3}\nand {XeF4\n} again {SF4: seesaw}.\n"
+    assert groups(text) == ["{PH3: sp3}", "{SF4: seesaw}"]
+
+
+def test_a_long_paragraph_is_scanned_in_pieces_with_nothing_lost():
+    # Past 2,048 characters a paragraph is split between lines.  Here every other line break
+    # lies inside a code span, and a code span cut by a split still hides both its halves.
+    pairs = [(f"Run {n} {{ClF3: t-shaped}} then `{{SF4: linear}}", "{XeF4: tetrahedral}` and {BF3: sp2}.") for n in range(80)]
+    text = "\n".join(line for pair in pairs for line in pair) + "\n"
+    segments = markdown_structure(text).segments
+    assert len(segments) > 1
+    assert any(s.skips and s.skips[-1][1] == len(s.text) for s in segments[:-1])  # a split inside a span
+    assert groups(text) == ["{ClF3: t-shaped}", "{BF3: sp2}"] * 80
