@@ -14,7 +14,7 @@ from itertools import chain
 from operator import attrgetter
 
 from ..positions import lf_line_starts as line_starts  # Markdown lines end at LF here
-from .markdown_blocks import BONDING_INFO, Block, Segment, parse_blocks, parse_document
+from .markdown_blocks import BONDING_INFO, Block, Segment, line_numbering, parse_blocks
 from .model import Span
 
 __all__ = ["BONDING_INFO", "MarkdownStructure", "Segment", "forget_documents", "line_starts", "markdown_structure"]
@@ -53,11 +53,20 @@ _SEGMENTS, _BONDING = attrgetter("segments"), attrgetter("bonding")
 # unchanged text, started.
 
 
-@dataclass(frozen=True, slots=True)
 class _Parsed:
-    text: str
-    starts: tuple[int, ...]
-    blocks: tuple[Block, ...]
+    """A parsed document: its text, its blocks and, once an edit needs them, its line starts
+    (a full check does not: most of a note is parsed a block at a time, not a line)."""
+
+    __slots__ = ("text", "blocks", "_starts")
+
+    def __init__(self, text: str, blocks: tuple[Block, ...], starts: tuple[int, ...] | None = None) -> None:
+        self.text, self.blocks, self._starts = text, blocks, starts
+
+    @property
+    def starts(self) -> tuple[int, ...]:
+        if self._starts is None:  # two threads may both compute it: the same tuple either way
+            self._starts = tuple(line_numbering(self.text))
+        return self._starts
 
 
 _RECENT_LIMIT = 4  # documents remembered for incremental re-parsing (about one per open editor)
@@ -81,7 +90,7 @@ def _blocks_of(text: str) -> tuple[Block, ...]:
     for parsed in reversed(recent):
         if parsed.text == text:
             return parsed.blocks
-    blocks = None
+    blocks, starts = None, None
     # Reference definitions reach across blocks, and whether a '$$' line opens display math
     # depends on a closing line anywhere below it: with either, parse the whole text.  So
     # does a lone CR (the line numbering below counts LF only).
@@ -91,10 +100,9 @@ def _blocks_of(text: str) -> tuple[Block, ...]:
             starts = tuple(line_starts(text))
             blocks = _reparsed(previous, text, starts)
     if blocks is None:
-        line_numbering, blocks = parse_document(text)
-        starts = tuple(line_numbering)
+        blocks = parse_blocks(text)
     with _recent_lock:
-        _recent.append(_Parsed(text, starts, blocks))
+        _recent.append(_Parsed(text, blocks, starts))
         del _recent[:-_RECENT_LIMIT]
     return blocks
 

@@ -7,8 +7,10 @@ raw HTML or link reference definitions, and which are the content lines of a
 ```` ```bonding ```` fence.  Prose is grouped into inline runs (a paragraph,
 a heading, a table cell) whose skipped ranges come from
 :mod:`notelsp.notation.markdown_inline`; only runs holding a ``{`` are looked
-at closely.  Most lines of a note are plain paragraph text and take the fast
-path: one character test.
+at closely.  Most of a note is plain paragraphs, blank lines, ATX headings and
+code fences at top level: those are matched a whole block at a time by one
+regular expression, and only the rest is read line by line.  A paragraph's
+inline reading is remembered by its text.
 
 The output is a list of top-level blocks (first line, segments, bonding lines)
 so an edited document can be re-parsed around the edit only (see
@@ -20,8 +22,9 @@ from __future__ import annotations
 import re
 from bisect import bisect_left, bisect_right
 from dataclasses import dataclass
-from functools import lru_cache
+from functools import cached_property, lru_cache
 from itertools import accumulate
+from typing import NamedTuple
 
 from .markdown_inline import SKIP_START, Skip, inline_skips, normalise_label
 from .model import Span
@@ -29,11 +32,11 @@ from .model import Span
 BONDING_INFO = "bonding"
 
 
-@dataclass(frozen=True, slots=True)
-class Segment:
+class Segment(NamedTuple):
     """Inline text, with the ranges in it where annotations may not start.
 
     One line, or several whole lines of a paragraph (annotations never span a line break).
+    A named tuple: a note has thousands, made on every full parse.
     """
 
     start: int  # document offset of text[0]
@@ -41,9 +44,11 @@ class Segment:
     skips: tuple[tuple[int, int], ...] = ()  # half-open, relative to ``text``
 
 
-@dataclass(frozen=True, slots=True)
-class Block:
-    """One top-level block: its first line and what it contributes, in document offsets."""
+class Block(NamedTuple):
+    """One top-level block: its first line and what it contributes, in document offsets.
+
+    A named tuple, not a dataclass: a note has thousands of blocks, made on every full parse.
+    """
 
     first_line: int
     segments: tuple[Segment, ...]
@@ -60,10 +65,22 @@ class Block:
 
 
 _LINE_BREAK = re.compile(r"\r\n|\r|\n")
-# At top level, a line starting with none of these is paragraph text whatever comes before it.
-_SIGNIFICANT_FIRST = frozenset(" \t>-+*_#=`~$<|:[0123456789")
-# The line break before such a line (searching for a literal first character is fast).
-_SIGNIFICANT_BREAK = re.compile(r"\n(?=[ \t>\-+*_#=`~$<|:\[0-9\n]|\Z)")
+# The commonest top-level blocks, each matched whole from the start of a line (in a document
+# with LF line breaks, outside any container, while no leaf but a paragraph is open):
+#   plain:   lines that can only be paragraph text, whatever comes before them (none starts
+#            with a character that could begin another block);
+#   blank:   blank lines, which end a paragraph;
+#   heading: an unindented ATX heading;
+#   fence:   an unindented code fence, its content and its closing line.
+# A line holding "|" may be a table header, which comes first: such headings and fence
+# openings are left to the line-by-line path, as is everything else.
+_TOP_LEVEL_BLOCK = re.compile(
+    r"(?P<plain>(?:[^ \t>\-+*_#=`~$<|:\[0-9\n][^\n]*(?:\n|\Z))+)"
+    r"|(?P<blank>(?:[ \t]*\n)+|[ \t]*\Z)"
+    r"|(?P<heading>#{1,6}(?:[ \t][^|\n]*)?(?:\n|\Z))"
+    r"|(?P<fence>(?P<ticks>`{3,})(?P<info>[^`|\n]*)\n(?:[^\n]*\n)*? {0,3}(?P=ticks)`*[ \t]*(?:\n|\Z)"
+    r"|(?P<tildes>~{3,})(?P<tilde_info>[^|\n]*)\n(?:[^\n]*\n)*? {0,3}(?P=tildes)~*[ \t]*(?:\n|\Z))"
+)
 _ATX_HEADING = re.compile(r"(#{1,6})(?:[ \t]+|$)")
 _ATX_CLOSING = re.compile(r"(?:^|[ \t]+)#+[ \t]*$")
 _FENCE_OPEN = re.compile(r"(`{3,}|~{3,})(.*)")
@@ -240,6 +257,8 @@ class _Paragraph:
 
     first: int  # line range [first, stop) while ``lines`` is None
     stop: int
+    begin: int = 0  # and its text, ``document[begin:end]``
+    end: int = 0
     lines: list[tuple[int, str]] | None = None
 
     def explicit(self, parser: "_Parser") -> list[tuple[int, str]]:
@@ -281,7 +300,6 @@ _INDENTED = _Indented()
 class _Parser:
     def __init__(self, text: str) -> None:
         self.text = text
-        self.starts, self.lines = split_lines(text)
         self.references = _reference_labels(text)
         self.blocks: list[tuple[int, list[Segment], list[Span]]] = []
         self.tab_prefix: tuple[int, str] | None = None  # (line start, original prefix) while a line's prefix tabs are expanded
@@ -289,66 +307,102 @@ class _Parser:
         self.leaf: object | None = None
         self._math_closers: list[int] | None = None
 
+    # Each line's start and text: only the line-by-line path needs them, and a note made of
+    # plain paragraphs, headings and fences never takes it.
+    @cached_property
+    def _split(self) -> tuple[list[int], list[str]]:
+        return split_lines(self.text)
+
+    @property
+    def starts(self) -> list[int]:
+        return self._split[0]
+
+    @property
+    def lines(self) -> list[str]:
+        return self._split[1]
+
     def parse(self) -> tuple[Block, ...]:
-        lines, starts, count = self.lines, self.starts, len(self.lines)
-        jumps = "\r" not in self.text  # the line-start searches below see only LF line breaks
-        index = 0
+        text = self.text
+        whole_blocks = "\r" not in text  # the whole-block matches below know LF line breaks only
+        count = text.count("\n") + 1 if whole_blocks else len(self.lines)
+        index, offset = 0, 0  # the line being read, and its start while ``whole_blocks``
         while index < count:
             leaf = self.leaf
-            if jumps and not self.containers:
+            if whole_blocks and not self.containers:
                 if leaf is None or type(leaf) is _Paragraph:
-                    # Fast path: a run of top-level lines that can only be paragraph text.
-                    run_end = self._plain_run_end(index)
-                    if run_end > index:
-                        if leaf is None:
-                            self._begin_block(index)
-                            self.leaf = _Paragraph(index, run_end)
-                        elif leaf.lines is None and leaf.stop == index:
-                            leaf.stop = run_end
-                        else:
-                            leaf.explicit(self).extend(zip(starts[index:run_end], lines[index:run_end]))
-                        index = run_end
-                        continue
-                    if self._top_level_opening(index, lines[index]):
-                        index += 1
+                    taken = self._whole_blocks(index, offset, count)
+                    if taken[0] > index:
+                        index, offset = taken
                         continue
                 elif type(leaf) is _Fence:
                     index = self._fence_body(leaf, index)
+                    offset = self.starts[index] if index < count else len(text)
                     continue
-            self._line(index, lines[index], starts[index])
+            self._line(index, self.lines[index], self.starts[index])
             index += 1
+            if whole_blocks:
+                offset = self.starts[index] if index < count else len(text)
         self._close_leaf()
-        return tuple(Block(first, tuple(segments), tuple(bonding)) for first, segments, bonding in self.blocks)
+        return tuple([Block(first, tuple(segments), tuple(bonding)) for first, segments, bonding in self.blocks])
 
-    def _plain_run_end(self, index: int) -> int:
-        """The first line from ``index`` on that is not plain paragraph text (top level)."""
-        line = self.lines[index]
-        if not line or line[0] in _SIGNIFICANT_FIRST:
-            return index
-        found = _SIGNIFICANT_BREAK.search(self.text, self.starts[index])
-        return bisect_left(self.starts, found.end(), index) if found else len(self.lines)
+    def _whole_blocks(self, index: int, offset: int, count: int) -> tuple[int, int]:
+        """Take the blocks ``_TOP_LEVEL_BLOCK`` matches from line ``index`` (at ``offset``) on,
+        one after another; the first line it does not match, and its offset."""
+        text, match, blocks = self.text, _TOP_LEVEL_BLOCK.match, self.blocks
+        while index < count and (block := match(text, offset)) is not None:
+            end = block.end()
+            following = index + text.count("\n", offset, end)
+            if text.endswith("\n", offset, end):
+                last_end = end - 1  # the end of its last line
+            else:
+                last_end, following = end, following + 1  # a match without a final break ends the text
+            kind = block.lastgroup
+            leaf = self.leaf
+            if kind == "plain":
+                if leaf is None:
+                    blocks.append((index, [], []))
+                    self.leaf = _Paragraph(index, following, offset, last_end)
+                elif leaf.lines is None and leaf.stop == index:
+                    leaf.stop, leaf.end = following, last_end
+                else:
+                    lines = text[offset:last_end].split("\n")
+                    leaf.lines.extend(zip(accumulate([len(line) + 1 for line in lines[:-1]], initial=offset), lines))
+            else:
+                if leaf is not None:
+                    self._close_leaf()
+                if kind == "heading":
+                    blocks.append((index, [], []))
+                    line = text[offset:last_end]
+                    if "{" in line:
+                        self._emit_heading(line, offset, _ATX_HEADING.match(line))
+                elif kind == "fence":
+                    blocks.append((index, [], []))
+                    info = block.group("info") if block.group("ticks") else block.group("tilde_info")
+                    if info.split()[:1] == [BONDING_INFO]:
+                        self._whole_fence_content(offset, last_end)
+            index, offset = following, end
+        return index, offset
 
-    def _top_level_opening(self, index: int, line: str) -> bool:
-        """The commonest significant lines at top level, taken without the general path:
-        an unindented ATX heading or fence opening.  False: not one of those."""
-        first = line[:1]
-        if "|" in line:
-            return False  # perhaps a table header, which takes precedence: the general path looks ahead
-        if first == "#" and (heading := _ATX_HEADING.match(line)):
-            self._open_heading(index, line, self.starts[index], heading)
-            return True
-        if first in ("`", "~") and (fence := _fence_opening(line, 0)):
-            self._open_fence(index, fence, 0)
-            return True
-        return False
+    def _whole_fence_content(self, offset: int, last_end: int) -> None:
+        """The content lines of an unindented bonding fence matched whole, taken whole."""
+        text, bonding = self.text, self.blocks[-1][2]
+        content_start = text.index("\n", offset) + 1
+        closing_start = text.rindex("\n", offset, last_end) + 1
+        while content_start < closing_start:
+            line_end = text.index("\n", content_start)
+            bonding.append(Span(content_start, line_end))
+            content_start = line_end + 1
 
     def _open_heading(self, index: int, line: str, start: int, heading: re.Match[str]) -> None:
         self._close_leaf()
         self._begin_block(index)
         if "{" in line:
-            text = line[heading.end() :]
-            closing = _ATX_CLOSING.search(text)
-            self._emit_run([(start + heading.end(), text[: closing.start()] if closing else text)])
+            self._emit_heading(line, start, heading)
+
+    def _emit_heading(self, line: str, start: int, heading: re.Match[str]) -> None:
+        text = line[heading.end() :]
+        closing = _ATX_CLOSING.search(text)
+        self._emit_run([(start + heading.end(), text[: closing.start()] if closing else text)])
 
     def _open_fence(self, index: int, fence: re.Match[str], columns: int) -> None:
         self._close_leaf()
@@ -566,11 +620,11 @@ class _Parser:
             self._close_leaf()
             self._begin_block(index)
             if at == 0 and not self.containers:
-                self.leaf = _Paragraph(index, index + 1)
+                self.leaf = _Paragraph(index, index + 1, self.starts[index], self.starts[index] + len(self.lines[index]))
                 return
-            leaf = self.leaf = _Paragraph(index, index, [])
+            leaf = self.leaf = _Paragraph(index, index, lines=[])
         if leaf.lines is None and leaf.stop == index and at == 0 and not self.containers:
-            leaf.stop = index + 1
+            leaf.stop, leaf.end = index + 1, self.starts[index] + len(self.lines[index])
         else:
             leaf.explicit(self).append((start + at, line[at:]))
 
@@ -707,7 +761,7 @@ class _Parser:
         leaf = self.leaf
         if type(leaf) is _Paragraph:
             if leaf.lines is None:
-                self._emit_whole_lines(leaf.first, leaf.stop)
+                self._emit_whole_lines(leaf.begin, leaf.end)
             else:
                 self._emit_run(leaf.lines)
         self.leaf = None
@@ -762,28 +816,13 @@ class _Parser:
 
     # --- inline runs -----------------------------------------------------------
 
-    def _emit_whole_lines(self, first: int, stop: int) -> None:
-        """Segments of a paragraph made of whole lines ``[first, stop)``: its text is a slice of the
-        document, taken as one segment (or a few, split between lines, when it is long)."""
-        if first >= stop:
+    def _emit_whole_lines(self, begin: int, end: int) -> None:
+        """Segments of a paragraph made of whole lines, ``document[begin:end]``."""
+        if self.text.find("{", begin, end) == -1:
             return
-        starts, lines = self.starts, self.lines
-        base, end = starts[first], starts[stop - 1] + len(lines[stop - 1])
-        if self.text.find("{", base, end) == -1:
-            return
-        text = self.text[base:end]
-        skips = inline_skips(text, self.references) if SKIP_START.search(text) else ()
-        segments = self.blocks[-1][1]
-        if len(text) <= _SEGMENT_CHARS:
-            segments.append(Segment(base, text, skips))
-            return
-        ends = [end for _, end in skips]
-        while first < stop:  # pieces of whole lines, each holding a brace
-            limit = bisect_right(starts, starts[first] + _SEGMENT_CHARS, first + 1, stop)
-            begin, piece_end = starts[first] - base, starts[limit - 1] + len(lines[limit - 1]) - base
-            if text.find("{", begin, piece_end) != -1:
-                segments.append(Segment(starts[first], text[begin:piece_end], _share_of(skips, ends, begin, piece_end)))
-            first = limit
+        text = self.text[begin:end]
+        pieces = _paragraph_pieces(text, self.references) if len(text) <= _SEGMENT_CHARS else _pieces(text, self.references)
+        self.blocks[-1][1].extend([Segment(begin + offset, piece, skips) for offset, piece, skips in pieces])
 
     def _emit_run(self, lines: list[tuple[int, str]]) -> None:
         """Segments of one inline run (lines of a paragraph or one heading), with their skipped ranges."""
@@ -821,7 +860,33 @@ class _Parser:
         self.blocks[-1][1].append(Segment(offset, row, tuple(sorted(skips + pipes))))
 
 
-_SEGMENT_CHARS = 2048  # a longer paragraph is split between lines: its pieces are cached by their text
+_SEGMENT_CHARS = 2048  # a longer paragraph is split between lines (and not remembered whole)
+_PARAGRAPH_CACHE_SIZE = 8192  # about two large documents' worth of paragraphs
+
+
+def _pieces(text: str, references: frozenset[str]) -> tuple[tuple[int, str, tuple[Skip, ...]], ...]:
+    """(offset, text, skipped ranges) of the pieces of a paragraph's text that hold a brace:
+    the whole text when it is short, else runs of whole lines of about ``_SEGMENT_CHARS``."""
+    skips = inline_skips(text, references) if SKIP_START.search(text) else ()
+    if len(text) <= _SEGMENT_CHARS:
+        return ((0, text, skips),)
+    pieces, ends, piece = [], [stop for _, stop in skips], 0
+    while piece < len(text):
+        limit = text.rfind("\n", piece, piece + _SEGMENT_CHARS + 1)
+        if limit <= piece:  # one line longer than a piece
+            limit = text.find("\n", piece + _SEGMENT_CHARS)
+        if limit == -1:
+            limit = len(text)
+        if text.find("{", piece, limit) != -1:
+            pieces.append((piece, text[piece:limit], _share_of(skips, ends, piece, limit)))
+        piece = limit + 1
+    return tuple(pieces)
+
+
+# A paragraph's pieces depend on its text alone (and the document's link labels): after an
+# edit, or in a note met before, most paragraphs are found here.  Short ones only, so the
+# cache stays small whatever is typed.
+_paragraph_pieces = lru_cache(maxsize=_PARAGRAPH_CACHE_SIZE)(_pieces)
 _DEFINITION_LOOKAHEAD = 50  # lines a definition's destination and title may take
 _DEFINITION_SPACE = re.compile(r"[ \t]*\n?[ \t]*")
 _BARE_DESTINATION = re.compile(r"[^\s\x00-\x1f<]+")
@@ -862,7 +927,6 @@ def parse_blocks(text: str) -> tuple[Block, ...]:
     return _Parser(text).parse()
 
 
-def parse_document(text: str) -> tuple[list[int], tuple[Block, ...]]:
-    """Each line's start offset (the numbering of ``Block.first_line``) and the top-level blocks."""
-    parser = _Parser(text)
-    return parser.starts, parser.parse()
+def line_numbering(text: str) -> list[int]:
+    """Each line's start offset, as ``Block.first_line`` counts lines (CRLF, CR or LF breaks)."""
+    return split_lines(text)[0]

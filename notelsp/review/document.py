@@ -104,9 +104,17 @@ def review_text(text: str, kind: DocumentKind = "markdown", settings: Settings |
             if here is None:
                 here = placed[key] = tuple(_shift(finding, start) for finding in relative)
             findings.extend(here)
-    findings.extend(rules.whole_note_findings(text, reviewed, settings))
-    findings.sort(key=lambda f: (f.span.start, f.span.end, f.code))
+    # Each annotation's findings are sorted and lie inside it, and annotations neither overlap
+    # nor touch: in document order the findings are sorted already.
+    whole_note = rules.whole_note_findings(text, reviewed, settings)
+    if whole_note:
+        findings.extend(whole_note)
+        findings.sort(key=_ORDER)
     return DocumentReview(text, scanned, tuple(findings))
+
+
+def _ORDER(finding: Finding) -> tuple[int, int, str]:
+    return finding.span.start, finding.span.end, finding.code
 
 
 def _reviewed_length(text: str, limit: int) -> int:
@@ -149,10 +157,10 @@ def forget_cached_results() -> None:
 
     For tests and benchmarks that need a review computed afresh; species analyses keep their own cache.
     """
-    from ..notation import markdown, scanner, transform
+    from ..notation import markdown, markdown_blocks, scanner, transform
 
     _reviews.clear()
-    for cached in (transform.parse_body, scanner._inline_groups, scanner._block_body):
+    for cached in (transform.parse_body, scanner._inline_groups, scanner._block_body, markdown_blocks._paragraph_pieces):
         cached.cache_clear()
     markdown.forget_documents()
 
@@ -172,16 +180,20 @@ def _review_relative(annotation: Annotation, settings: Settings) -> tuple[Findin
         for rule in rules.rules_for(claim):
             if settings.enabled(rule.code):
                 found.extend(rule.check(rules.RuleContext(rule, annotation, claim, analyses, settings)))
-    return tuple(found)
+    return tuple(sorted(found, key=_ORDER))
 
 
 def _shift(finding: Finding, delta: int) -> Finding:
-    fixes = tuple(Fix(f.title, f.span.shifted(delta), f.replacement) for f in finding.fixes)
+    # Called for every finding of every annotation that moved: no generator, no empty tuple built.
+    fixes = finding.fixes
+    if fixes:
+        fixes = tuple([Fix(fix.title, Span(fix.span.start + delta, fix.span.end + delta), fix.replacement) for fix in fixes])
+    span = finding.span
     return Finding(
         finding.code,
         finding.severity,
         finding.message,
-        finding.span.shifted(delta),
+        Span(span.start + delta, span.end + delta),
         finding.formula,
         finding.claim,
         fixes,
