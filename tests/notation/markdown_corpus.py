@@ -323,6 +323,23 @@ HAND_WRITTEN: tuple[Case, ...] = _cases(
     # (GFM would start the HTML block first and find no table).
     ("table-header-before-html-block", "<!-- x --> {NH3: bent} |\n---\n"),
     ("list-item-line-is-not-a-table-header", "* | a |\n|---|---|\n    {NH3: bent}\n"),
+    # Top-level blocks read whole (paragraphs, blank lines, ATX headings, fences), at their edges.
+    ("whole-fence-info-with-pipe-is-table-header", "```a | b\n|---|---|\n{NH3: bent} | x\n```\n" + PROSE),
+    ("whole-heading-with-pipe-is-table-header", "# a | b\n|---|---|\n{NH3: bent} | x\n"),
+    ("whole-blank-lines-with-spaces-and-tabs", PROSE + "\n  \t\n\t\n    code {NH3: bent}\n"),
+    ("whole-hash-alone-is-heading", "#\n{NH3: bent}\n#\n"),
+    ("whole-seven-hashes-is-prose", "####### {NH3: bent}\n" + PROSE),
+    ("whole-heading-at-end-without-break", PROSE + "\n## {NH3: bent} ##"),
+    ("whole-fence-closed-at-end-without-break", PROSE + "\n```bonding\nNH3: bent\n```"),
+    ("whole-bonding-fence-empty", "```bonding\n```\n" + PROSE),
+    ("whole-bonding-fence-info-after-word", "~~~ bonding extra words\nNH3: bent\n  SF4: seesaw  # a comment\n~~~\n" + PROSE),
+    ("whole-bonding-word-prefix-is-code", "```bondings\nNH3: bent\n```\n" + PROSE),
+    ("whole-fence-opening-last-line", PROSE + "\n```bonding"),
+    ("whole-fence-unclosed-after-paragraph", PROSE + "\n~~~bonding\nNH3: bent\n\n{H2O: bent}\n"),
+    ("whole-paragraph-then-setext-underline", "{NH3: bent}\nmore\n---\n" + PROSE),
+    ("whole-paragraph-then-indented-line", "{NH3: bent}\n    {H2O: bent}\nplain {CH4}\n"),
+    ("whole-paragraph-lazy-after-list-line", "- item\n{NH3: bent} lazy\n\n" + PROSE),
+    ("whole-text-without-final-break", "## Run\n" + PROSE),
     # Tabs in nested containers (2.2: a tab advances to the next multiple of 4 columns).
     ("blank-item-tab-continuation-is-indented-code", "- \n\t  {NH3: bent}\n" + PROSE),
     ("blank-item-trailing-spaces-tab-continuation", "-     \n\t  {NH3: bent}\n" + PROSE),
