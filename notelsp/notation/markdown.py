@@ -14,7 +14,7 @@ from itertools import chain
 from operator import attrgetter
 
 from ..positions import lf_line_starts as line_starts  # Markdown lines end at LF here
-from .markdown_blocks import BONDING_INFO, Block, Segment, line_numbering, parse_blocks
+from .markdown_blocks import BONDING_INFO, ParsedBlocks, Segment, line_numbering, parse_blocks
 from .model import Span
 
 __all__ = ["BONDING_INFO", "MarkdownStructure", "Segment", "forget_documents", "line_starts", "markdown_structure"]
@@ -33,7 +33,7 @@ def markdown_structure(text: str) -> MarkdownStructure:
     """
     if "{" not in text and BONDING_INFO not in text:
         return MarkdownStructure((), ())
-    blocks = _blocks_of(text)
+    blocks = _blocks_of(text).blocks
     return MarkdownStructure(
         tuple(chain.from_iterable(map(_SEGMENTS, blocks))), tuple(chain.from_iterable(map(_BONDING, blocks)))
     )
@@ -57,10 +57,10 @@ class _Parsed:
     """A parsed document: its text, its blocks and, once an edit needs them, its line starts
     (a full check does not: most of a note is parsed a block at a time, not a line)."""
 
-    __slots__ = ("text", "blocks", "_starts")
+    __slots__ = ("text", "parsed", "_starts")
 
-    def __init__(self, text: str, blocks: tuple[Block, ...], starts: tuple[int, ...] | None = None) -> None:
-        self.text, self.blocks, self._starts = text, blocks, starts
+    def __init__(self, text: str, parsed: ParsedBlocks, starts: tuple[int, ...] | None = None) -> None:
+        self.text, self.parsed, self._starts = text, parsed, starts
 
     @property
     def starts(self) -> tuple[int, ...]:
@@ -84,13 +84,13 @@ def forget_documents() -> None:
         _recent.clear()
 
 
-def _blocks_of(text: str) -> tuple[Block, ...]:
+def _blocks_of(text: str) -> ParsedBlocks:
     with _recent_lock:
         recent = list(_recent)
-    for parsed in reversed(recent):
-        if parsed.text == text:
-            return parsed.blocks
-    blocks, starts = None, None
+    for remembered in reversed(recent):
+        if remembered.text == text:
+            return remembered.parsed
+    parsed, starts = None, None
     # Reference definitions reach across blocks, and whether a '$$' line opens display math
     # depends on a closing line anywhere below it: with either, parse the whole text.  So
     # does a lone CR (the line numbering below counts LF only).
@@ -98,13 +98,13 @@ def _blocks_of(text: str) -> tuple[Block, ...]:
         previous = _closest(recent, text)
         if previous is not None:
             starts = tuple(line_starts(text))
-            blocks = _reparsed(previous, text, starts)
-    if blocks is None:
-        blocks = parse_blocks(text)
+            parsed = _reparsed(previous, text, starts)
+    if parsed is None:
+        parsed = parse_blocks(text)
     with _recent_lock:
-        _recent.append(_Parsed(text, blocks, starts))
+        _recent.append(_Parsed(text, parsed, starts))
         del _recent[:-_RECENT_LIMIT]
-    return blocks
+    return parsed
 
 
 def _common_prefix(a: str, b: str) -> int:
@@ -144,40 +144,46 @@ def _closest(recent: list[_Parsed], text: str) -> tuple[_Parsed, int, int] | Non
     return best
 
 
-def _reparsed(previous: tuple[_Parsed, int, int], text: str, starts: tuple[int, ...]) -> tuple[Block, ...] | None:
+def _reparsed(previous: tuple[_Parsed, int, int], text: str, starts: tuple[int, ...]) -> ParsedBlocks | None:
     old, prefix, suffix = previous
-    blocks = old.blocks
-    if not blocks:
+    firsts, blocks = old.parsed
+    if not firsts:
         return None
     first_changed = bisect_right(old.starts, prefix) - 1
     # First old line whose preceding newline is in the unchanged tail, so it starts a line in both texts.
     unchanged_from = bisect_right(old.starts, len(old.text) - suffix)
     line_shift, char_shift = len(starts) - len(old.starts), len(text) - len(old.text)
-    firsts = [block.first_line for block in blocks]
     touched = bisect_right(firsts, first_changed) - 1
     keep = max(touched - _BACKED_UP_BLOCKS, 0)
-    window_first = blocks[keep].first_line if keep > 0 else 0
+    window_first = firsts[keep] if keep > 0 else 0
+    given_firsts = [block.first_line for block in blocks]  # only the blocks that contribute something
+    kept = blocks[: bisect_left(given_firsts, window_first)]
     resync = max(bisect_left(firsts, unchanged_from), touched + 1)
     while True:
-        if resync >= len(blocks):
+        if resync >= len(firsts):
             window_end = len(starts)
         else:
             end_block = resync + _MARGIN_BLOCKS
-            window_end = firsts[end_block] + line_shift if end_block < len(blocks) else len(starts)
+            window_end = firsts[end_block] + line_shift if end_block < len(firsts) else len(starts)
         fresh = _parse_window(text, starts, window_first, window_end)
-        if resync >= len(blocks):
-            return blocks[:keep] + fresh
+        if resync >= len(firsts):
+            return ParsedBlocks(firsts[:keep] + fresh.firsts, kept + fresh.blocks)
         target = firsts[resync] + line_shift
-        for index, block in enumerate(fresh):
-            if block.first_line == target:
-                moved = tuple(block.moved(line_shift, char_shift) for block in blocks[resync:])
-                return blocks[:keep] + fresh[:index] + moved
-        resync = len(blocks)  # the edit reaches further (say, an unclosed fence): parse to the end
+        at = bisect_left(fresh.firsts, target)
+        if at < len(fresh.firsts) and fresh.firsts[at] == target:
+            fresh_given = fresh.blocks[: bisect_left([block.first_line for block in fresh.blocks], target)]
+            later = blocks[bisect_left(given_firsts, firsts[resync]) :]
+            later_firsts = firsts[resync:] if line_shift == 0 else tuple(first + line_shift for first in firsts[resync:])
+            return ParsedBlocks(
+                firsts[:keep] + fresh.firsts[:at] + later_firsts,
+                kept + fresh_given + tuple(block.moved(line_shift, char_shift) for block in later),
+            )
+        resync = len(firsts)  # the edit reaches further (say, an unclosed fence): parse to the end
 
 
-def _parse_window(text: str, starts: tuple[int, ...], first: int, end: int) -> tuple[Block, ...]:
+def _parse_window(text: str, starts: tuple[int, ...], first: int, end: int) -> ParsedBlocks:
     """The blocks of lines [first, end) parsed on their own, placed in the document."""
     begin = starts[first] if first < len(starts) else len(text)
     stop = starts[end] if end < len(starts) else len(text)
-    window = text[begin:stop]
-    return tuple(block.moved(first, begin) for block in parse_blocks(window))
+    fresh = parse_blocks(text[begin:stop])
+    return ParsedBlocks(tuple(line + first for line in fresh.firsts), tuple(block.moved(first, begin) for block in fresh.blocks))

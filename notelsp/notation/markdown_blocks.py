@@ -45,7 +45,7 @@ class Segment(NamedTuple):
 
 
 class Block(NamedTuple):
-    """One top-level block: its first line and what it contributes, in document offsets.
+    """One top-level block that contributes something: its first line, and what, in document offsets.
 
     A named tuple, not a dataclass: a note has thousands of blocks, made on every full parse.
     """
@@ -62,6 +62,18 @@ class Block(NamedTuple):
             tuple(Segment(s.start + chars, s.text, s.skips) for s in self.segments),
             tuple(Span(b.start + chars, b.end + chars) for b in self.bonding),
         )
+
+
+class ParsedBlocks(NamedTuple):
+    """A document's top-level blocks: where each one starts, and those that contribute something.
+
+    Every block start is a place where parsing may begin afresh (see
+    :mod:`notelsp.notation.markdown`); most blocks contribute nothing (no brace, no bonding
+    line) and are kept as their first line only.
+    """
+
+    firsts: tuple[int, ...]  # the first line of every top-level block, in order
+    blocks: tuple[Block, ...]
 
 
 _LINE_BREAK = re.compile(r"\r\n|\r|\n")
@@ -301,7 +313,8 @@ class _Parser:
     def __init__(self, text: str) -> None:
         self.text = text
         self.references = _reference_labels(text)
-        self.blocks: list[tuple[int, list[Segment], list[Span]]] = []
+        self.firsts: list[int] = []  # the first line of every top-level block
+        self.blocks: list[tuple[int, list[Segment], list[Span]]] = []  # the blocks given something
         self.tab_prefix: tuple[int, str] | None = None  # (line start, original prefix) while a line's prefix tabs are expanded
         self.containers: list[_Container] = []
         self.leaf: object | None = None
@@ -321,7 +334,7 @@ class _Parser:
     def lines(self) -> list[str]:
         return self._split[1]
 
-    def parse(self) -> tuple[Block, ...]:
+    def parse(self) -> ParsedBlocks:
         text = self.text
         whole_blocks = "\r" not in text  # the whole-block matches below know LF line breaks only
         count = text.count("\n") + 1 if whole_blocks else len(self.lines)
@@ -343,49 +356,63 @@ class _Parser:
             if whole_blocks:
                 offset = self.starts[index] if index < count else len(text)
         self._close_leaf()
-        return tuple([Block(first, tuple(segments), tuple(bonding)) for first, segments, bonding in self.blocks])
+        blocks = tuple([Block(first, tuple(segments), tuple(bonding)) for first, segments, bonding in self.blocks])
+        return ParsedBlocks(tuple(self.firsts), blocks)
 
     def _whole_blocks(self, index: int, offset: int, count: int) -> tuple[int, int]:
         """Take the blocks ``_TOP_LEVEL_BLOCK`` matches from line ``index`` (at ``offset``) on,
         one after another; the first line it does not match, and its offset."""
-        text, match, blocks = self.text, _TOP_LEVEL_BLOCK.match, self.blocks
+        text, match, firsts = self.text, _TOP_LEVEL_BLOCK.match, self.firsts
+        # An open paragraph of whole lines is kept in locals here: lines [first, stop) and
+        # text [begin, end); begin is -1 while none is open.
+        begin = -1
+        leaf = self.leaf
+        if type(leaf) is _Paragraph and leaf.lines is None:
+            first, stop, begin, end = leaf.first, leaf.stop, leaf.begin, leaf.end
+            self.leaf = None
         while index < count and (block := match(text, offset)) is not None:
-            end = block.end()
-            following = index + text.count("\n", offset, end)
-            if text.endswith("\n", offset, end):
-                last_end = end - 1  # the end of its last line
+            block_end = block.end()
+            following = index + text.count("\n", offset, block_end)
+            if text.endswith("\n", offset, block_end):
+                last_end = block_end - 1  # the end of its last line
             else:
-                last_end, following = end, following + 1  # a match without a final break ends the text
+                last_end, following = block_end, following + 1  # a match without a final break ends the text
             kind = block.lastgroup
-            leaf = self.leaf
             if kind == "plain":
-                if leaf is None:
-                    blocks.append((index, [], []))
-                    self.leaf = _Paragraph(index, following, offset, last_end)
-                elif leaf.lines is None and leaf.stop == index:
-                    leaf.stop, leaf.end = following, last_end
-                else:
+                if self.leaf is not None:  # a paragraph with lines in a container or indented goes on
                     lines = text[offset:last_end].split("\n")
-                    leaf.lines.extend(zip(accumulate([len(line) + 1 for line in lines[:-1]], initial=offset), lines))
+                    self.leaf.lines.extend(zip(accumulate([len(line) + 1 for line in lines[:-1]], initial=offset), lines))
+                elif begin >= 0:
+                    stop, end = following, last_end
+                else:
+                    firsts.append(index)
+                    first, stop, begin, end = index, following, offset, last_end
             else:
-                if leaf is not None:
+                if begin >= 0:
+                    self._emit_whole_lines(begin, end)
+                    begin = -1
+                elif self.leaf is not None:
                     self._close_leaf()
                 if kind == "heading":
-                    blocks.append((index, [], []))
+                    firsts.append(index)
                     line = text[offset:last_end]
                     if "{" in line:
                         self._emit_heading(line, offset, _ATX_HEADING.match(line))
                 elif kind == "fence":
-                    blocks.append((index, [], []))
-                    info = block.group("info") if block.group("ticks") else block.group("tilde_info")
-                    if info.split()[:1] == [BONDING_INFO]:
+                    firsts.append(index)
+                    info = block.group("info")
+                    if info is None:
+                        info = block.group("tilde_info")
+                    if BONDING_INFO in info and info.split()[:1] == [BONDING_INFO]:
                         self._whole_fence_content(offset, last_end)
-            index, offset = following, end
+            index, offset = following, block_end
+        if begin >= 0:
+            self.leaf = _Paragraph(first, stop, begin, end)
         return index, offset
 
     def _whole_fence_content(self, offset: int, last_end: int) -> None:
         """The content lines of an unindented bonding fence matched whole, taken whole."""
-        text, bonding = self.text, self.blocks[-1][2]
+        text, bonding = self.text, self._given()[2]
         content_start = text.index("\n", offset) + 1
         closing_start = text.rindex("\n", offset, last_end) + 1
         while content_start < closing_start:
@@ -415,7 +442,7 @@ class _Parser:
         closing = _fence_closer(fence.character, fence.length).search(self.text, self.starts[index])
         stop = bisect_left(self.starts, closing.start(), index) if closing else len(self.lines)
         if fence.bonding:
-            bonding = self.blocks[-1][2]
+            bonding = self._given()[2]
             for number in range(index, stop):
                 line, start = self.lines[number], self.starts[number]
                 content = _advance(line, 0, fence.indent) if fence.indent else 0
@@ -641,7 +668,7 @@ class _Parser:
                 return
         if fence.bonding:
             content = _advance(line, position, fence.indent)
-            self.blocks[-1][2].append(Span(self._document_offset(start, content), start + len(line)))
+            self._given()[2].append(Span(self._document_offset(start, content), start + len(line)))
 
     def _math_block(self, index: int, line: str, at: int) -> bool:
         """Open (or take whole) a ``$$`` display-math block; False when the line is not one."""
@@ -768,7 +795,14 @@ class _Parser:
 
     def _begin_block(self, index: int) -> None:
         if not self.containers:
-            self.blocks.append((index, [], []))
+            self.firsts.append(index)
+
+    def _given(self) -> tuple[int, list[Segment], list[Span]]:
+        """The segments and bonding lines of the current top-level block, to add to."""
+        first = self.firsts[-1]
+        if not self.blocks or self.blocks[-1][0] != first:
+            self.blocks.append((first, [], []))
+        return self.blocks[-1]
 
     def _content(self, line: str, start: int, position: int) -> tuple[int, str]:
         at = _indent(line, position)[1]
@@ -822,14 +856,14 @@ class _Parser:
             return
         text = self.text[begin:end]
         pieces = _paragraph_pieces(text, self.references) if len(text) <= _SEGMENT_CHARS else _pieces(text, self.references)
-        self.blocks[-1][1].extend([Segment(begin + offset, piece, skips) for offset, piece, skips in pieces])
+        self._given()[1].extend([Segment(begin + offset, piece, skips) for offset, piece, skips in pieces])
 
     def _emit_run(self, lines: list[tuple[int, str]]) -> None:
         """Segments of one inline run (lines of a paragraph or one heading), with their skipped ranges."""
-        segments = self.blocks[-1][1]
         braced = [number for number, (_, text) in enumerate(lines) if "{" in text]
         if not braced:
             return
+        segments = self._given()[1]
         joined = lines[0][1] if len(lines) == 1 else "\n".join([text for _, text in lines])
         skips = inline_skips(joined, self.references) if SKIP_START.search(joined) else ()
         if not skips:
@@ -857,7 +891,7 @@ class _Parser:
             if "{" in cell and SKIP_START.search(cell):
                 skips.extend((start + a, start + b) for a, b in inline_skips(cell, self.references))
         pipes = [(end, end + 1) for _, end in cells[:-1]]  # the pipes between cells: no annotation spans one
-        self.blocks[-1][1].append(Segment(offset, row, tuple(sorted(skips + pipes))))
+        self._given()[1].append(Segment(offset, row, tuple(sorted(skips + pipes))))
 
 
 _SEGMENT_CHARS = 2048  # a longer paragraph is split between lines (and not remembered whole)
@@ -922,7 +956,7 @@ def _reference_labels(text: str) -> frozenset[str]:
     )
 
 
-def parse_blocks(text: str) -> tuple[Block, ...]:
+def parse_blocks(text: str) -> ParsedBlocks:
     """The top-level blocks of a Markdown document."""
     return _Parser(text).parse()
 

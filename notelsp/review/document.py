@@ -16,7 +16,7 @@ from typing import Any, Literal
 from ..notation import scan
 from ..notation.model import Annotation, Found, ScannedDocument, Span, annotation_of
 from ..positions import LineIndex
-from .findings import Finding, Fix
+from .findings import Finding
 from .settings import Settings
 
 DocumentKind = Literal["markdown", "text"]
@@ -102,7 +102,7 @@ def review_text(text: str, kind: DocumentKind = "markdown", settings: Settings |
             key = (source, form, start)
             here = placed.get(key)
             if here is None:
-                here = placed[key] = tuple(_shift(finding, start) for finding in relative)
+                here = placed[key] = tuple([finding.shifted(start) for finding in relative])
             findings.extend(here)
     # Each annotation's findings are sorted and lie inside it, and annotations neither overlap
     # nor touch: in document order the findings are sorted already.
@@ -181,20 +181,3 @@ def _review_relative(annotation: Annotation, settings: Settings) -> tuple[Findin
             if settings.enabled(rule.code):
                 found.extend(rule.check(rules.RuleContext(rule, annotation, claim, analyses, settings)))
     return tuple(sorted(found, key=_ORDER))
-
-
-def _shift(finding: Finding, delta: int) -> Finding:
-    # Called for every finding of every annotation that moved: no generator, no empty tuple built.
-    fixes = finding.fixes
-    if fixes:
-        fixes = tuple([Fix(fix.title, Span(fix.span.start + delta, fix.span.end + delta), fix.replacement) for fix in fixes])
-    span = finding.span
-    return Finding(
-        finding.code,
-        finding.severity,
-        finding.message,
-        Span(span.start + delta, span.end + delta),
-        finding.formula,
-        finding.claim,
-        fixes,
-    )

@@ -28,7 +28,6 @@ from __future__ import annotations
 import asyncio
 import itertools
 import logging
-from dataclasses import replace
 from typing import TYPE_CHECKING, Any
 
 from lsprotocol import types
@@ -127,17 +126,15 @@ def computed_findings(ls: NoteServer, held: HeldDocument) -> list[Finding]:
     findings = []
     for annotation in held.review.annotations:
         relative = kept.get(held.text[annotation.span.start : annotation.span.end])
-        findings += [_shifted(finding, annotation.span.start) for finding in relative or ()]
+        findings += [finding.shifted(annotation.span.start) for finding in relative or ()]
     return findings
 
 
-def _shifted(finding: Finding, delta: int) -> Finding:
-    return replace(finding, span=finding.span.shifted(delta))
 
 
 def _keep_findings(ls: NoteServer, held: HeldDocument, annotation: Annotation, findings: tuple[Finding, ...]) -> None:
     source = held.text[annotation.span.start : annotation.span.end]
-    _computed(ls).setdefault(held.uri, {})[source] = tuple(_shifted(f, -annotation.span.start) for f in findings)
+    _computed(ls).setdefault(held.uri, {})[source] = tuple(f.shifted(-annotation.span.start) for f in findings)
 
 
 def _publish(ls: NoteServer, uri: str) -> None:

@@ -50,7 +50,7 @@ documents = st.lists(st.sampled_from(LINES), min_size=0, max_size=40)
 
 
 def _whole(text):
-    blocks = parse_blocks(text)
+    blocks = parse_blocks(text).blocks
     return (
         tuple(s for b in blocks for s in b.segments),
         tuple(span for b in blocks for span in b.bonding),
