@@ -94,7 +94,8 @@ def _blocks_of(text: str) -> ParsedBlocks:
     # Reference definitions reach across blocks, and whether a '$$' line opens display math
     # depends on a closing line anywhere below it: with either, parse the whole text.  So
     # does a lone CR (the line numbering below counts LF only).
-    if "]:" not in text and "$$" not in text and ("\r" not in text or text.count("\r") == text.count("\r\n")):
+    # Each test reads the whole text: only made when there is an earlier version to compare with.
+    if recent and not _may_define_or_open_math(text) and ("\r" not in text or text.count("\r") == text.count("\r\n")):
         previous = _closest(recent, text)
         if previous is not None:
             starts = tuple(line_starts(text))
@@ -105,6 +106,12 @@ def _blocks_of(text: str) -> ParsedBlocks:
         _recent.append(_Parsed(text, parsed, starts))
         del _recent[:-_RECENT_LIMIT]
     return parsed
+
+
+def _may_define_or_open_math(text: str) -> bool:
+    """Whether ``text`` may hold a link reference definition ("]:") or a "$$" line."""
+    # One character is searched for many times faster than two.
+    return ("]" in text and "]:" in text) or ("$" in text and "$$" in text)
 
 
 def _common_prefix(a: str, b: str) -> int:

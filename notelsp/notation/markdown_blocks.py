@@ -947,7 +947,7 @@ def _share_of(skips: tuple[Skip, ...], ends: list[int], begin: int, end: int) ->
 
 
 def _reference_labels(text: str) -> frozenset[str]:
-    if "]:" not in text:
+    if "]" not in text or "]:" not in text:  # one character is found many times faster than two
         return frozenset()
     return frozenset(
         normalise_label(match.group(1))

@@ -36,10 +36,12 @@ class Finding(NamedTuple):
 
     def shifted(self, delta: int) -> "Finding":
         """The same finding ``delta`` characters further on, its fixes with it."""
-        fixes = self.fixes
-        if fixes:
-            fixes = tuple([Fix(fix.title, Span(fix.span.start + delta, fix.span.end + delta), fix.replacement) for fix in fixes])
         span = self.span
-        return Finding(
-            self.code, self.severity, self.message, Span(span.start + delta, span.end + delta), self.formula, self.claim, fixes
-        )
+        moved = Span(span.start + delta, span.end + delta)
+        fixes = self.fixes
+        if fixes:  # a fix usually replaces just what the finding points at: the same Span, moved once
+            fixes = tuple([
+                Fix(fix.title, moved if fix.span is span else Span(fix.span.start + delta, fix.span.end + delta), fix.replacement)
+                for fix in fixes
+            ])
+        return Finding(self.code, self.severity, self.message, moved, self.formula, self.claim, fixes)
