@@ -14,7 +14,7 @@ from itertools import chain
 from operator import attrgetter
 
 from ..positions import lf_line_starts as line_starts  # Markdown lines end at LF here
-from .markdown_blocks import BONDING_INFO, ParsedBlocks, Segment, line_numbering, parse_blocks
+from .markdown_blocks import BONDING_INFO, ParsedBlocks, Segment, parse_blocks
 from .model import Span
 
 __all__ = ["BONDING_INFO", "MarkdownStructure", "Segment", "forget_documents", "line_starts", "markdown_structure"]
@@ -53,20 +53,10 @@ _SEGMENTS, _BONDING = attrgetter("segments"), attrgetter("bonding")
 # unchanged text, started.
 
 
+@dataclass(frozen=True, slots=True)
 class _Parsed:
-    """A parsed document: its text, its blocks and, once an edit needs them, its line starts
-    (a full check does not: most of a note is parsed a block at a time, not a line)."""
-
-    __slots__ = ("text", "parsed", "_starts")
-
-    def __init__(self, text: str, parsed: ParsedBlocks, starts: tuple[int, ...] | None = None) -> None:
-        self.text, self.parsed, self._starts = text, parsed, starts
-
-    @property
-    def starts(self) -> tuple[int, ...]:
-        if self._starts is None:  # two threads may both compute it: the same tuple either way
-            self._starts = tuple(line_numbering(self.text))
-        return self._starts
+    text: str
+    parsed: ParsedBlocks
 
 
 _RECENT_LIMIT = 4  # documents remembered for incremental re-parsing (about one per open editor)
@@ -90,20 +80,19 @@ def _blocks_of(text: str) -> ParsedBlocks:
     for remembered in reversed(recent):
         if remembered.text == text:
             return remembered.parsed
-    parsed, starts = None, None
+    parsed = None
     # Reference definitions reach across blocks, and whether a '$$' line opens display math
     # depends on a closing line anywhere below it: with either, parse the whole text.  So
-    # does a lone CR (the line numbering below counts LF only).
+    # does a lone CR, a line break too rare in notes to be worth re-parsing around.
     # Each test reads the whole text: only made when there is an earlier version to compare with.
     if recent and not _may_define_or_open_math(text) and ("\r" not in text or text.count("\r") == text.count("\r\n")):
         previous = _closest(recent, text)
         if previous is not None:
-            starts = tuple(line_starts(text))
-            parsed = _reparsed(previous, text, starts)
+            parsed = _reparsed(previous, text)
     if parsed is None:
         parsed = parse_blocks(text)
     with _recent_lock:
-        _recent.append(_Parsed(text, parsed, starts))
+        _recent.append(_Parsed(text, parsed))
         del _recent[:-_RECENT_LIMIT]
     return parsed
 
@@ -151,46 +140,48 @@ def _closest(recent: list[_Parsed], text: str) -> tuple[_Parsed, int, int] | Non
     return best
 
 
-def _reparsed(previous: tuple[_Parsed, int, int], text: str, starts: tuple[int, ...]) -> ParsedBlocks | None:
+def _reparsed(previous: tuple[_Parsed, int, int], text: str) -> ParsedBlocks | None:
+    """The blocks of ``text``, an edit of a remembered document, re-parsed around the edit.
+
+    All in character offsets: blocks start at line starts, so the block holding the first
+    changed character is the last one starting at or before it.
+    """
     old, prefix, suffix = previous
-    firsts, blocks = old.parsed
-    if not firsts:
+    starts, blocks = old.parsed
+    if not starts:
         return None
-    first_changed = bisect_right(old.starts, prefix) - 1
-    # First old line whose preceding newline is in the unchanged tail, so it starts a line in both texts.
-    unchanged_from = bisect_right(old.starts, len(old.text) - suffix)
-    line_shift, char_shift = len(starts) - len(old.starts), len(text) - len(old.text)
-    touched = bisect_right(firsts, first_changed) - 1
+    shift = len(text) - len(old.text)
+    touched = bisect_right(starts, prefix) - 1
     keep = max(touched - _BACKED_UP_BLOCKS, 0)
-    window_first = firsts[keep] if keep > 0 else 0
-    given_firsts = [block.first_line for block in blocks]  # only the blocks that contribute something
-    kept = blocks[: bisect_left(given_firsts, window_first)]
-    resync = max(bisect_left(firsts, unchanged_from), touched + 1)
+    window_first = starts[keep] if keep > 0 else 0
+    given_starts = [block.start for block in blocks]  # only the blocks that contribute something
+    kept = blocks[: bisect_left(given_starts, window_first)]
+    # Blocks starting after the first unchanged character: their line break is unchanged, so
+    # they start a line in both texts.
+    resync = max(bisect_right(starts, len(old.text) - suffix), touched + 1)
     while True:
-        if resync >= len(firsts):
-            window_end = len(starts)
+        if resync >= len(starts):
+            window_end = len(text)
         else:
             end_block = resync + _MARGIN_BLOCKS
-            window_end = firsts[end_block] + line_shift if end_block < len(firsts) else len(starts)
-        fresh = _parse_window(text, starts, window_first, window_end)
-        if resync >= len(firsts):
-            return ParsedBlocks(firsts[:keep] + fresh.firsts, kept + fresh.blocks)
-        target = firsts[resync] + line_shift
-        at = bisect_left(fresh.firsts, target)
-        if at < len(fresh.firsts) and fresh.firsts[at] == target:
-            fresh_given = fresh.blocks[: bisect_left([block.first_line for block in fresh.blocks], target)]
-            later = blocks[bisect_left(given_firsts, firsts[resync]) :]
-            later_firsts = firsts[resync:] if line_shift == 0 else tuple(first + line_shift for first in firsts[resync:])
+            window_end = starts[end_block] + shift if end_block < len(starts) else len(text)
+        fresh = _parse_window(text, window_first, window_end)
+        if resync >= len(starts):
+            return ParsedBlocks(starts[:keep] + fresh.starts, kept + fresh.blocks)
+        target = starts[resync] + shift
+        at = bisect_left(fresh.starts, target)
+        if at < len(fresh.starts) and fresh.starts[at] == target:
+            fresh_given = fresh.blocks[: bisect_left([block.start for block in fresh.blocks], target)]
+            later = blocks[bisect_left(given_starts, starts[resync]) :]
+            later_starts = starts[resync:] if shift == 0 else tuple(start + shift for start in starts[resync:])
             return ParsedBlocks(
-                firsts[:keep] + fresh.firsts[:at] + later_firsts,
-                kept + fresh_given + tuple(block.moved(line_shift, char_shift) for block in later),
+                starts[:keep] + fresh.starts[:at] + later_starts,
+                kept + fresh_given + tuple(block.moved(shift) for block in later),
             )
-        resync = len(firsts)  # the edit reaches further (say, an unclosed fence): parse to the end
+        resync = len(starts)  # the edit reaches further (say, an unclosed fence): parse to the end
 
 
-def _parse_window(text: str, starts: tuple[int, ...], first: int, end: int) -> ParsedBlocks:
-    """The blocks of lines [first, end) parsed on their own, placed in the document."""
-    begin = starts[first] if first < len(starts) else len(text)
-    stop = starts[end] if end < len(starts) else len(text)
+def _parse_window(text: str, begin: int, stop: int) -> ParsedBlocks:
+    """The blocks of ``text[begin:stop]`` (whole lines) parsed on their own, placed in the document."""
     fresh = parse_blocks(text[begin:stop])
-    return ParsedBlocks(tuple(line + first for line in fresh.firsts), tuple(block.moved(first, begin) for block in fresh.blocks))
+    return ParsedBlocks(tuple(start + begin for start in fresh.starts), tuple(block.moved(begin) for block in fresh.blocks))

@@ -12,7 +12,7 @@ code fences at top level: those are matched a whole block at a time by one
 regular expression, and only the rest is read line by line.  A paragraph's
 inline reading is remembered by its text.
 
-The output is a list of top-level blocks (first line, segments, bonding lines)
+The output is a list of top-level blocks (first offset, segments, bonding lines)
 so an edited document can be re-parsed around the edit only (see
 :mod:`notelsp.notation.markdown`).
 """
@@ -45,20 +45,20 @@ class Segment(NamedTuple):
 
 
 class Block(NamedTuple):
-    """One top-level block that contributes something: its first line, and what, in document offsets.
+    """One top-level block that contributes something: where it starts, and what, in document offsets.
 
     A named tuple, not a dataclass: a note has thousands of blocks, made on every full parse.
     """
 
-    first_line: int
+    start: int  # the offset of its first line
     segments: tuple[Segment, ...]
     bonding: tuple[Span, ...]  # content lines of ```bonding fences
 
-    def moved(self, lines: int, chars: int) -> "Block":
-        if lines == 0 and chars == 0:
+    def moved(self, chars: int) -> "Block":
+        if chars == 0:
             return self
         return Block(
-            self.first_line + lines,
+            self.start + chars,
             tuple(Segment(s.start + chars, s.text, s.skips) for s in self.segments),
             tuple(Span(b.start + chars, b.end + chars) for b in self.bonding),
         )
@@ -69,10 +69,10 @@ class ParsedBlocks(NamedTuple):
 
     Every block start is a place where parsing may begin afresh (see
     :mod:`notelsp.notation.markdown`); most blocks contribute nothing (no brace, no bonding
-    line) and are kept as their first line only.
+    line) and are kept as where they start only.
     """
 
-    firsts: tuple[int, ...]  # the first line of every top-level block, in order
+    starts: tuple[int, ...]  # the offset of every top-level block's first line, in order
     blocks: tuple[Block, ...]
 
 
@@ -267,16 +267,25 @@ class _Paragraph:
     their range is kept; the first line that is not (indented, in a container) makes the
     list of (document offset, text) explicit."""
 
-    first: int  # line range [first, stop) while ``lines`` is None
-    stop: int
-    begin: int = 0  # and its text, ``document[begin:end]``
-    end: int = 0
+    begin: int  # its text, ``document[begin:end]``, while ``lines`` is None
+    end: int
+    follows: int  # where the line after its last one starts
     lines: list[tuple[int, str]] | None = None
 
     def explicit(self, parser: "_Parser") -> list[tuple[int, str]]:
         if self.lines is None:
-            self.lines = list(zip(parser.starts[self.first : self.stop], parser.lines[self.first : self.stop]))
+            self.lines = _lines_of(parser.text, self.begin, self.end)
         return self.lines
+
+
+def _lines_of(text: str, begin: int, end: int) -> list[tuple[int, str]]:
+    """(offset, text) of each line of ``text[begin:end]``, a run of whole lines."""
+    lines, offset = [], begin
+    for line_break in _LINE_BREAK.finditer(text, begin, end):
+        lines.append((offset, text[offset : line_break.start()]))
+        offset = line_break.end()
+    lines.append((offset, text[offset:end]))
+    return lines
 
 
 @dataclass(slots=True)
@@ -313,7 +322,7 @@ class _Parser:
     def __init__(self, text: str) -> None:
         self.text = text
         self.references = _reference_labels(text)
-        self.firsts: list[int] = []  # the first line of every top-level block
+        self.block_starts: list[int] = []  # the offset of every top-level block's first line
         self.blocks: list[tuple[int, list[Segment], list[Span]]] = []  # the blocks given something
         self.tab_prefix: tuple[int, str] | None = None  # (line start, original prefix) while a line's prefix tabs are expanded
         self.containers: list[_Container] = []
@@ -337,56 +346,63 @@ class _Parser:
     def parse(self) -> ParsedBlocks:
         text = self.text
         whole_blocks = "\r" not in text  # the whole-block matches below know LF line breaks only
-        count = text.count("\n") + 1 if whole_blocks else len(self.lines)
-        index, offset = 0, 0  # the line being read, and its start while ``whole_blocks``
-        while index < count:
-            leaf = self.leaf
+        # The line being read, and while ``whole_blocks`` its offset.  Reading whole blocks
+        # counts no lines: the index is found again (None until then) when a line is read alone.
+        index: int | None = None
+        offset = 0
+        while True:
+            if index is not None and index >= len(self.lines):
+                break
             if whole_blocks and not self.containers:
+                leaf = self.leaf
                 if leaf is None or type(leaf) is _Paragraph:
-                    taken = self._whole_blocks(index, offset, count)
-                    if taken[0] > index:
-                        index, offset = taken
-                        continue
+                    offset = self._whole_blocks(offset)
+                    if offset is None:
+                        break  # the text is taken to its end
+                    index = None
                 elif type(leaf) is _Fence:
-                    index = self._fence_body(leaf, index)
-                    offset = self.starts[index] if index < count else len(text)
+                    index = self._fence_body(leaf, bisect_left(self.starts, offset) if index is None else index)
+                    if index >= len(self.lines):
+                        break
+                    offset = self.starts[index]
                     continue
+            if index is None:
+                index = bisect_left(self.starts, offset)
+                if index >= len(self.lines):
+                    break
             self._line(index, self.lines[index], self.starts[index])
             index += 1
-            if whole_blocks:
-                offset = self.starts[index] if index < count else len(text)
+            if whole_blocks and index < len(self.lines):
+                offset = self.starts[index]
         self._close_leaf()
-        blocks = tuple([Block(first, tuple(segments), tuple(bonding)) for first, segments, bonding in self.blocks])
-        return ParsedBlocks(tuple(self.firsts), blocks)
+        blocks = tuple([Block(start, tuple(segments), tuple(bonding)) for start, segments, bonding in self.blocks])
+        return ParsedBlocks(tuple(self.block_starts), blocks)
 
-    def _whole_blocks(self, index: int, offset: int, count: int) -> tuple[int, int]:
-        """Take the blocks ``_TOP_LEVEL_BLOCK`` matches from line ``index`` (at ``offset``) on,
-        one after another; the first line it does not match, and its offset."""
-        text, match, firsts = self.text, _TOP_LEVEL_BLOCK.match, self.firsts
-        # An open paragraph of whole lines is kept in locals here: lines [first, stop) and
-        # text [begin, end); begin is -1 while none is open.
-        begin = -1
+    def _whole_blocks(self, offset: int) -> int | None:
+        """Take the blocks ``_TOP_LEVEL_BLOCK`` matches from the line at ``offset`` on, one after
+        another; the offset of the first line it does not match (None: the text is taken)."""
+        text, match, block_starts = self.text, _TOP_LEVEL_BLOCK.match, self.block_starts
+        # An open paragraph of whole lines is kept in locals here: text [begin, end), the next
+        # line at ``follows``; begin is -1 while none is open.
+        begin, ended = -1, False
         leaf = self.leaf
         if type(leaf) is _Paragraph and leaf.lines is None:
-            first, stop, begin, end = leaf.first, leaf.stop, leaf.begin, leaf.end
+            begin, end = leaf.begin, leaf.end
             self.leaf = None
-        while index < count and (block := match(text, offset)) is not None:
+        while (block := match(text, offset)) is not None:
             block_end = block.end()
-            following = index + text.count("\n", offset, block_end)
-            if text.endswith("\n", offset, block_end):
-                last_end = block_end - 1  # the end of its last line
-            else:
-                last_end, following = block_end, following + 1  # a match without a final break ends the text
+            # Every block matched ends with a line break or at the end of the text.
+            ended = not text.endswith("\n", offset, block_end)
+            last_end = block_end if ended else block_end - 1  # the end of its last line
             kind = block.lastgroup
             if kind == "plain":
                 if self.leaf is not None:  # a paragraph with lines in a container or indented goes on
-                    lines = text[offset:last_end].split("\n")
-                    self.leaf.lines.extend(zip(accumulate([len(line) + 1 for line in lines[:-1]], initial=offset), lines))
+                    self.leaf.lines.extend(_lines_of(text, offset, last_end))
                 elif begin >= 0:
-                    stop, end = following, last_end
+                    end = last_end
                 else:
-                    firsts.append(index)
-                    first, stop, begin, end = index, following, offset, last_end
+                    block_starts.append(offset)
+                    begin, end = offset, last_end
             else:
                 if begin >= 0:
                     self._emit_whole_lines(begin, end)
@@ -394,21 +410,23 @@ class _Parser:
                 elif self.leaf is not None:
                     self._close_leaf()
                 if kind == "heading":
-                    firsts.append(index)
+                    block_starts.append(offset)
                     line = text[offset:last_end]
                     if "{" in line:
                         self._emit_heading(line, offset, _ATX_HEADING.match(line))
                 elif kind == "fence":
-                    firsts.append(index)
+                    block_starts.append(offset)
                     info = block.group("info")
                     if info is None:
                         info = block.group("tilde_info")
                     if BONDING_INFO in info and info.split()[:1] == [BONDING_INFO]:
                         self._whole_fence_content(offset, last_end)
-            index, offset = following, block_end
+            offset = block_end
+            if ended:
+                break
         if begin >= 0:
-            self.leaf = _Paragraph(first, stop, begin, end)
-        return index, offset
+            self.leaf = _Paragraph(begin, end, offset)
+        return None if ended else offset
 
     def _whole_fence_content(self, offset: int, last_end: int) -> None:
         """The content lines of an unindented bonding fence matched whole, taken whole."""
@@ -647,11 +665,11 @@ class _Parser:
             self._close_leaf()
             self._begin_block(index)
             if at == 0 and not self.containers:
-                self.leaf = _Paragraph(index, index + 1, self.starts[index], self.starts[index] + len(self.lines[index]))
+                self.leaf = _Paragraph(self.starts[index], self.starts[index] + len(self.lines[index]), self._line_after(index))
                 return
-            leaf = self.leaf = _Paragraph(index, index, lines=[])
-        if leaf.lines is None and leaf.stop == index and at == 0 and not self.containers:
-            leaf.stop, leaf.end = index + 1, self.starts[index] + len(self.lines[index])
+            leaf = self.leaf = _Paragraph(0, 0, 0, lines=[])
+        if leaf.lines is None and leaf.follows == self.starts[index] and at == 0 and not self.containers:
+            leaf.end, leaf.follows = self.starts[index] + len(self.lines[index]), self._line_after(index)
         else:
             leaf.explicit(self).append((start + at, line[at:]))
 
@@ -795,13 +813,16 @@ class _Parser:
 
     def _begin_block(self, index: int) -> None:
         if not self.containers:
-            self.firsts.append(index)
+            self.block_starts.append(self.starts[index])
+
+    def _line_after(self, index: int) -> int:
+        return self.starts[index + 1] if index + 1 < len(self.starts) else len(self.text) + 1
 
     def _given(self) -> tuple[int, list[Segment], list[Span]]:
         """The segments and bonding lines of the current top-level block, to add to."""
-        first = self.firsts[-1]
-        if not self.blocks or self.blocks[-1][0] != first:
-            self.blocks.append((first, [], []))
+        start = self.block_starts[-1]
+        if not self.blocks or self.blocks[-1][0] != start:
+            self.blocks.append((start, [], []))
         return self.blocks[-1]
 
     def _content(self, line: str, start: int, position: int) -> tuple[int, str]:
@@ -959,8 +980,3 @@ def _reference_labels(text: str) -> frozenset[str]:
 def parse_blocks(text: str) -> ParsedBlocks:
     """The top-level blocks of a Markdown document."""
     return _Parser(text).parse()
-
-
-def line_numbering(text: str) -> list[int]:
-    """Each line's start offset, as ``Block.first_line`` counts lines (CRLF, CR or LF breaks)."""
-    return split_lines(text)[0]
