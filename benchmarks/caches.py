@@ -46,11 +46,12 @@ def clear_result_caches() -> int:
 def clear_document_caches() -> None:
     """Empty only what is remembered about whole documents.
 
-    Kept: the caches keyed by text alone (a body's parse, a line's annotation
-    groups, a species' analysis, an annotation text's findings), which a process
-    fills once per distinct text.  What remains to do is the whole scan of the
-    document's structure, every annotation's offsets and the placing of every finding: a
-    check of a note whose lines were met before (none of them at its place).
+    Kept: the caches keyed by text alone (a body's parse, a paragraph's pieces
+    and skipped ranges, a segment's annotation groups, a species' analysis, an
+    annotation text's findings), which a process fills once per distinct text.
+    What remains to do is the whole scan of the document's block structure, every
+    annotation's offsets and the placing of every finding: a check of a note whose
+    paragraphs were met before (none of them at its place).
     """
     from notelsp import positions
     from notelsp.notation import markdown
