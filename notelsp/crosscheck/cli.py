@@ -94,8 +94,8 @@ def _cross_check_named(
     on_terminal = hasattr(bar, "isatty") and bar.isatty()
     results: dict[str, CrossCheckResult] = {}  # one calculation per species, however often it is annotated
     code = EXIT_OK
-    for path, annotations in named:
-        for annotation in annotations:
+    for path, found in named:
+        for annotation in found:
             if annotation.formula is None or annotation.errors or annotation.is_comparison:
                 continue  # a comparison's claims concern several species; one calculation cannot answer them
             formula = annotation.formula

@@ -10,12 +10,10 @@ from __future__ import annotations
 
 import difflib
 import re
-from dataclasses import dataclass
 from functools import lru_cache
-from typing import Any
 
 from lark import Token, Tree
-from lark.exceptions import UnexpectedCharacters, UnexpectedEOF, UnexpectedInput, UnexpectedToken
+from lark.exceptions import UnexpectedCharacters, UnexpectedInput, UnexpectedToken
 
 from .. import elements
 from .grammar import CLAIM_WORDS, parser
@@ -39,7 +37,6 @@ from .model import (
     SCharacterClaim,
     ShapeClaim,
     ParsedBody,
-    shifted,
     Span,
 )
 

@@ -3,7 +3,6 @@
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from notelsp.notation import markdown
 from notelsp.notation.markdown import markdown_structure
 from notelsp.notation.markdown_blocks import parse_blocks
 

@@ -6,7 +6,6 @@ predicts t-shaped (standard VSEPR, from memory).
 
 from __future__ import annotations
 
-import pytest
 import pytest_lsp
 from lsprotocol import types
 from pytest_lsp import ClientServerConfig, LanguageClient, client_capabilities
