@@ -382,8 +382,8 @@ class _Parser:
         """Take the blocks ``_TOP_LEVEL_BLOCK`` matches from the line at ``offset`` on, one after
         another; the offset of the first line it does not match (None: the text is taken)."""
         text, match, block_starts = self.text, _TOP_LEVEL_BLOCK.match, self.block_starts
-        # An open paragraph of whole lines is kept in locals here: text [begin, end), the next
-        # line at ``follows``; begin is -1 while none is open.
+        # An open paragraph of whole lines is kept in locals here, its text [begin, end);
+        # begin is -1 while none is open.
         begin, ended = -1, False
         leaf = self.leaf
         if type(leaf) is _Paragraph and leaf.lines is None:

@@ -27,10 +27,10 @@ _ATTRIBUTE = r"""(?:\s+[A-Za-z_:][A-Za-z0-9:._\-]*(?:\s*=\s*(?:[^"'=<>`\x00-\x20
 _HTML_TAG = re.compile(r"<[A-Za-z][A-Za-z0-9\-]*" + _ATTRIBUTE + r"*\s*/?>|</[A-Za-z][A-Za-z0-9\-]*\s*>")
 # Raw HTML that runs to a fixed closer (CommonMark 0.31, 6.6), longest opener first.
 _HTML_CLOSERS = (("<![CDATA[", "]]>"), ("<!--", "-->"), ("<?", "?>"), ("<!", ">"))
-_ANGLE_DESTINATION = re.compile(r"(?:\\.|[^>\n<\\])*")  # up to the first unescaped ">", "<" or line break
+_ANGLE_DESTINATION = re.compile(r"(?:\\.|[^>\r\n<\\])*")  # up to the first unescaped ">", "<" or line break
 _DESTINATION_EVENT = re.compile(r"[\x00- \x7f()\\]")
 _LINK_TITLE = re.compile(r'"(?:[^"\\]|\\[\s\S])*"|\'(?:[^\'\\]|\\[\s\S])*\'|\((?:[^()\\]|\\[\s\S])*\)')
-_SPACES = re.compile(r"[ \t]*\n?[ \t]*")
+_SPACES = re.compile(r"[ \t]*(?:\r\n|\r|\n)?[ \t]*")  # at most one line break, of any kind
 _MAX_LINK_NESTING = 32  # parentheses in a bare destination, as CommonMark implementations cap it
 
 
@@ -64,7 +64,7 @@ def _scan(
         if character == "$":
             position = _math(text, position, end, skips, dead_ends)
         elif character == "\\":
-            if position + 1 < end and (text[position + 1] in _ASCII_PUNCTUATION or text[position + 1] == "\n"):
+            if position + 1 < end and (text[position + 1] in _ASCII_PUNCTUATION or text[position + 1] in "\r\n"):
                 skips.append((position, position + 2))  # an escape, or a hard line break
             position += 2
         elif character == "`":

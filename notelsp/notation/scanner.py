@@ -29,7 +29,7 @@ _NOT_BEFORE_ANNOTATION = set("\\_^}$") | set("abcdefghijklmnopqrstuvwxyzABCDEFGH
 # Segments (a line, or a paragraph's whole lines) are remembered by their text, not their
 # place: after an edit, the segments that moved are placed again (plain offsets, cheap)
 # without being looked at again.  About two large documents' worth.
-_LINE_CACHE_SIZE = 8192
+_SEGMENT_CACHE_SIZE = 8192
 
 
 def scan(text: str, kind: DocumentKind = "markdown") -> ScannedDocument:
@@ -83,7 +83,7 @@ def _segment_found(segment: Segment) -> list[Found]:
     ]
 
 
-@lru_cache(maxsize=_LINE_CACHE_SIZE)
+@lru_cache(maxsize=_SEGMENT_CACHE_SIZE)
 def _inline_groups(text: str, skips: tuple[tuple[int, int], ...]) -> tuple[tuple[int, int, ParsedBody], ...]:
     """(opening brace, closing brace, parse) of each annotation in a segment of inline text."""
     found = []
@@ -135,7 +135,7 @@ def _block_found(text: str, line: Span) -> Found | None:
     return (line.start, line.end, line.start + lead, line.start + lead + length, parsed, "block")
 
 
-@lru_cache(maxsize=_LINE_CACHE_SIZE)
+@lru_cache(maxsize=_SEGMENT_CACHE_SIZE)
 def _block_body(content: str) -> tuple[int, int, ParsedBody] | None:
     """(offset, length, parse) of the body of one bonding-block line: the line without its comment."""
     code = content.split("#", 1)[0]

@@ -256,3 +256,24 @@ def test_corpus_is_large_enough():
     print(f"\n{len(HAND_WRITTEN)} hand-written Markdown documents, {GENERATED_COUNT} generated")
     assert len(HAND_WRITTEN) >= 80
     assert GENERATED_COUNT >= 300
+
+
+def _written(text: str) -> list[str]:
+    forget_documents()
+    return [text[a.span.start : a.span.end] for a in scan(text, "markdown").annotations]
+
+
+@pytest.mark.parametrize("seed,count", [(GENERATED_SEED + 2, GENERATED_COUNT // 2)], ids=lambda value: str(value))
+def test_whole_blocks_agree_with_the_line_by_line_reading(seed, count):
+    """With LF breaks the top level is read a whole block at a time; with CRLF breaks (the same
+    document) every line is read alone.  Both readings find the same annotations."""
+    differing, compared = [], 0
+    for text in [case.text for case in HAND_WRITTEN] + list(generated_documents(seed, count)):
+        if "\r" in text:
+            continue  # some documents are written with CR breaks already
+        compared += 1
+        if _written(text) != [written.replace("\r\n", "\n") for written in _written(text.replace("\n", "\r\n"))]:
+            differing.append(text)
+    tried("Markdown documents read both ways (whole blocks, line by line)", compared)
+    assert compared > count // 2
+    assert not differing, f"{len(differing)} of {compared} differ; the smallest:\n{min(differing, key=len)!r}"
