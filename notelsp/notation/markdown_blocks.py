@@ -83,15 +83,16 @@ _LINE_BREAK = re.compile(r"\r\n|\r|\n")
 #            with a character that could begin another block);
 #   blank:   blank lines, which end a paragraph;
 #   heading: an unindented ATX heading;
-#   fence:   an unindented code fence, its content and its closing line.
+#   fence:   an unindented code fence, its content and its closing line (the fence is its
+#            whole run of backticks or tildes: a tilde fence's info string may hold tildes).
 # A line holding "|" may be a table header, which comes first: such headings and fence
 # openings are left to the line-by-line path, as is everything else.
 _TOP_LEVEL_BLOCK = re.compile(
     r"(?P<plain>(?:[^ \t>\-+*_#=`~$<|:\[0-9\n][^\n]*(?:\n|\Z))+)"
     r"|(?P<blank>(?:[ \t]*\n)+|[ \t]*\Z)"
     r"|(?P<heading>#{1,6}(?:[ \t][^|\n]*)?(?:\n|\Z))"
-    r"|(?P<fence>(?P<ticks>`{3,})(?P<info>[^`|\n]*)\n(?:[^\n]*\n)*? {0,3}(?P=ticks)`*[ \t]*(?:\n|\Z)"
-    r"|(?P<tildes>~{3,})(?P<tilde_info>[^|\n]*)\n(?:[^\n]*\n)*? {0,3}(?P=tildes)~*[ \t]*(?:\n|\Z))"
+    r"|(?P<fence>(?P<ticks>`{3,})(?!`)(?P<info>[^`|\n]*)\n(?:[^\n]*\n)*? {0,3}(?P=ticks)`*[ \t]*(?:\n|\Z)"
+    r"|(?P<tildes>~{3,})(?!~)(?P<tilde_info>[^|\n]*)\n(?:[^\n]*\n)*? {0,3}(?P=tildes)~*[ \t]*(?:\n|\Z))"
 )
 _ATX_HEADING = re.compile(r"(#{1,6})(?:[ \t]+|$)")
 _ATX_CLOSING = re.compile(r"(?:^|[ \t]+)#+[ \t]*$")

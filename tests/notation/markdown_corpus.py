@@ -340,6 +340,10 @@ HAND_WRITTEN: tuple[Case, ...] = _cases(
     ("whole-paragraph-then-indented-line", "{NH3: bent}\n    {H2O: bent}\nplain {CH4}\n"),
     ("whole-paragraph-lazy-after-list-line", "- item\n{NH3: bent} lazy\n\n" + PROSE),
     ("whole-text-without-final-break", "## Run\n" + PROSE),
+    ("whole-tilde-fence-shorter-closer-does-not-close", "~~~~~\n{NH3: bent}\n~~~\n{H2O: bent}\n"),
+    ("whole-tilde-fence-info-with-tildes", "~~~ a~~~b\n{NH3: bent}\n~~~\n" + PROSE),
+    ("whole-tilde-bonding-fence-shorter-closer", "~~~~bonding\nNH3: bent\n~~~\nSF4: seesaw\n~~~~\n" + PROSE),
+    ("whole-backtick-fence-shorter-closer-after-text", "`````\n{NH3: bent}\n```\n" + PROSE),
     # Tabs in nested containers (2.2: a tab advances to the next multiple of 4 columns).
     ("blank-item-tab-continuation-is-indented-code", "- \n\t  {NH3: bent}\n" + PROSE),
     ("blank-item-trailing-spaces-tab-continuation", "-     \n\t  {NH3: bent}\n" + PROSE),

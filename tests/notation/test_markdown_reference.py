@@ -266,9 +266,13 @@ def _written(text: str) -> list[str]:
 @pytest.mark.parametrize("seed,count", [(GENERATED_SEED + 2, GENERATED_COUNT // 2)], ids=lambda value: str(value))
 def test_whole_blocks_agree_with_the_line_by_line_reading(seed, count):
     """With LF breaks the top level is read a whole block at a time; with CRLF breaks (the same
-    document) every line is read alone.  Both readings find the same annotations."""
+    document) every line is read alone.  Both readings find the same annotations, in the
+    careful documents and in the awkward ones too (not compared with markdown-it-py, which
+    misreads some of them, but notelsp must agree with itself)."""
+    documents = [case.text for case in HAND_WRITTEN] + list(generated_documents(seed, count))
+    documents += list(generated_documents(seed, count, awkward=True))
     differing, compared = [], 0
-    for text in [case.text for case in HAND_WRITTEN] + list(generated_documents(seed, count)):
+    for text in documents:
         if "\r" in text:
             continue  # some documents are written with CR breaks already
         compared += 1
