@@ -62,6 +62,7 @@ class NoteServer(LanguageServer):
                          protocol_cls=NoteProtocol)
         self.settings = Settings()
         self.file_settings: Settings | None = None  # from .notelsp.toml, the base editor settings apply over
+        self.pushed_settings: dict | None = None  # the "notelsp" section of the last didChangeConfiguration
         self.root: Path | None = None
         self.pending: dict[str, asyncio.Task] = {}  # uri -> its scheduled diagnostics publication
 

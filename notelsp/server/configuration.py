@@ -1,8 +1,17 @@
 """Settings: ``.notelsp.toml`` at the workspace root, then the editor's "notelsp" section over it.
 
+The editor's section comes two ways.  Clients that answer
+``workspace/configuration`` are asked for it (pulled) at start-up and on every
+``workspace/didChangeConfiguration``.  Clients that only push (Kate 22.12,
+Neovim 0.7) send it as the ``settings`` of ``workspace/didChangeConfiguration``
+and are never asked; the last pushed section is kept and applied the same way.
+A pulled answer, when there is one, wins over a pushed section.  Both forms
+take the keys of the ``[review]`` table, flat or inside a ``review`` table.
+
 Reading the file is the server's job (I/O at the edge); parsing is
-``notelsp.review.settings``.  Problems are shown to the user and the
-defaults kept: a bad config never stops the server.
+``notelsp.review.settings``.  Problems are shown as an error message in the
+editor, naming the file or the editor setting, and only the bad values fall
+back to their defaults: a bad config never stops the server.
 """
 
 from __future__ import annotations
@@ -33,7 +42,19 @@ def _file_settings(ls: NoteServer) -> tuple[Settings, list[str]]:
     return settings_from_toml(text)
 
 
-async def _editor_values(ls: NoteServer) -> Mapping | None:
+def section_of(settings: object) -> Mapping | None:
+    """The review keys in an editor's settings: ``{"notelsp": {...}}`` or ``{"notelsp": {"review": {...}}}``."""
+    value = settings.get(SECTION) if isinstance(settings, Mapping) else None
+    return _review_table(value)
+
+
+def _review_table(value: object) -> Mapping | None:
+    if isinstance(value, Mapping) and isinstance(value.get("review"), Mapping):
+        value = value["review"]  # accept {"notelsp": {"review": {...}}} as well as the flat form
+    return value if isinstance(value, Mapping) else None
+
+
+async def _pulled_values(ls: NoteServer) -> Mapping | None:
     capabilities = ls.client_capabilities.workspace
     if capabilities is None or not capabilities.configuration:
         return None
@@ -44,10 +65,13 @@ async def _editor_values(ls: NoteServer) -> Mapping | None:
     except Exception as error:  # a client that fails the request still gets a working server
         log.warning("workspace/configuration failed: %s", error)
         return None
-    value = answer[0] if answer else None
-    if isinstance(value, Mapping) and isinstance(value.get("review"), Mapping):
-        value = value["review"]  # accept {"notelsp": {"review": {...}}} as well as the flat form
-    return value if isinstance(value, Mapping) else None
+    return _review_table(answer[0] if answer else None)
+
+
+async def _editor_values(ls: NoteServer) -> Mapping | None:
+    """The editor's section: pulled from a client that answers, else the last one pushed."""
+    pulled = await _pulled_values(ls)
+    return pulled if pulled is not None else ls.pushed_settings
 
 
 async def reload_settings(ls: NoteServer) -> None:
@@ -59,7 +83,7 @@ async def reload_settings(ls: NoteServer) -> None:
         problems += [f"editor setting {SECTION}: {p}" for p in more]
     ls.settings = settings
     if problems:
-        ls.show("notelsp settings problem (defaults kept for these): " + "; ".join(problems))
+        ls.show("notelsp settings problem (defaults kept for these): " + "; ".join(problems), types.MessageType.Error)
     from .diagnostics import refresh_all
 
     refresh_all(ls)
@@ -89,6 +113,9 @@ async def watch_config_file(ls: NoteServer) -> None:
 def register(server: NoteServer) -> None:
     @server.feature(types.WORKSPACE_DID_CHANGE_CONFIGURATION)
     async def changed_configuration(ls: NoteServer, params: types.DidChangeConfigurationParams) -> None:
+        if params.settings is not None:  # null: a pulling client's "ask me again"; keep what was pushed
+            pushed = section_of(params.settings)
+            ls.pushed_settings = dict(pushed) if pushed is not None else None
         await reload_settings(ls)
 
     @server.feature(types.WORKSPACE_DID_CHANGE_WATCHED_FILES)

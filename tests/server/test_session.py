@@ -159,7 +159,7 @@ async def test_bad_config_file_is_reported_and_defaults_kept(client: LanguageCli
     await start(client, tmp_path)
     await wait_for(lambda: client.messages)
     assert "not valid TOML" in client.messages[0].message
-    assert client.messages[0].type == types.MessageType.Warning
+    assert client.messages[0].type == types.MessageType.Error  # a broken file is an error, not a quiet fallback
     uri = file_uri(tmp_path / "still-works.md")
     open_note(client, uri, NOTE)
     assert any(d.code == "wrong-shape" for d in await wait_for(lambda: client.diagnostics.get(uri)))
