@@ -6,11 +6,16 @@ decided here.
 
 from __future__ import annotations
 
+from functools import lru_cache
 from typing import Any
 
 from ..notation.model import Annotation
 from .document import DocumentReview
 from .rules import RULES
+
+# Where each rule is explained to people: the README's rule list (written by rules_markdown below).
+# One base for every consumer (LSP codeDescription, SARIF helpUri), one anchor per rule.
+RULES_DOC_URL = "https://github.com/notelsp/notelsp/blob/main/README.md"
 
 def _angles(values: Any) -> str:
     if not values:
@@ -99,6 +104,23 @@ def hover_markdown(review: DocumentReview, annotation: Annotation, offset: int) 
             if rule and rule.doc:
                 parts.append(rule.doc)
     return "\n\n".join(parts)
+
+
+def rule_doc_anchor(code: str) -> str | None:
+    """The anchor of the rule's heading in the README, as GitHub makes it from ``rules_markdown``'s heading.
+
+    The heading "`wrong-shape` (error)" becomes "wrong-shape-error": lower case, spaces to
+    hyphens, punctuation other than hyphens dropped.  None for a code that is not a rule.
+    """
+    rule = RULES.get(code)
+    return None if rule is None else f"{rule.code}-{rule.severity.value}"
+
+
+@lru_cache(maxsize=None)  # asked once per diagnostic; there are a few dozen codes
+def rule_doc_url(code: str) -> str | None:
+    """The address of the rule's explanation (base URL + ``#`` + anchor), None for a code that is not a rule."""
+    anchor = rule_doc_anchor(code)
+    return None if anchor is None else f"{RULES_DOC_URL}#{anchor}"
 
 
 def rules_markdown() -> str:

@@ -21,6 +21,7 @@ from typing import Any, Iterable
 
 from lsprotocol import types
 
+from ..review.describe import rule_doc_url
 from ..review.document import DocumentReview, kind_of_path
 from ..review.findings import Finding, Severity
 from ..review.workspace import cached_review
@@ -42,10 +43,12 @@ _SEVERITY_NUMBER = {severity: lsp.value for severity, lsp in _SEVERITY.items()}
 
 
 def to_diagnostic(finding: Finding, index: LineIndex) -> types.Diagnostic:
+    href = rule_doc_url(finding.code)
     return types.Diagnostic(
         range=index.range(finding.span),
         severity=_SEVERITY[finding.severity],
         code=finding.code,
+        code_description=types.CodeDescription(href=href) if href else None,
         source=SOURCE,
         message=finding.message,
     )
@@ -59,7 +62,7 @@ def diagnostic_json(finding: Finding, index: LineIndex) -> dict[str, Any]:
     """``to_diagnostic(finding, index)`` as the JSON lsprotocol would make of it."""
     start_line, start_character = index.line_character(finding.span.start)
     end_line, end_character = index.line_character(finding.span.end)
-    return {
+    diagnostic = {
         "range": {"start": {"line": start_line, "character": start_character},
                   "end": {"line": end_line, "character": end_character}},
         "severity": _SEVERITY_NUMBER[finding.severity],
@@ -67,6 +70,10 @@ def diagnostic_json(finding: Finding, index: LineIndex) -> dict[str, Any]:
         "source": SOURCE,
         "message": finding.message,
     }
+    href = rule_doc_url(finding.code)
+    if href:  # a rule's explanation; cross-check findings have none
+        diagnostic["codeDescription"] = {"href": href}
+    return diagnostic
 
 
 def diagnostics_json(findings: Iterable[Finding], index: LineIndex) -> list[dict[str, Any]]:
