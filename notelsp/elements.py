@@ -1,10 +1,13 @@
-"""Element properties, read from mendeleev once per process.
+"""Element properties, read once per process from the database mendeleev ships.
 
-mendeleev's table takes a second or two to load (pandas + SQLite), so it is
-read lazily, under a lock, the first time anything asks; the server may call
-:func:`preload` in a background thread right after it answers ``initialize``.
-Everything in notelsp (the notation needs the symbols, the chemistry the
-properties) asks this module, never mendeleev directly.
+mendeleev's own API loads pandas and SQLAlchemy (seconds of start-up), so its
+SQLite file is read here with the standard library instead, without importing
+the mendeleev package; mendeleev stays a dependency because it ships the data
+(``tests/test_elements.py`` checks every value against mendeleev's own API).
+The table is read lazily, under a lock, the first time anything asks; the
+server may call :func:`preload` in a background thread right after it answers
+``initialize``. Everything in notelsp (the notation needs the symbols, the
+chemistry the properties) asks this module, never mendeleev directly.
 """
 
 from __future__ import annotations
@@ -13,6 +16,26 @@ import math
 import threading
 from dataclasses import dataclass
 from functools import cache
+from pathlib import Path
+
+DATA_PACKAGE = "mendeleev"
+DATABASE_NAME = "elements.db"
+# The columns of mendeleev's "elements" table that notelsp reads.
+COLUMNS = (
+    "symbol",
+    "name",
+    "atomic_number",
+    "group_id",
+    "period",
+    "block",
+    "en_pauling",
+    "covalent_radius_pyykko",
+    "covalent_radius_pyykko_double",
+)
+
+
+class ElementDataError(RuntimeError):
+    """mendeleev's element database is missing or not laid out as expected."""
 
 
 @dataclass(frozen=True, slots=True)
@@ -46,30 +69,67 @@ _table: dict[str, Element] | None = None
 
 
 def _number(value: object) -> float | None:
-    try:
-        number = float(value)  # type: ignore[arg-type]
-    except (TypeError, ValueError):
+    if value is None:
         return None
+    number = float(value)  # type: ignore[arg-type]
     return None if math.isnan(number) else number
 
 
-def _load() -> dict[str, Element]:
-    from mendeleev.fetch import fetch_table  # heavy import, kept off the start-up path
+def database_path() -> Path:
+    """mendeleev's SQLite file, found without importing mendeleev (its import alone takes a second)."""
+    from importlib.util import find_spec
 
-    frame = fetch_table("elements")
+    spec = find_spec(DATA_PACKAGE)
+    folders = list(spec.submodule_search_locations or ()) if spec is not None else []
+    for folder in folders:
+        candidate = Path(folder) / DATABASE_NAME
+        if candidate.is_file():
+            return candidate
+    raise ElementDataError(
+        f"element data not found: the {DATA_PACKAGE} package (a dependency of notelsp) "
+        f"is not installed or has no {DATABASE_NAME}"
+    )
+
+
+def _load() -> dict[str, Element]:
+    return read_database(database_path())
+
+
+def read_database(path: Path) -> dict[str, Element]:
+    """Every element in a mendeleev-layout SQLite file, by symbol."""
+    import sqlite3
+
+    # Read-only, through a URI so the path is taken literally; immutable: no locking, no journal.
+    uri = f"{path.resolve().as_uri()}?mode=ro&immutable=1"
+    try:
+        connection = sqlite3.connect(uri, uri=True)
+        try:
+            present = {row[1] for row in connection.execute("PRAGMA table_info(elements)")}
+            missing = [column for column in COLUMNS if column not in present]
+            if missing:
+                raise ElementDataError(
+                    f"{path}: the elements table has no column {', '.join(missing)} "
+                    f"(an unexpected {DATA_PACKAGE} version?)"
+                )
+            rows = connection.execute(
+                f"SELECT {', '.join(COLUMNS)} FROM elements ORDER BY atomic_number"
+            ).fetchall()
+        finally:
+            connection.close()
+    except sqlite3.Error as error:
+        raise ElementDataError(f"cannot read the element data in {path}: {error}") from None
     table: dict[str, Element] = {}
-    for row in frame.itertuples(index=False):
-        group = _number(row.group_id)
-        table[row.symbol] = Element(
-            symbol=row.symbol,
-            name=row.name,
-            number=int(row.atomic_number),
+    for symbol, name, number, group, period, block, pauling, single, double in rows:
+        table[symbol] = Element(
+            symbol=symbol,
+            name=name,
+            number=int(number),
             group=int(group) if group is not None else None,
-            period=int(row.period),
-            block=str(row.block),
-            electronegativity=_number(row.en_pauling),
-            covalent_radius_pm=_number(row.covalent_radius_pyykko),
-            double_bond_radius_pm=_number(row.covalent_radius_pyykko_double),
+            period=int(period),
+            block=str(block),
+            electronegativity=_number(pauling),
+            covalent_radius_pm=_number(single),
+            double_bond_radius_pm=_number(double),
         )
     return table
 
