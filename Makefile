@@ -9,8 +9,9 @@ PY     := $(VENV)/bin/python
 STAMP  := $(VENV)/.installed
 
 NODE_CLIENT := tests/clients/node
+SARIF_VALIDATOR := tests/clients/sarif
 
-.PHONY: demo test bench fuzz clean node-client neovim
+.PHONY: demo test bench fuzz clean node-client neovim sarif-validator
 
 $(STAMP): pyproject.toml
 	$(PYTHON) -m venv $(VENV)
@@ -21,7 +22,7 @@ $(STAMP): pyproject.toml
 demo: $(STAMP)
 	$(VENV)/bin/notelsp demo
 
-test: $(STAMP) node-client neovim
+test: $(STAMP) node-client neovim sarif-validator
 	$(PY) -m pytest -q -ra
 
 # The Node.js LSP client test's one dependency (vscode-jsonrpc, pinned by the lock file).
@@ -32,6 +33,17 @@ node-client:
 			|| echo "npm install failed in $(NODE_CLIENT): the Node.js client test will skip"; \
 	else \
 		echo "npm not found: the Node.js client test will skip"; \
+	fi
+
+# The SARIF multitool (npm package @microsoft/sarif-multitool, pinned by the lock file; it ships a
+# self-contained binary per platform, no .NET needed) validates --format sarif with GitHub's rules.
+# Without npm, or offline, that test skips and says why; the rest still runs.
+sarif-validator:
+	@if command -v npm >/dev/null 2>&1; then \
+		(cd $(SARIF_VALIDATOR) && npm install --no-audit --no-fund --silent) \
+			|| echo "npm install failed in $(SARIF_VALIDATOR): the SARIF multitool test will skip"; \
+	else \
+		echo "npm not found: the SARIF multitool test will skip"; \
 	fi
 
 # Headless Neovim for the Neovim client test: Debian's package, as root, when nvim is missing.

@@ -1,7 +1,9 @@
 """The command line: ``notelsp check``, ``explain``, ``rules``, ``demo`` and ``serve``.
 
 Reads files, hands their text to the review layer and prints what it found.
-Exit status of ``check``: 0 no errors, 1 errors found, 2 usage or I/O error.
+Exit status of ``check``: 0 nothing at or above ``--fail-level`` (default: error),
+1 findings at or above it, 2 usage or I/O error (an unreadable file included),
+3 no notes were reviewed (a warning: nothing matched).
 """
 
 from __future__ import annotations
@@ -11,9 +13,10 @@ import fnmatch
 import os
 import sys
 from collections.abc import Iterator, Sequence
+from dataclasses import dataclass
 from importlib import resources
 from pathlib import Path
-from typing import TextIO
+from typing import Any, TextIO
 
 from . import __version__
 
@@ -21,7 +24,9 @@ NOTE_SUFFIXES = (".md", ".markdown", ".txt")
 SKIPPED_FOLDERS = {".git", ".hg", ".svn", "_darcs", "CVS", "node_modules", "__pycache__"}
 CONFIG_NAME = ".notelsp.toml"
 
-EXIT_CLEAN, EXIT_ERRORS, EXIT_USAGE = 0, 1, 2
+EXIT_CLEAN, EXIT_ERRORS, EXIT_USAGE, EXIT_NOTHING_REVIEWED = 0, 1, 2, 3
+FAIL_LEVELS = ("error", "warning", "information", "hint")  # most severe first
+STDIN = "-"
 
 
 class UsageError(Exception):
@@ -33,12 +38,41 @@ def _parser() -> argparse.ArgumentParser:
         prog="notelsp",
         description="Check the bonding claims written in lab notes.",
     )
-    parser.add_argument("--version", action="version", version=f"notelsp {__version__}")
+    parser.add_argument("-V", "--version", action="version", version=f"notelsp {__version__}")
     commands = parser.add_subparsers(dest="command", metavar="COMMAND")
 
     check = commands.add_parser("check", help="check notes (files or folders) and report implausible claims")
-    check.add_argument("paths", nargs="+", metavar="PATH")
+    check.add_argument("paths", nargs="*", metavar="PATH", help="a note, a folder of notes, or - for standard input")
     check.add_argument("--format", choices=("text", "json", "sarif"), default="text")
+    check.add_argument(
+        "--fail-level",
+        choices=FAIL_LEVELS,
+        default="error",
+        help="exit 1 when a finding is this severe or more (default: error)",
+    )
+    check.add_argument(
+        "--files-from",
+        metavar="FILE",
+        help="also check the NUL-separated paths listed in FILE (- for standard input)",
+    )
+    check.add_argument(
+        "--stdin-name",
+        metavar="NAME",
+        help="the name reports give standard input; a .txt suffix reads it as plain text (default: <stdin>, Markdown)",
+    )
+    check.add_argument(
+        "--cautions",
+        choices=("summary", "per-file", "none"),
+        default="summary",
+        help="hazard cautions once for the run (default), per file, or left out",
+    )
+    check.add_argument("--indent", type=int, metavar="N", help="indent JSON and SARIF by N spaces (default: compact)")
+    check.add_argument(
+        "--source-root",
+        metavar="FOLDER",
+        default=".",
+        help="SARIF: artifact URIs are relative to this folder, as %%SRCROOT%% (default: the current folder)",
+    )
     check.add_argument("--config", metavar="FILE", help=f"settings file (default: the nearest {CONFIG_NAME})")
     check.add_argument(
         "--cross-check",
@@ -64,7 +98,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     args = parser.parse_args(argv)
     try:
         if args.command == "check":
-            return _check(args.paths, args.format, args.config, args.cross_check, sys.stdout, args.level)
+            return _check_command(args, sys.stdout)
         if args.command == "explain":
             return _explain(args.formula, args.format, sys.stdout)
         if args.command == "rules":
@@ -78,7 +112,9 @@ def main(argv: Sequence[str] | None = None) -> int:
         parser.print_help()
         return EXIT_USAGE
     except UsageError as problem:
-        print(f"notelsp: {problem}", file=sys.stderr)
+        from .formats import terminal_safe  # a file name in the message may hold anything
+
+        print(f"notelsp: {terminal_safe(str(problem))}", file=sys.stderr)
         return EXIT_USAGE
     except KeyboardInterrupt:
         return 130
@@ -92,56 +128,151 @@ def main(argv: Sequence[str] | None = None) -> int:
 # --- check --------------------------------------------------------------------
 
 
-def _check(
-    paths: Sequence[str], output: str, config: str | None, cross_check: bool, out: TextIO, level: str | None = None
-) -> int:
-    from .formats import ReviewedFile
+STDIN_NAME = "<stdin>"
+
+
+@dataclass(frozen=True)
+class CheckOptions:
+    """How ``check`` reviews and reports (the command's options, parsed)."""
+
+    output: str = "text"
+    config: str | None = None
+    cross_check: bool = False
+    level: str | None = None
+    fail_level: str = "error"
+    cautions: str = "summary"
+    indent: int | None = None
+    source_root: str = "."
+    stdin_name: str | None = None
+
+
+def _check_command(args: argparse.Namespace, out: TextIO) -> int:
+    paths = list(args.paths)
+    if args.files_from is not None:
+        if args.files_from == STDIN and STDIN in paths:
+            raise UsageError("standard input cannot be both a note (-) and the list of paths (--files-from -)")
+        paths.extend(_paths_from(args.files_from))
+    elif not paths:
+        raise UsageError("name a note, a folder or - (standard input), or give --files-from FILE")
+    if paths.count(STDIN) > 1:
+        raise UsageError("standard input (-) can be named once")
+    if args.indent is not None and not 0 <= args.indent <= 16:
+        raise UsageError(f"--indent must be between 0 and 16 (got {args.indent})")
+    options = CheckOptions(
+        output=args.format,
+        config=args.config,
+        cross_check=args.cross_check,
+        level=args.level,
+        fail_level=args.fail_level,
+        cautions=args.cautions,
+        indent=args.indent,
+        source_root=args.source_root,
+        stdin_name=args.stdin_name,
+    )
+    return _check(paths, options, out)
+
+
+def _paths_from(source: str) -> list[str]:
+    """NUL-separated paths from a file or standard input (empty entries, e.g. a trailing NUL, dropped)."""
+    try:
+        if source == STDIN:
+            data = sys.stdin.buffer.read()
+        else:
+            with open(source, "rb") as handle:
+                data = handle.read()
+    except OSError as error:
+        raise UsageError(f"cannot read the list of paths {source}: {error.strerror or error}") from None
+    return [os.fsdecode(name) for name in data.split(b"\0") if name]
+
+
+def _read_stdin() -> str:
+    try:
+        data = sys.stdin.buffer.read()
+    except (AttributeError, OSError) as error:  # no standard input at all, or a closed one
+        raise UsageError(f"cannot read standard input: {error}") from None
+    try:
+        return data.decode("utf-8-sig")  # bytes decoded as they are: CRLF kept, as for files
+    except UnicodeDecodeError as error:
+        raise UsageError(f"not UTF-8 text (byte {error.start})") from None
+
+
+def _check(paths: Sequence[str], options: CheckOptions, out: TextIO) -> int:
+    from .formats import CheckedRun, ReviewedFile, Unreadable, terminal_safe
     from .review.document import kind_of_path, review_text
 
-    settings = _load_settings(config, paths)
+    settings = _load_settings(options.config, [name for name in paths if name != STDIN])
     reviewed: list[ReviewedFile] = []
-    unreadable = False
-    for path in _note_files(paths, settings.globs):
-        try:
-            text = _read_note(path)
-        except UsageError as problem:
-            print(f"notelsp: {problem}", file=sys.stderr)
-            unreadable = True
+    on_disk: list[str] = []  # what the cross-check can read again (not standard input)
+    unreadable: list[Unreadable] = []
+
+    def cannot_read(name: str, problem: UsageError) -> None:
+        # the reading functions say "cannot read PATH: reason"; the report keeps path and reason apart
+        reason = str(problem).removeprefix(f"cannot read {name}: ")
+        print(f"notelsp: cannot read {terminal_safe(name)}: {terminal_safe(reason)}", file=sys.stderr)
+        unreadable.append(Unreadable(name, reason))
+
+    for name in paths:
+        if name == STDIN:
+            stdin_name = options.stdin_name or STDIN_NAME
+            try:
+                text = _read_stdin()
+            except UsageError as problem:
+                cannot_read(stdin_name, problem)
+                continue
+            reviewed.append(ReviewedFile(stdin_name, review_text(text, kind_of_path(stdin_name), settings)))
             continue
-        reviewed.append(ReviewedFile(str(path), review_text(text, kind_of_path(str(path)), settings)))
-    _write_report(reviewed, output, out)
-    has_errors = any(f.severity.value == "error" for r in reviewed for f in r.review.findings)
-    if cross_check:
+        for path in _note_files([name], settings.globs):
+            try:
+                text = _read_note(path)
+            except UsageError as problem:
+                cannot_read(str(path), problem)
+                continue
+            reviewed.append(ReviewedFile(str(path), review_text(text, kind_of_path(str(path)), settings)))
+            on_disk.append(str(path))
+    run = CheckedRun(reviewed, unreadable, options.cautions)  # type: ignore[arg-type]
+    _write_report(run, options, out)
+    threshold = FAIL_LEVELS.index(options.fail_level)
+    failing = any(FAIL_LEVELS.index(f.severity.value) <= threshold for r in reviewed for f in r.review.findings)
+    cannot_run = bool(unreadable)
+    if options.cross_check:
         from .crosscheck.cli import EXIT_CANNOT_RUN, EXIT_DISAGREES, cross_check_paths
         from .crosscheck.levels import DEFAULT_LEVEL_TEXT
 
+        if len(on_disk) < len(reviewed):
+            print("notelsp: the cross-check reads files again, so it leaves standard input out", file=sys.stderr)
         outcome = cross_check_paths(
-            [r.path for r in reviewed],
-            level=level or DEFAULT_LEVEL_TEXT,
-            stream=out if output == "text" else sys.stderr,  # keep JSON and SARIF parseable
+            on_disk,
+            level=options.level or DEFAULT_LEVEL_TEXT,
+            stream=out if options.output == "text" else sys.stderr,  # keep JSON and SARIF parseable
             progress=sys.stderr,
             angle_tolerance=settings.angle_tolerance,
         )
-        unreadable = unreadable or outcome == EXIT_CANNOT_RUN
-        has_errors = has_errors or outcome == EXIT_DISAGREES
-    if unreadable:
+        cannot_run = cannot_run or outcome == EXIT_CANNOT_RUN
+        failing = failing or outcome == EXIT_DISAGREES
+    if cannot_run:
         return EXIT_USAGE
-    return EXIT_ERRORS if has_errors else EXIT_CLEAN
+    if failing:
+        return EXIT_ERRORS
+    if not reviewed:
+        print("notelsp: warning: no notes were reviewed (none found in the paths given)",
+              file=sys.stderr)
+        return EXIT_NOTHING_REVIEWED
+    return EXIT_CLEAN
 
 
-def _write_report(reviewed: list, output: str, out: TextIO) -> None:
-    if output == "json":
+def _write_report(run: Any, options: CheckOptions, out: TextIO) -> None:
+    if options.output == "json":
         from .formats.json_report import write_json
 
-        write_json(reviewed, out)
-    elif output == "sarif":
+        write_json(run, out, options.indent)
+    elif options.output == "sarif":
         from .formats.sarif import write_sarif
 
-        write_sarif(reviewed, out)
+        write_sarif(run, out, options.source_root, options.indent)
     else:
         from .formats.text import write_text
 
-        write_text(reviewed, out)
+        write_text(run, out)
 
 
 def _note_files(paths: Sequence[str], globs: Sequence[str]) -> Iterator[Path]:
@@ -260,7 +391,7 @@ def _demo(out: TextIO) -> int:
         previous = os.getcwd()
         os.chdir(folder)  # report short relative paths
         try:
-            _check(notes, "text", None, False, out)
+            _check(notes, CheckOptions(), out)
         finally:
             os.chdir(previous)
     out.write("\nEach line above is path:line:column: severity[rule] message. "

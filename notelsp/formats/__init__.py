@@ -5,15 +5,28 @@ These are translators at the edge: they read findings and never decide any.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+import re
+from bisect import bisect_right
+from dataclasses import dataclass, field
+from functools import cached_property
+from typing import Literal
 
-from ..review.document import DocumentReview
 from ..notation.model import Span
+from ..review.document import DocumentReview
+from ..review.findings import Severity
+
+# Where the project's documentation lives: the SARIF log's informationUri and each rule's helpUri
+# (the README's rule list) are made from it, and only from here.
+PROJECT_URL = "https://github.com/notelsp/notelsp"
+README_URL = f"{PROJECT_URL}/blob/main/README.md"
+
+CautionMode = Literal["summary", "per-file", "none"]
+SEVERITY_ORDER = (Severity.ERROR, Severity.WARNING, Severity.INFORMATION, Severity.HINT)
 
 
 @dataclass(frozen=True)
 class ReviewedFile:
-    path: str  # as the user named it (relative paths stay relative)
+    path: str  # as the user named it (relative paths stay relative); may hold os.fsdecode surrogates
     review: DocumentReview
 
     def location(self, span: Span) -> tuple[int, int, int, int]:
@@ -24,10 +37,106 @@ class ReviewedFile:
         return line + 1, column + 1, end_line + 1, end_column + 1
 
     def cautions(self) -> list[tuple[str, str]]:
-        """(formula, caution) for every hazardous species in the file, once each."""
+        """(formula, caution) for every hazardous species in the file, once each, in document order."""
+        return list(self._cautions)
+
+    @cached_property
+    def _cautions(self) -> tuple[tuple[str, str], ...]:
+        """Worked out once per file, as text, JSON and the run's summary all ask.
+
+        Read from the scanner's position-free parses: no annotation object is made, and a body
+        written many times (the parses are shared) is looked at once.
+        """
+        from ..chem import analyse
+
         seen: dict[tuple[str, str], None] = {}
-        for annotation in self.review.annotations:
-            for analysis in self.review.analyses_of(annotation):
-                for caution in getattr(analysis, "cautions", ()):
+        looked_at: set[int] = set()
+        for found in self.review.scanned.found:
+            parsed = found[4]
+            if id(parsed) in looked_at:
+                continue
+            looked_at.add(id(parsed))
+            for formula in parsed.formulas:
+                analysis = analyse(formula)
+                for caution in analysis.cautions:
                     seen.setdefault((analysis.formula, caution), None)
-        return list(seen)
+        return tuple(seen)
+
+    def annotation_count(self) -> int:
+        return len(self.review.scanned.found)
+
+    def annotation_text(self, span: Span) -> str:
+        """The text of the annotation holding ``span`` ("" for a finding about the note as a whole)."""
+        scanned = self.review.scanned
+        index = bisect_right(scanned.starts, span.start) - 1
+        if index >= 0:
+            start, end = scanned.found[index][0], scanned.found[index][1]
+            if start <= span.start and span.end <= end:
+                return self.review.text[start:end]
+        return ""
+
+
+@dataclass(frozen=True)
+class Unreadable:
+    path: str
+    reason: str  # e.g. "not UTF-8 text (byte 0)", "Permission denied"
+
+
+@dataclass(frozen=True)
+class CheckedRun:
+    """Everything one ``check`` run reports."""
+
+    files: list[ReviewedFile]
+    unreadable: list[Unreadable] = field(default_factory=list)
+    cautions: CautionMode = "summary"
+
+    def totals(self) -> dict:
+        findings = {severity.value: 0 for severity in SEVERITY_ORDER}
+        annotations = 0
+        for reviewed in self.files:
+            annotations += reviewed.annotation_count()
+            for finding in reviewed.review.findings:
+                findings[finding.severity.value] += 1
+        return {"files": len(self.files), "annotations": annotations, "findings": findings,
+                "unreadable": len(self.unreadable)}
+
+    def caution_summary(self) -> list[tuple[str, str, int]]:
+        """(formula, caution, number of files) over the run, in order of first appearance."""
+        counts: dict[tuple[str, str], int] = {}
+        for reviewed in self.files:
+            for pair in reviewed.cautions():
+                counts[pair] = counts.get(pair, 0) + 1
+        return [(formula, caution, n) for (formula, caution), n in counts.items()]
+
+
+# --- names and text that are safe to print ----------------------------------------------------
+
+# Surrogates stand for bytes a file name had that were not UTF-8 (os.fsdecode); C0 and C1
+# controls, DEL and the bidirectional overrides could move the cursor, recolour the terminal
+# or reorder what is shown.
+_UNSAFE_FOR_TERMINAL = re.compile("[\x00-\x1f\x7f-\x9f\u202a-\u202e\u2066-\u2069\ud800-\udfff]")
+_SURROGATE = re.compile("[\ud800-\udfff]")
+_NAMED = {"\n": "\\n", "\r": "\\r", "\t": "\\t"}
+
+
+def _escape(match: re.Match) -> str:
+    char = match.group()
+    code = ord(char)
+    if char in _NAMED:
+        return _NAMED[char]
+    if 0xDC80 <= code <= 0xDCFF:  # an undecodable byte, as os.fsdecode keeps it
+        return f"\\x{code - 0xDC00:02x}"
+    return f"\\x{code:02x}" if code <= 0xFF else f"\\u{code:04x}"
+
+
+def terminal_safe(text: str) -> str:
+    """``text`` as one line of valid UTF-8: undecodable bytes as ``\\xNN``, controls escaped."""
+    return _UNSAFE_FOR_TERMINAL.sub(_escape, text)
+
+
+def utf8_safe(text: str) -> str:
+    """``text`` with undecodable bytes (surrogates) written ``\\xNN``, so it encodes as UTF-8.
+
+    For JSON strings: the encoder escapes control characters itself.
+    """
+    return _SURROGATE.sub(_escape, text)

@@ -1,17 +1,23 @@
-"""The stable JSON report (documented in the README)."""
+"""The stable JSON report (documented in the README's "Command line" section).
+
+Top level: ``files`` (one entry per reviewed file, with its findings and its
+cautions), ``cautions`` (the run's hazardous species, once each),
+``cautions_left_out``, ``unreadable`` and ``totals``. Compact unless an indent
+is asked for (indenting costs several times the writing).
+"""
 
 from __future__ import annotations
 
 import json
-from collections.abc import Iterable
 from typing import Any, TextIO
 
-from . import ReviewedFile
+from . import CheckedRun, utf8_safe
 
 
-def report_dict(files: Iterable[ReviewedFile]) -> dict[str, Any]:
+def report_dict(run: CheckedRun) -> dict[str, Any]:
+    show_cautions = run.cautions != "none"
     report: list[dict[str, Any]] = []
-    for reviewed in files:
+    for reviewed in run.files:
         findings = []
         for finding in reviewed.review.findings:
             line, column, end_line, end_column = reviewed.location(finding.span)
@@ -29,11 +35,25 @@ def report_dict(files: Iterable[ReviewedFile]) -> dict[str, Any]:
                     "fixes": [{"title": fix.title, "replacement": fix.replacement} for fix in finding.fixes],
                 }
             )
-        cautions = [{"formula": formula, "caution": caution} for formula, caution in reviewed.cautions()]
-        report.append({"path": reviewed.path, "findings": findings, "cautions": cautions})
-    return {"files": report}
+        cautions = (
+            [{"formula": formula, "caution": caution} for formula, caution in reviewed.cautions()]
+            if show_cautions else []
+        )
+        report.append({"path": utf8_safe(reviewed.path), "findings": findings, "cautions": cautions})
+    summary = (
+        [{"formula": formula, "caution": caution, "files": n} for formula, caution, n in run.caution_summary()]
+        if show_cautions else []
+    )
+    return {
+        "files": report,
+        "cautions": summary,
+        "cautions_left_out": not show_cautions,
+        "unreadable": [{"path": utf8_safe(u.path), "reason": utf8_safe(u.reason)} for u in run.unreadable],
+        "totals": run.totals(),
+    }
 
 
-def write_json(files: Iterable[ReviewedFile], out: TextIO) -> None:
-    json.dump(report_dict(files), out, ensure_ascii=False, indent=2)
+def write_json(run: CheckedRun, out: TextIO, indent: int | None = None) -> None:
+    separators = (",", ":") if indent is None else None
+    json.dump(report_dict(run), out, ensure_ascii=False, indent=indent, separators=separators)
     out.write("\n")
