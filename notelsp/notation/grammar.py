@@ -3,17 +3,40 @@
 The grammar ships as package data of ``notelsp.grammar``; in an editable
 install that package may not be importable, so the top-level ``grammar/``
 folder next to the package is the fallback.
+
+Building the LALR tables takes most of a one-note check, so the built parser
+is kept in the user's cache folder (``$XDG_CACHE_HOME/notelsp``, else
+``~/.cache/notelsp``) and loaded from there by later processes. lark's own
+``cache=`` option unpickles part of a cache file before it checks the file's
+hash, so the file is written and checked here instead: its first line is a
+fingerprint of the grammar text, the parser options and the lark and Python
+versions, and the rest (lark's ``Lark.save``, a pickle) is loaded only when
+that line matches and the file is the user's own and writable by nobody else.
+Anything else (no such file, another grammar's, a corrupted one, a folder
+that cannot be written) means building the parser in memory, silently.
 """
 
 from __future__ import annotations
 
+import hashlib
+import os
+import stat
+import sys
+import tempfile
 from functools import cache
 from pathlib import Path
 
-from lark import Lark
+from lark import Lark, __version__ as LARK_VERSION
 
 GRAMMAR_FILE = "notation.lark"
 START_SYMBOLS = ("formula_spec", "claim")
+PARSER_OPTIONS = {"parser": "lalr", "lexer": "contextual", "start": list(START_SYMBOLS)}
+
+CACHE_FOLDER_NAME = "notelsp"
+CACHE_MAGIC = b"notelsp-grammar-cache-1 "
+# One cache file per interpreter and lark version; a new grammar replaces the file of the same prefix.
+CACHE_PREFIX = f"grammar-py{sys.version_info[0]}{sys.version_info[1]}-lark{LARK_VERSION}-"
+CACHE_SUFFIX = ".cache"
 
 
 def grammar_text() -> str:
@@ -27,8 +50,80 @@ def grammar_text() -> str:
 
 @cache
 def parser() -> Lark:
-    """The one LALR parser for both start symbols (built on first use)."""
-    return Lark(grammar_text(), parser="lalr", lexer="contextual", start=list(START_SYMBOLS))
+    """The one LALR parser for both start symbols (loaded from the cache or built, on first use)."""
+    text = grammar_text()
+    fingerprint = grammar_fingerprint(text)
+    folder = cache_folder()
+    path = folder / f"{CACHE_PREFIX}{fingerprint[:16]}{CACHE_SUFFIX}" if folder is not None else None
+    if path is not None:
+        loaded = load_cached_parser(path, fingerprint)
+        if loaded is not None:
+            return loaded
+    built = Lark(text, **PARSER_OPTIONS)
+    if path is not None:
+        save_cached_parser(built, path, fingerprint)
+    return built
+
+
+def grammar_fingerprint(text: str) -> str:
+    """What a cached parser must have been built from: grammar, options, lark and Python versions."""
+    identity = "\0".join((text, repr(sorted(PARSER_OPTIONS.items())), LARK_VERSION, sys.version))
+    return hashlib.sha256(identity.encode("utf-8")).hexdigest()
+
+
+def cache_folder() -> Path | None:
+    """$XDG_CACHE_HOME/notelsp (an absolute XDG_CACHE_HOME only), else ~/.cache/notelsp; None without a home."""
+    base = os.environ.get("XDG_CACHE_HOME", "")
+    if not os.path.isabs(base):
+        try:
+            base = str(Path.home() / ".cache")
+        except (RuntimeError, KeyError, OSError):
+            return None
+    return Path(base) / CACHE_FOLDER_NAME
+
+
+def load_cached_parser(path: Path, fingerprint: str) -> Lark | None:
+    """The parser saved at ``path`` if the file is verifiably this grammar's and the user's own; else None."""
+    try:
+        with open(path, "rb") as handle:
+            if not _trusted(os.fstat(handle.fileno())):
+                return None
+            if handle.readline() != CACHE_MAGIC + fingerprint.encode("ascii") + b"\n":
+                return None
+            loaded = Lark.load(handle)  # unpickles: only after the checks above
+    except Exception:  # absent, unreadable, truncated or corrupted: build instead
+        return None
+    return loaded if isinstance(loaded, Lark) else None
+
+
+def _trusted(status: os.stat_result) -> bool:
+    """A regular file owned by this user that no one else may write."""
+    owner_is_us = not hasattr(os, "getuid") or status.st_uid == os.getuid()
+    return stat.S_ISREG(status.st_mode) and owner_is_us and not status.st_mode & (stat.S_IWGRP | stat.S_IWOTH)
+
+
+def save_cached_parser(built: Lark, path: Path, fingerprint: str) -> None:
+    """Write the cache file whole or not at all (a temporary file renamed); never raises."""
+    temporary = None
+    try:
+        path.parent.mkdir(mode=0o700, parents=True, exist_ok=True)
+        descriptor, temporary = tempfile.mkstemp(dir=path.parent, prefix=".grammar-", suffix=".tmp")
+        with os.fdopen(descriptor, "wb") as handle:
+            handle.write(CACHE_MAGIC + fingerprint.encode("ascii") + b"\n")
+            built.save(handle)
+        os.replace(temporary, path)
+        temporary = None
+        for stale in path.parent.glob(f"{CACHE_PREFIX}*{CACHE_SUFFIX}"):  # an earlier grammar's
+            if stale != path:
+                stale.unlink(missing_ok=True)
+    except Exception:  # a read-only or full disk: the parser in memory is enough
+        pass
+    finally:
+        if temporary is not None:
+            try:
+                os.unlink(temporary)
+            except OSError:
+                pass
 
 
 # Every word the claim grammar knows, for suggestions on unknown words.
