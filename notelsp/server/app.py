@@ -41,6 +41,9 @@ FEATURES = (
     "completion",
     "inlay_hints",
     "symbols",
+    "workspace_diagnostics",
+    "workspace_symbols",
+    "semantic_tokens",
 )
 OPTIONAL_FEATURES = ("crosscheck",)
 
