@@ -1,7 +1,12 @@
 """`notelsp check` in a child process: formats, exit statuses, file discovery."""
 
 import json
+import os
 import re
+import subprocess
+import sys
+
+import pytest
 
 from .conftest import run_notelsp
 
@@ -88,3 +93,48 @@ def test_demo_runs_and_exits_0():
     assert result.returncode == 0, result.stderr
     assert "notebook.md" in result.stdout and "error[" in result.stdout
     assert "safety data sheet" in result.stdout
+
+
+ODD_NAME = b"odd\xffname\nx.md"  # a byte that is not UTF-8, and a newline: both allowed in POSIX file names
+
+
+def _strict_run(*args: str, cwd) -> subprocess.CompletedProcess:
+    """The command with a strict UTF-8 output stream: anything not valid UTF-8 would fail it."""
+    environment = {**os.environ, "PYTHONIOENCODING": "utf-8:strict"}
+    return subprocess.run([sys.executable, "-m", "notelsp", *args], capture_output=True, cwd=cwd, env=environment,
+                          timeout=120)
+
+
+@pytest.fixture
+def odd_note(tmp_path):
+    if sys.platform in ("win32", "darwin"):
+        pytest.skip("this file system does not keep a name of arbitrary bytes")
+    (tmp_path / os.fsdecode(ODD_NAME)).write_text("{XeF2: bent} {ClF3: trigonal planar}\n", encoding="utf-8")
+    return tmp_path
+
+
+def test_odd_file_name_gives_valid_utf8_one_line_per_finding(odd_note):
+    result = _strict_run("check", ".", cwd=odd_note)
+    assert result.returncode == 1, result.stderr
+    text = result.stdout.decode("utf-8")  # strict: raises if any byte is not UTF-8
+    findings = [line for line in text.splitlines() if LINE.match(line)]
+    assert len(findings) == 2  # two findings, two lines: the newline in the name did not split one
+    assert all(line.removeprefix("./").startswith("odd\\xffname\\nx.md:1:") for line in findings), findings
+
+
+def test_odd_file_name_in_json_is_escaped_and_valid(odd_note):
+    result = _strict_run("check", "--format", "json", ".", cwd=odd_note)
+    report = json.loads(result.stdout.decode("utf-8"))
+    (entry,) = report["files"]
+    # the undecodable byte as text; the newline is a JSON escape, as any control character is
+    assert entry["path"].removeprefix("./") == "odd\\xffname\nx.md"
+    assert result.stdout.count(b"\n") == 1
+    assert len(entry["findings"]) == 2
+
+
+def test_control_characters_in_a_claim_are_escaped_for_the_terminal(tmp_path):
+    # An ESC sequence (ECMA-48 CSI "ESC [ 2 J" clears the screen) written inside a claim.
+    (tmp_path / "esc.md").write_text("{XeF2: \x1b[2Jbent}\n", encoding="utf-8")
+    result = run_notelsp("check", str(tmp_path / "esc.md"))
+    assert "\x1b" not in result.stdout and "\x1b" not in result.stderr
+    assert "\\x1b" in result.stdout, result.stdout
