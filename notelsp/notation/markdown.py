@@ -53,10 +53,17 @@ _SEGMENTS, _BONDING = attrgetter("segments"), attrgetter("bonding")
 # unchanged text, started.
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(slots=True)
 class _Parsed:
     text: str
     parsed: ParsedBlocks
+    _reaches_across: bool | None = None  # found out when first compared with a later version
+
+    def reaches_across(self) -> bool:
+        """Whether this version may hold a link reference definition or a "$$" line."""
+        if self._reaches_across is None:
+            self._reaches_across = _may_define_or_open_math(self.text)
+        return self._reaches_across
 
 
 _RECENT_LIMIT = 4  # documents remembered for incremental re-parsing (about one per open editor)
@@ -82,11 +89,14 @@ def _blocks_of(text: str) -> ParsedBlocks:
             return remembered.parsed
     parsed = None
     # Reference definitions reach across blocks, and whether a '$$' line opens display math
-    # depends on a closing line anywhere below it: with either, parse the whole text.  So
-    # does a lone CR, a line break too rare in notes to be worth re-parsing around.
-    # Each test reads the whole text: only made when there is an earlier version to compare with.
+    # depends on a closing line anywhere below it: with either, in this version or in the one
+    # it is compared with (an edit may remove or change a definition every link relied on),
+    # parse the whole text.  So does a lone CR, a line break too rare in notes to be worth
+    # re-parsing around.  Each test reads the whole text: only made when there is an earlier
+    # version to compare with.
     if recent and not _may_define_or_open_math(text) and ("\r" not in text or text.count("\r") == text.count("\r\n")):
-        previous = _closest(recent, text)
+        comparable = [remembered for remembered in recent if not remembered.reaches_across()]
+        previous = _closest(comparable, text) if comparable else None
         if previous is not None:
             parsed = _reparsed(previous, text)
     if parsed is None:

@@ -79,3 +79,79 @@ def test_a_character_typed_inside_a_line_reparses_to_the_whole_text_result(lines
     after = before[:at] + typed + before[at:]
     structure = markdown_structure(after)
     assert (structure.segments, structure.bonding_lines) == _whole(after)
+
+
+# --- chains of random edits, each compared with a whole parse ------------------------------
+
+import random  # noqa: E402
+
+from notelsp.notation.markdown import forget_documents  # noqa: E402
+from tests.reliability.scale import scaled, tried  # noqa: E402
+
+# Lines that reach across blocks (reference definitions and the links that use them), added
+# to the structural lines above (common practice, no source).
+REACHING_LINES = [
+    "[{H2O: bent}]: /url",
+    "[lab]: </a b> 'title {NH3: bent}'",
+    "see [a][{H2O: bent}] and [lab] {XeF4: square planar}",
+    "[{H2O: bent}] alone",
+    "$$ {SF6} $$",
+    "text $$",
+]
+EDIT_COUNT = scaled(3_000, 100_000)
+_TYPED = ["x", ":", "]", "[", "`", "{", "}", "\n", "\n\n", "$", "<", "-", "#", " ", ">", "|", "~~~", "```"]
+
+
+def _random_edit(rng: random.Random, text: str) -> str:
+    """One edit: typed characters, a deletion of characters or lines, or pasted lines."""
+    position = rng.randint(0, len(text))
+    kind = rng.randrange(6)
+    if kind == 0:
+        return text[:position] + rng.choice(_TYPED) + text[position:]
+    if kind in (1, 2):  # deletions are as common as typing: they remove what later text relied on
+        return text[:position] + text[position + rng.randint(1, 4 if kind == 1 else 40) :]
+    line_start = text.rfind("\n", 0, position) + 1
+    if kind == 3:
+        pasted = "\n".join(rng.choice(LINES + REACHING_LINES) for _ in range(rng.randint(1, 4)))
+        return text[:line_start] + pasted + "\n" + text[line_start:]
+    if kind == 4:
+        line_end = text.find("\n", position)
+        return text[:line_start] + (text[line_end + 1 :] if line_end != -1 else "")
+    # The ':' of a reference definition deleted (or typed back): the edit the links depend on.
+    colon = text.find("]:")
+    if colon != -1:
+        return text[: colon + 1] + text[colon + 2 :]
+    bracket = text.find("] ")
+    return text if bracket == -1 else text[: bracket + 1] + ":" + text[bracket + 1 :]
+
+
+def test_random_edit_chains_reparse_to_the_whole_text_result():
+    """Edits applied one after another to open documents (the version before each is the one
+    remembered), every result compared with a parse of the whole text."""
+    rng = random.Random(20261203)
+    done, differing = 0, []
+    while done < EDIT_COUNT:
+        forget_documents()
+        text = "\n".join(rng.choice(LINES + REACHING_LINES) for _ in range(rng.randint(0, 40))) + "\n"
+        markdown_structure(text)
+        for _ in range(25):
+            before, text = text, _random_edit(rng, text)
+            structure = markdown_structure(text)
+            done += 1
+            if (structure.segments, structure.bonding_lines) != _whole(text):
+                differing.append((before, text))
+                forget_documents()
+                markdown_structure(text)
+    tried("incremental re-parses compared with a whole parse (random edit chains)", done)
+    assert not differing, f"{len(differing)} of {done} edits differ; the smallest:\n{min(differing, key=lambda p: len(p[1]))!r}"
+
+
+def test_deleting_a_definitions_colon_shows_the_annotation_in_a_link_far_below():
+    """The link below is re-read once the definition it used is gone (it is then plain text)."""
+    before = "[{H2O: bent}]: /u\n\n" + "p\n\n" * 6 + "see [a][{H2O: bent}]\n"
+    after = before.replace("]:", "]", 1)
+    forget_documents()
+    markdown_structure(before)
+    structure = markdown_structure(after)
+    assert (structure.segments, structure.bonding_lines) == _whole(after)
+    assert [segment.text for segment in structure.segments] == ["[{H2O: bent}] /u", "see [a][{H2O: bent}]"]
