@@ -13,6 +13,7 @@ from . import isomers as isomer_module
 from .bent import BentAnalysis, bent
 from .coulson import TYPICAL_ANGLES, CoulsonAnalysis, solve_hybrids
 from .drago import DragoAnalysis, drago
+from .exceptions import USUAL, KnownException, known_exception
 from .hazards import cautions as hazard_cautions
 from .model import Ligand
 from .species import CentreModel, build_species
@@ -54,6 +55,17 @@ class CentreAnalysis:
     isomers: tuple[isomer_module.Isomer, ...]
     notes: tuple[str, ...]
     isomers_withheld: str | None = None  # why no isomers were listed (too many arrangements); None when they were
+    exception: KnownException | None = None  # where plain VSEPR is known to fail for this kind of centre
+
+    @property
+    def confidence(self) -> str:
+        """"firm" for plain VSEPR, else the exception's "usual" or "uncertain"."""
+        return self.exception.confidence if self.exception else "firm"
+
+    @property
+    def plausible_shapes(self) -> tuple[str, ...]:
+        """Shapes a claim may name without being flagged: the prediction and what the exception allows."""
+        return (self.shape, *(self.exception.also_plausible if self.exception else ()))
 
     def ranges_for(self, a: str, b: str) -> tuple[PairRange, ...]:
         """Every expected range for the angle a-centre-b (labels or element symbols)."""
@@ -142,11 +154,24 @@ def _analyse_centre(centre: CentreModel, formula_text: str) -> CentreAnalysis | 
         return (f"{centre.central} with {bonded} bonded atoms and {lone_pairs} lone pairs has steric number "
                 f"{bonded + lone_pairs + (1 if odd else 0)}, outside the VSEPR range 2-7")
     bent_result = bent(centre.central, centre.ligands, lone_pairs, result.steric_number)
-    ranges = _pair_ranges(centre.ligands, result.site_angles, bent_result)
+    exception = known_exception(centre.central, centre.ligands, lone_pairs, odd, centre.charge)
+    shape, geometry, hybridization = result.shape, result.electron_geometry, result.hybridization
+    site_angles, isomer_sites = result.site_angles, lone_pairs + (1 if odd else 0)
+    if exception is not None:
+        shape, geometry, hybridization = exception.shape, exception.electron_geometry, exception.hybridization
+        site_angles, isomer_sites = exception.site_angles, exception.lone_pair_sites
+    elif drago_result.applies:
+        hybridization = "unhybridized"
+    ranges = _pair_ranges(centre.ligands, site_angles, bent_result)
     coulson = _coulson(centre, formula_text, ranges, lone_pairs + odd, result.steric_number)
-    found_isomers, withheld = _isomers(result.electron_geometry, centre.ligands, lone_pairs, odd, atom.electronegativity)
+    if isomer_sites is None:
+        found_isomers, withheld = (), f"the {exception.name} has no fixed arrangement of sites"
+    else:
+        found_isomers, withheld = _isomers(geometry, centre.ligands, isomer_sites, atom.electronegativity)
     isomer_note = ((f"positional isomers not listed ({withheld}); "
                     "placement, polarity, point-group and isomer-count claims are not checked",) if withheld else ())
+    exception_note = ((f"{'usually' if exception.confidence == USUAL else 'uncertain'}: {exception.name}: "
+                       f"{exception.reason} ({exception.source})",) if exception else ())
     return CentreAnalysis(
         central=centre.central,
         charge=centre.charge,
@@ -156,28 +181,30 @@ def _analyse_centre(centre: CentreModel, formula_text: str) -> CentreAnalysis | 
         lone_pairs=lone_pairs,
         odd_electrons=odd,
         ligands=centre.ligands,
-        electron_geometry=result.electron_geometry,
-        shape=result.shape,
-        hybridization="unhybridized" if drago_result.applies else result.hybridization,
-        ideal_angles=tuple(sorted({a.ideal for a in result.site_angles})),
+        electron_geometry=geometry,
+        shape=shape,
+        hybridization=hybridization,
+        ideal_angles=tuple(sorted({a.ideal for a in site_angles})),
         angle_ranges=ranges,
         coulson=coulson,
         drago=drago_result,
         bent=bent_result,
         isomers=tuple(found_isomers),
-        notes=_notes(centre, atom, lone_pairs, odd, result.steric_number, drago_result) + bent_result.notes + isomer_note,
+        notes=(exception_note + _notes(centre, atom, lone_pairs, odd, result.steric_number, drago_result)
+               + bent_result.notes + isomer_note),
         isomers_withheld=withheld,
+        exception=exception,
     )
 
 
-def _isomers(electron_geometry: str, ligands: tuple[Ligand, ...], lone_pairs: int, odd: int,
+def _isomers(electron_geometry: str, ligands: tuple[Ligand, ...], lone_pair_sites: int,
              centre_electronegativity: float | None) -> tuple[tuple[isomer_module.Isomer, ...], str | None]:
     """The centre's isomers, or none and the reason they were not listed.
 
-    An odd electron occupies a site of its own, so it is placed like a lone pair.
+    An odd electron occupies a site of its own (counted in ``lone_pair_sites``), so it is placed like a lone pair.
     """
     try:
-        found = isomer_module.isomers_for(electron_geometry, ligands, lone_pairs + (1 if odd else 0),
+        found = isomer_module.isomers_for(electron_geometry, ligands, lone_pair_sites,
                                           centre_electronegativity=centre_electronegativity)
     except ValueError as error:  # IsomerLimitExceeded included: its message gives the count and the limit
         return (), str(error)

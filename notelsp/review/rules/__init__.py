@@ -32,15 +32,21 @@ class Rule:
     claims: tuple[type[Claim], ...]  # claim types it checks; () means once per annotation
     check: Check
     whole_note: bool = False  # checks the note itself (a DocumentContext), not an annotation
+    judges_geometry: bool = False  # compares a claim with the predicted geometry: capped where the model is unsure
 
 
 RULES: dict[str, Rule] = {}
 
 
 def rule(
-    code: str, *, severity: Severity, claims: tuple[type[Claim], ...] = (), whole_note: bool = False
+    code: str, *, severity: Severity, claims: tuple[type[Claim], ...] = (), whole_note: bool = False,
+    judges_geometry: bool = False,
 ) -> Callable[[Check], Check]:
-    """Register ``check`` as the rule ``code`` (``whole_note``: it is given a :class:`DocumentContext`)."""
+    """Register ``check`` as the rule ``code`` (``whole_note``: it is given a :class:`DocumentContext`).
+
+    ``judges_geometry``: the rule compares a claim with the predicted shape or angles, so where the
+    species is a known exception to plain VSEPR its findings are capped (see :meth:`RuleContext.finding`).
+    """
 
     def register(check: Check) -> Check:
         if code in RULES:
@@ -49,7 +55,8 @@ def rule(
         title, _, explanation = doc.partition("\n")
         if not title:
             raise ValueError(f"rule {code!r} has no docstring")
-        RULES[code] = Rule(code, title.strip(), explanation.strip(), severity, claims, check, whole_note)
+        RULES[code] = Rule(code, title.strip(), explanation.strip(), severity, claims, check, whole_note,
+                           judges_geometry)
         return check
 
     return register
@@ -79,9 +86,20 @@ class RuleContext:
         claim = self.claim
         where = span or (claim.span if claim else self.annotation.span)
         formula = self.annotation.formula
+        severity = self.settings.severity_of(self.rule)
+        exception = self.exception if self.rule.judges_geometry else None
+        if exception is not None:
+            # Trust: where the model only knows what "usually" happens, a contrary claim is at most a
+            # warning; where it cannot decide, information with the reason and no rewriting fix.
+            if exception.confidence == "uncertain":
+                severity, fixes = _milder(severity, Severity.INFORMATION), ()
+                message = f"{message} (uncertain: {exception.reason})"
+            else:
+                severity = _milder(severity, Severity.WARNING)
+                message = f"{message} (usually so: {exception.name})"
         return Finding(
             code=self.rule.code,
-            severity=self.settings.severity_of(self.rule),
+            severity=severity,
             message=message,
             span=where,
             formula=" vs ".join(f.text for f in self.annotation.formulas) if formula else "",
@@ -89,10 +107,26 @@ class RuleContext:
             fixes=tuple(fixes),
         )
 
+    @property
+    def exception(self) -> Any:
+        """The known exception to plain VSEPR of the species' first centre, if any."""
+        analysis = self.analysis
+        if analysis is None or analysis.outside_model is not None or not analysis.centres:
+            return None
+        return analysis.centres[0].exception
+
     def replace_claim(self, replacement: str, title: str | None = None) -> Fix:
         """A fix that rewrites just this claim."""
         assert self.claim is not None
         return Fix(title or f"Replace with '{replacement}'", self.claim.span, replacement)
+
+
+_SEVERITY_ORDER = (Severity.ERROR, Severity.WARNING, Severity.INFORMATION, Severity.HINT)
+
+
+def _milder(configured: Severity, cap: Severity) -> Severity:
+    """The milder of a configured severity and a cap (a rule set to hint stays a hint)."""
+    return max(configured, cap, key=_SEVERITY_ORDER.index)
 
 
 @dataclass(frozen=True, slots=True)

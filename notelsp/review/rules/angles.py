@@ -51,7 +51,7 @@ def _in_expected_isomer(centre, ranges):
     return kept or ranges
 
 
-@rule("implausible-angle", severity=Severity.WARNING, claims=(AngleClaim,))
+@rule("implausible-angle", severity=Severity.WARNING, claims=(AngleClaim,), judges_geometry=True)
 def implausible_angle(context: RuleContext) -> Iterator[Finding]:
     """A claimed bond angle lies outside the range VSEPR and the bonding rules predict.
 
@@ -90,7 +90,7 @@ def implausible_angle(context: RuleContext) -> Iterator[Finding]:
     )
 
 
-@rule("angle-order-against-bent", severity=Severity.WARNING, claims=(AngleOrderClaim,))
+@rule("angle-order-against-bent", severity=Severity.WARNING, claims=(AngleOrderClaim,), judges_geometry=True)
 def angle_order_against_bent(context: RuleContext) -> Iterator[Finding]:
     """A claimed order of two bond angles contradicts Bent's rule (or its steric exception).
 

@@ -46,7 +46,7 @@ def _hybrid_centre(context: RuleContext):
     return centre
 
 
-@rule("index-angle-mismatch", severity=Severity.WARNING, claims=(IndexClaim, HybridizationClaim))
+@rule("index-angle-mismatch", severity=Severity.WARNING, claims=(IndexClaim, HybridizationClaim), judges_geometry=True)
 def index_angle_mismatch(context: RuleContext) -> Iterator[Finding]:
     """A claimed hybridization index does not fit the bond angle by Coulson's theorem.
 
@@ -85,7 +85,7 @@ def index_angle_mismatch(context: RuleContext) -> Iterator[Finding]:
     )
 
 
-@rule("s-character-mismatch", severity=Severity.WARNING, claims=(SCharacterClaim,))
+@rule("s-character-mismatch", severity=Severity.WARNING, claims=(SCharacterClaim,), judges_geometry=True)
 def s_character_mismatch(context: RuleContext) -> Iterator[Finding]:
     """A claimed s-character of the bonds does not fit the bond angle by Coulson's theorem.
 

@@ -42,7 +42,10 @@ def isomers_not_enumerated(context: RuleContext) -> Iterator[Finding]:
     bipyramid: 5,040).  Above a fixed limit, given in the message, the
     enumeration is skipped to keep each check fast: placement, polarity,
     point-group and isomer-count claims about the species go unchecked, while
-    shape, lone-pair, angle and hybridization claims are still checked.
+    shape, lone-pair, angle and hybridization claims are still checked.  A
+    known exception to VSEPR without fixed sites (XeF6's fluxional octahedron,
+    a bent alkaline-earth dihalide) has no isomers to list either; that is
+    said only where a claim needing them goes unchecked.
     """
     for index, (formula, analysis) in enumerate(zip(context.annotation.formulas, context.analyses)):
         withheld = next((c.isomers_withheld for c in getattr(analysis, "centres", ()) if c.isomers_withheld), None)
@@ -51,6 +54,8 @@ def isomers_not_enumerated(context: RuleContext) -> Iterator[Finding]:
         # the isomer rules judge the first species only, so only its claims go unchecked
         claims = context.annotation.claims if index == 0 else ()
         unchecked = [f"'{claim.text}'" for claim in claims if isinstance(claim, _NEEDS_ISOMERS)]
+        if not unchecked and any(c.exception is not None for c in analysis.centres):
+            continue  # a known exception without fixed sites: only worth saying when a claim goes unchecked
         consequence = (f"not checked: {', '.join(unchecked)}" if unchecked
                        else "placement, polarity, point-group and isomer-count claims cannot be checked")
         yield context.finding(f"{formula.text}: positional isomers not listed ({withheld}); {consequence}", span=formula.span)
@@ -133,7 +138,7 @@ def placement_text(isomer: Isomer, claim: PlacementClaim) -> str | None:
     return None
 
 
-@rule("misplaced-ligand", severity=Severity.WARNING, claims=(PlacementClaim,))
+@rule("misplaced-ligand", severity=Severity.WARNING, claims=(PlacementClaim,), judges_geometry=True)
 def misplaced_ligand(context: RuleContext) -> Iterator[Finding]:
     """A ligand or lone pair is claimed on a site the expected isomer does not put it on.
 
@@ -172,7 +177,7 @@ def _agreed_expected(context: RuleContext, attribute: str) -> Isomer | None:
     return best[0]
 
 
-@rule("wrong-polarity", severity=Severity.WARNING, claims=(PolarityClaim,))
+@rule("wrong-polarity", severity=Severity.WARNING, claims=(PolarityClaim,), judges_geometry=True)
 def wrong_polarity(context: RuleContext) -> Iterator[Finding]:
     """The claimed polarity differs from that of the expected isomer.
 
@@ -193,7 +198,7 @@ def wrong_polarity(context: RuleContext) -> Iterator[Finding]:
     )
 
 
-@rule("wrong-point-group", severity=Severity.WARNING, claims=(PointGroupClaim,))
+@rule("wrong-point-group", severity=Severity.WARNING, claims=(PointGroupClaim,), judges_geometry=True)
 def wrong_point_group(context: RuleContext) -> Iterator[Finding]:
     """The claimed point group differs from that of the expected isomer.
 
@@ -212,7 +217,7 @@ def wrong_point_group(context: RuleContext) -> Iterator[Finding]:
     )
 
 
-@rule("wrong-isomer-count", severity=Severity.WARNING, claims=(IsomerCountClaim,))
+@rule("wrong-isomer-count", severity=Severity.WARNING, claims=(IsomerCountClaim,), judges_geometry=True)
 def wrong_isomer_count(context: RuleContext) -> Iterator[Finding]:
     """The claimed number of positional isomers differs from the count of distinct arrangements.
 

@@ -5,6 +5,7 @@ from __future__ import annotations
 from collections.abc import Iterator
 
 from ...notation.model import ElectronGeometryClaim, HybridizationClaim, LonePairClaim, ShapeClaim
+from ...chem.vsepr import HYBRIDIZATION
 from ..findings import Finding, Severity
 from . import RuleContext, rule
 
@@ -27,7 +28,7 @@ def _domains(centre) -> str:
             f"pair{'s' if centre.lone_pairs != 1 else ''}{odd}: steric number {centre.steric_number}")
 
 
-@rule("wrong-shape", severity=Severity.ERROR, claims=(ShapeClaim,))
+@rule("wrong-shape", severity=Severity.ERROR, claims=(ShapeClaim,), judges_geometry=True)
 def wrong_shape(context: RuleContext) -> Iterator[Finding]:
     """The claimed molecular shape differs from the VSEPR prediction.
 
@@ -38,15 +39,16 @@ def wrong_shape(context: RuleContext) -> Iterator[Finding]:
     """
     centre = first_centre(context)
     claim = context.claim
-    if centre is None or not isinstance(claim, ShapeClaim) or claim.shape == centre.shape:
+    if centre is None or not isinstance(claim, ShapeClaim) or claim.shape in centre.plausible_shapes:
         return
+    source = f"expected as a {centre.exception.name}:" if centre.exception else "VSEPR predicts"
     yield context.finding(
-        f"{context.analysis.formula} is claimed {words(claim.shape)}; VSEPR predicts {words(centre.shape)} ({_domains(centre)})",
+        f"{context.analysis.formula} is claimed {words(claim.shape)}; {source} {words(centre.shape)} ({_domains(centre)})",
         fixes=[context.replace_claim(words(centre.shape))],  # written as the README writes shapes
     )
 
 
-@rule("wrong-electron-geometry", severity=Severity.ERROR, claims=(ElectronGeometryClaim,))
+@rule("wrong-electron-geometry", severity=Severity.ERROR, claims=(ElectronGeometryClaim,), judges_geometry=True)
 def wrong_electron_geometry(context: RuleContext) -> Iterator[Finding]:
     """The claimed electron-domain geometry differs from the VSEPR prediction.
 
@@ -64,7 +66,7 @@ def wrong_electron_geometry(context: RuleContext) -> Iterator[Finding]:
     )
 
 
-@rule("wrong-hybridization", severity=Severity.ERROR, claims=(HybridizationClaim,))
+@rule("wrong-hybridization", severity=Severity.ERROR, claims=(HybridizationClaim,), judges_geometry=True)
 def wrong_hybridization(context: RuleContext) -> Iterator[Finding]:
     """The claimed hybridization label differs from the one the steric number implies.
 
@@ -79,6 +81,10 @@ def wrong_hybridization(context: RuleContext) -> Iterator[Finding]:
         return
     if claim.label == centre.hybridization:
         return
+    exception = centre.exception
+    if exception is not None and (claim.label == HYBRIDIZATION.get(centre.steric_number)
+                                  or claim.label in exception.also_hybridization):
+        return  # the textbook label stays acceptable bookkeeping where the exception changes the bonding
     formula = context.analysis.formula
     if centre.drago.applies:
         message = (f"{formula} is claimed {claim.label}; Drago's rule predicts nearly unhybridized "

@@ -1,0 +1,59 @@
+"""Where the model is unsure it says so: capped severity, the reason, no rewriting fix.
+
+The chemistry behind each case is in tests/chem/test_exceptions.py with its source.
+"""
+
+from __future__ import annotations
+
+import pytest
+
+from notelsp.review.document import review_text
+from notelsp.review.findings import Severity
+from notelsp.review.settings import settings_from_mapping
+
+from .helpers import review, with_code
+
+
+@pytest.mark.parametrize("note, code", [
+    ("{XeF6: square planar}", "wrong-shape"),          # distorted octahedron, detail uncertain
+    ("{CH2: H-C-H 150°}", "implausible-angle"),        # triplet ~132°, singlet ~102°: beyond both still unsure
+    ("{NH2(COCH3): tetrahedral}", "wrong-shape"),      # amide-like group may make N planar
+    ("{CCl3: T-shaped}", "wrong-shape"),               # between planar and pyramidal radicals
+])
+def test_an_uncertain_prediction_gives_information_without_a_fix(note, code):
+    (finding,) = with_code(note, code)
+    assert finding.severity is Severity.INFORMATION
+    assert finding.fixes == ()
+    assert "uncertain:" in finding.message
+
+
+@pytest.mark.parametrize("note", [
+    "{XeF6: octahedral}", "{XeF6: pentagonal pyramidal}", "{BaF2: linear}", "{BaF2: bent}", "{CaF2: linear}",
+    "{NH2(COCH3): trigonal planar, sp2}", "{NH2(C6H5): sp2}", "{SnCl2: sp2}", "{SnCl2: unhybridized}",
+])
+def test_what_the_exception_allows_is_not_flagged(note):
+    assert not [f for f in review(note).findings if f.code != "isomers-not-enumerated"]
+
+
+@pytest.mark.parametrize("note, code", [
+    ("{CH3: trigonal pyramidal}", "wrong-shape"),  # planar as a rule (G2), but only "usually"
+    ("{SnCl2: Cl-Sn-Cl 119°}", "implausible-angle"),
+])
+def test_a_usual_exception_is_at_most_a_warning_and_says_usually(note, code):
+    (finding,) = with_code(note, code)
+    assert finding.severity in (Severity.WARNING, Severity.INFORMATION, Severity.HINT)
+    assert "usually so" in finding.message
+
+
+def test_plain_vsepr_keeps_its_error_and_fix():
+    (finding,) = with_code("{NH3: trigonal planar}", "wrong-shape")
+    assert finding.severity is Severity.ERROR
+    assert [fix.replacement for fix in finding.fixes] == ["trigonal pyramidal"]
+
+
+def test_a_rule_set_milder_than_the_cap_stays_milder():
+    settings, problems = settings_from_mapping({"severity": {"wrong-shape": "hint"}})
+    assert not problems
+    (finding,) = [f for f in review_text("{XeF6: square planar}", "markdown", settings).findings
+                  if f.code == "wrong-shape"]
+    assert finding.severity is Severity.HINT
