@@ -27,7 +27,8 @@ from ..review.settings import Settings
 from ..review.workspace import cached_review, is_reviewed
 from .positions import LineIndex, line_index
 from .exiting import leave_now
-from .protocol import NoteProtocol, ResyncingInput, report_wire_fault
+from .framing import FrameInput
+from .protocol import NoteProtocol, report_wire_fault
 
 log = logging.getLogger("notelsp.server")
 
@@ -44,6 +45,7 @@ FEATURES = (
     "workspace_diagnostics",
     "workspace_symbols",
     "semantic_tokens",
+    "notebooks",
 )
 OPTIONAL_FEATURES = ("crosscheck",)
 
@@ -73,8 +75,9 @@ class NoteServer(LanguageServer):
         """Serve ``stdin`` (the fast start-up hands a :class:`~.quickstart.ClientInput`)."""
         # End of input means the client is gone: leave at once (status 0, or 1 after an exit
         # without shutdown), without waiting for running reviews.
-        on_end = lambda: leave_now(self.protocol.exit_status)  # noqa: E731
-        super().start_io(ResyncingInput(stdin or sys.stdin.buffer, on_end=on_end), stdout)
+        frames = stdin if isinstance(stdin, FrameInput) else FrameInput(stdin or sys.stdin.buffer)
+        frames.on_end = lambda: leave_now(self.protocol.exit_status)  # bounded frames only: see framing
+        super().start_io(frames, stdout)
 
     def report_server_error(self, error: Exception, source) -> None:
         if source is JsonRpcException:  # the reader's own: a faulty frame from the client, not our failure
@@ -93,8 +96,18 @@ class NoteServer(LanguageServer):
         return _relative_path(uri, self.root)
 
     def is_reviewed(self, uri: str) -> bool:
+        from .notebooks import reviewed_cell  # a notebook's cell is judged by its notebook, not its URI
+
+        if (cell := reviewed_cell(self, uri)) is not None:
+            return cell
         relative = self.relative_path(uri)
         return relative is not None and is_reviewed(relative, self.settings)
+
+    def review_kind(self, uri: str):
+        """How a reviewed document is read: a notebook's cell as Markdown, a file by its name."""
+        from .notebooks import reviewed_cell
+
+        return "markdown" if reviewed_cell(self, uri) else kind_of_path(self.relative_path(uri) or uri)
 
     def open_document(self, uri: str):
         """The open text document, or None (never read from disk)."""
@@ -109,7 +122,7 @@ class NoteServer(LanguageServer):
         review = None
         if self.is_reviewed(uri):
             try:
-                review = cached_review(text, kind_of_path(self.relative_path(uri) or uri), self.settings)
+                review = cached_review(text, self.review_kind(uri), self.settings)
             except Exception:
                 log.exception("review of %s failed", uri)
         return HeldDocument(uri, document.version, text, line_index(text, self.encoding()), review)

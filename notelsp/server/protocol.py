@@ -12,6 +12,13 @@
 - ``$/cancelRequest`` also cancels what a generator handler is running for the
   request (pygls cancels only the request's own future, so an executeCommand's
   command would run on).
+- A notification method sent with an ``id`` is a request in JSON-RPC 2.0: it is
+  handled as the notification and answered (result null); pygls never answers it.
+- pygls keeps the future of every notification and generator step it runs
+  (``_request_futures``, keyed by a fresh uuid nobody asks for again); here each
+  is dropped once done, so a long session does not grow by one per message.
+- Frames reach pygls bounded and well-formed (``framing.FrameInput``); a refused
+  frame arrives as a JSON value that is no message and is answered like one.
 """
 
 from __future__ import annotations
@@ -19,6 +26,7 @@ from __future__ import annotations
 import json
 import logging
 from concurrent.futures import Future
+from functools import partial
 from typing import Any, Callable
 
 from pygls.exceptions import (
@@ -33,32 +41,6 @@ from pygls.protocol import LanguageServerProtocol
 from .documents import spliced
 
 log = logging.getLogger("notelsp.server")
-
-
-HEADER = b"Content-Length:"
-
-
-class ResyncingInput:
-    """The client's byte stream, read so that a wrong Content-Length costs one frame, not the session.
-
-    After a frame with a wrong length the next header shares its line with the
-    tail of a body; pygls only accepts a header at the start of a line, so it
-    would never find one again.  Junk before a header is dropped here.
-    """
-
-    def __init__(self, stream, on_end: Callable[[], Any] | None = None) -> None:
-        self.stream = stream
-        self.on_end = on_end  # called when the client closes its end
-
-    def readline(self) -> bytes:
-        line = self.stream.readline()
-        if not line and self.on_end is not None:
-            self.on_end()
-        at = line.find(HEADER)
-        return line[at:] if at > 0 else line
-
-    def read(self, size: int) -> bytes:
-        return self.stream.read(size)
 
 
 class HandledFault(Exception):
@@ -86,6 +68,8 @@ class NoteProtocol(LanguageServerProtocol):
         self._early_reply: tuple[int | str, dict[str, Any]] | None = None
         # request id -> running steps of its generator handler (an executeCommand's command, for one)
         self._request_steps: dict[Any, set[Future]] = {}
+        # (message, id) of the notification just read that carried an id: it is owed an answer
+        self._notification_with_id: tuple[Any, Any] | None = None
 
     def notify_json(self, method: str, params: dict[str, Any]) -> None:
         """Send a notification whose params are JSON already (skips lsprotocol objects and cattrs)."""
@@ -113,8 +97,13 @@ class NoteProtocol(LanguageServerProtocol):
 
     def _execute_handler(self, msg_id, handler, callback, args=None, kwargs=None) -> None:
         super()._execute_handler(msg_id, handler, callback, args, kwargs)
-        step = self._request_futures.get(msg_id)  # only handlers still running (coroutines, threads) have one
-        if step is None or step.done():
+        step = self._request_futures.get(msg_id)  # only coroutine, thread and generator handlers have one
+        if step is None:
+            return
+        if not (isinstance(callback, partial) and callback.func == self._send_handler_result):
+            # a notification's or a generator step's future, under a uuid: pygls never drops it
+            step.add_done_callback(lambda done: self._drop_future(msg_id, done))
+        if step.done():
             return
         request = self._ctx_msg_id.get()  # the client's request this runs for (a step has an id of its own)
         if request is None or request == msg_id:
@@ -122,6 +111,10 @@ class NoteProtocol(LanguageServerProtocol):
         steps = self._request_steps.setdefault(request, set())
         steps.add(step)
         step.add_done_callback(lambda done: self._forget_step(request, done))
+
+    def _drop_future(self, msg_id, future) -> None:
+        if self._request_futures.get(msg_id) is future:
+            del self._request_futures[msg_id]
 
     def _forget_step(self, request, step) -> None:
         steps = self._request_steps.get(request)
@@ -139,7 +132,10 @@ class NoteProtocol(LanguageServerProtocol):
 
     def structure_message(self, data: dict[str, Any]):
         try:
-            return super().structure_message(data)
+            message = super().structure_message(data)
+            if "id" in data and "method" in data and not hasattr(message, "id"):  # a notification's type
+                self._notification_with_id = (message, data["id"])
+            return message
         except Exception as error:
             if "method" not in data or "id" not in data:  # a response or notification: ignored per spec
                 raise HandledFault(f"unreadable message {data.get('method')!r}: {error}") from error
@@ -154,9 +150,20 @@ class NoteProtocol(LanguageServerProtocol):
     def handle_message(self, message):
         if getattr(message, "method", None) == "exit":
             self.exit_status = 0 if self._shutdown else 1
-        if not hasattr(message, "jsonrpc"):  # a JSON value that is no message: [], 1, {}, null
+        if not hasattr(message, "jsonrpc"):  # a JSON value that is no message: [], 1, {}, null, a refused frame
             self.answer_fault(None, JsonRpcInvalidRequest())
-            raise HandledFault(f"not a JSON-RPC message: {type(message).__name__}")
+            refused = message.get("frameRefused") if isinstance(message, dict) else None
+            raise HandledFault(f"refused a frame: {refused}" if isinstance(refused, str)
+                               else f"not a JSON-RPC message: {type(message).__name__}")
+        owed, self._notification_with_id = self._notification_with_id, None
+        if owed is not None and owed[0] is message:  # JSON-RPC 2.0: with an id it is a request, owed a response
+            if not _usable_id(owed[1]):
+                self.answer_fault(None, JsonRpcInvalidRequest())
+                raise HandledFault(f"notification {message.method!r} with an unusable id")
+            handled = super().handle_message(message)
+            if not self._shutdown or message.method == "exit":
+                self._send_response(owed[1], None)
+            return handled
         return super().handle_message(message)
 
     def answer_fault(self, msg_id: int | str | None, error: JsonRpcException) -> None:

@@ -22,7 +22,7 @@ from typing import Any, BinaryIO
 
 from .. import __version__
 from .exiting import leave_now
-from .framing import read_frame
+from .framing import Frame, FrameInput, read_frame
 from .initialize_snapshot import CAPABILITIES, CHANGES_WHEN_OFFERED
 
 SERVER_NAME = "notelsp"
@@ -121,7 +121,7 @@ def _looks_like_initialize_params(params: Any) -> bool:
 def _initialize_request(body: bytes) -> dict[str, Any] | None:
     try:
         message = json.loads(body)
-    except ValueError:  # not JSON, or not UTF-8
+    except (ValueError, RecursionError):  # not JSON, not UTF-8, or nested beyond the parser
         return None
     if not isinstance(message, dict) or message.get("jsonrpc") != "2.0" or message.get("method") != "initialize":
         return None
@@ -149,27 +149,25 @@ def answer_initialize(stdin: BinaryIO, stdout: BinaryIO) -> EarlyStart | None:
     return EarlyStart(frame.raw, request["id"], result)
 
 
-class ClientInput:
-    """The client's byte stream, read by a thread of its own from the fast start-up on.
+class ClientInput(FrameInput):
+    """The client's frames, read by a thread of its own from the fast start-up on.
 
     Building the server takes about half a second after the early reply.  A
     client that closes its end, or sends ``exit``, in that time must not wait
-    for it: until :meth:`server_ready`, frames are read whole, and either ends
-    the process at once unless a request read meanwhile still wants its answer
-    (a client that sends everything, then closes, is served first).  Every byte
-    read is handed on unchanged, so the server reads (``readline``/``read``)
-    exactly what the client sent, replay first.  Once the server is ready the
-    thread stops after the frame it is reading, and the stream is read
-    directly: no hand-over between threads per message for the rest of the session.
+    for it: until :meth:`server_ready`, frames are read whole (bounded, see
+    ``framing``), and either ends the process at once unless a request read
+    meanwhile still wants its answer (a client that sends everything, then
+    closes, is served first).  The server reads them as :class:`FrameInput`
+    shows them, replay first.  Once the server is ready the thread stops after
+    the frame it is reading, and frames are read directly: no hand-over
+    between threads per message for the rest of the session.
     """
 
     def __init__(self, stream: BinaryIO, replay: bytes = b"") -> None:
-        self._stream = stream
-        self._direct = False  # the thread has stopped: read the stream itself
-        self._buffer = bytearray(replay)
-        self._searched = 0  # bytes of the buffer known to hold no line break
-        self._arrived: queue.SimpleQueue[bytes | None] = queue.SimpleQueue()  # None: the thread has stopped
-        self._ended = False
+        super().__init__(stream, replay)
+        self._replayed = bool(replay)  # the first frame is the one the front read (answered there, or pygls's)
+        self._direct = False  # the thread has stopped: read frames here
+        self._arrived: queue.SimpleQueue[Frame | None] = queue.SimpleQueue()  # None: the thread has stopped
         self._ready = threading.Event()
         self._requests_waiting = False  # a request arrived while building: its answer is owed
         threading.Thread(target=self._pump, name="notelsp-input", daemon=True).start()
@@ -178,68 +176,39 @@ class ClientInput:
         self._ready.set()
 
     def _pump(self) -> None:
-        while not self._ready.is_set():
-            frame = read_frame(self._stream)
-            method = self._method_of(frame.body)
-            if not self._ready.is_set() and not self._requests_waiting:
+        try:
+            while not self._ready.is_set():
+                frame = read_frame(self._source)
+                method = self._method_of(frame.body, owed=not self._replayed)
+                self._replayed = False
+                if not self._ready.is_set() and not self._requests_waiting:
+                    if frame.ended:
+                        leave_now(0)  # the client is gone before the server was even built
+                    if method == "exit":
+                        leave_now(1)  # LSP: exit without a shutdown before it is status 1
+                self._arrived.put(frame)
                 if frame.ended:
-                    leave_now(0)  # the client is gone before the server was even built
-                if method == "exit":
-                    leave_now(1)  # LSP: exit without a shutdown before it is status 1
-            self._arrived.put(frame.raw)
-            if frame.ended:
-                self._arrived.put(b"")  # end of input
-                return
-        self._arrived.put(None)  # the stream is handed back, at a frame boundary
+                    return
+        except Exception:  # a reader that cannot go on: the server sees the end of input, never silence
+            self._arrived.put(Frame(b"", None, ended=True))
+            return
+        self._arrived.put(None)  # frames are read directly from here on, at a frame boundary
 
-    def _method_of(self, body: bytes | None) -> str | None:
+    def _method_of(self, body: bytes | None, owed: bool = True) -> str | None:
         try:
             message = json.loads(body) if body else None
-        except ValueError:
+        except (ValueError, RecursionError):
             return None
         if not isinstance(message, dict):
             return None
-        if "id" in message and "method" in message:
+        if owed and "id" in message and "method" in message:
             self._requests_waiting = True
         return message.get("method")
 
-    def _take_more(self) -> bool:
-        """Wait for more of a line from the client (from the thread, or once it has stopped, from
-        the stream); False once the input has ended."""
-        if self._ended:
-            return False
-        if self._direct:
-            chunk = self._stream.readline()
-        else:
-            chunk = self._arrived.get()
-            if chunk is None:  # the thread has stopped: the next call reads the stream
-                self._direct = True
-                return True
-        self._ended = not chunk
-        self._buffer += chunk
-        return not self._ended
-
-    def readline(self) -> bytes:
-        if self._direct and not self._buffer:
-            return self._stream.readline()
-        while (at := self._buffer.find(b"\n", self._searched)) == -1:
-            self._searched = len(self._buffer)
-            if not self._take_more():
-                at = len(self._buffer) - 1
-                break
-        line = bytes(self._buffer[: at + 1])
-        del self._buffer[: at + 1]
-        self._searched = 0
-        return line
-
-    def read(self, size: int) -> bytes:
-        if self._direct and not self._buffer:
-            return self._stream.read(size)
-        while len(self._buffer) < size and not self._direct and self._take_more():
-            pass
-        if self._direct and len(self._buffer) < size:
-            self._buffer += self._stream.read(size - len(self._buffer))
-        data = bytes(self._buffer[:size])
-        del self._buffer[:size]
-        self._searched = 0
-        return data
+    def next_frame(self) -> Frame:
+        if not self._direct:
+            frame = self._arrived.get()
+            if frame is not None:
+                return frame
+            self._direct = True  # the thread has stopped
+        return read_frame(self._source)

@@ -1,6 +1,8 @@
-"""ClientInput: the stream the server reads after the fast start-up.  It hands on every byte the
-client sent, in order, and while the server is still being built an exit or the end of input ends
-the process at once (LSP 3.17, "exit" notification: status 1 without a shutdown before it, from memory).
+"""ClientInput: the stream the server reads after the fast start-up.  It hands on every frame the
+client sent, in order, as well-formed frames only (a frame beyond the reader's bounds is handed on as a
+refusal, answered by the protocol), and while the server is still being built an exit or the end of
+input ends the process at once (LSP 3.17, "exit" notification: status 1 without a shutdown before it,
+from memory).
 """
 
 from __future__ import annotations
@@ -12,7 +14,7 @@ import threading
 import pytest
 
 import notelsp.server.quickstart as quickstart
-from notelsp.server.framing import encode_frame
+from notelsp.server.framing import MAX_BODY_BYTES, encode_frame, fault_body
 from notelsp.server.quickstart import ClientInput
 
 
@@ -41,14 +43,13 @@ def _frames(*bodies: bytes) -> bytes:
 
 
 def _read_everything(client_input: ClientInput) -> bytes:
-    """Read as pygls does (header lines, then a body by length), until the input ends."""
+    """Read as pygls does (a header line, a blank line, then a body by length), until the input ends."""
     out = bytearray()
     while line := client_input.readline():
-        out += line
-        if line.lower().startswith(b"content-length:"):
-            length = int(line.split(b":")[1])
-            out += client_input.readline()  # the blank line
-            out += client_input.read(length)
+        assert line.startswith(b"Content-Length: ") and line.endswith(b"\r\n")  # pygls's own pattern
+        length = int(line.split(b":")[1])
+        assert client_input.readline() == b"\r\n"
+        out += encode_frame(client_input.read(length))
     return bytes(out)
 
 
@@ -70,14 +71,35 @@ def test_every_byte_is_handed_on_replay_first(exits):
     assert exits[0] == []
 
 
-def test_junk_without_line_breaks_and_a_short_body_are_handed_on_unchanged(exits):
+def test_junk_without_line_breaks_is_refused_once_and_a_short_body_ends_the_input(exits):
     sent = b"junk" * 50_000 + b"\r\n" + b"Content-Length: 99\r\n\r\n{}"
     client_input = _ready_input(sent)
-    assert client_input.readline() == b"junk" * 50_000 + b"\r\n"
-    assert client_input.readline() == b"Content-Length: 99\r\n"
+    assert client_input.readline().startswith(b"Content-Length: ")
     assert client_input.readline() == b"\r\n"
-    assert client_input.read(99) == b"{}"  # the input ended inside the body
-    assert client_input.readline() == b""
+    assert client_input.read(1000).startswith(b'{"frameRefused": "headers longer than')  # one refusal for the run
+    assert client_input.readline() == b""  # the input ended inside the body
+
+
+def test_a_length_beyond_the_bound_is_refused_without_reading_the_body(exits):
+    after = _frames(b'{"jsonrpc":"2.0","method":"initialized","params":{}}')
+    sent = b"Content-Length: 99999999999999\r\n\r\n" + after
+    client_input = ClientInput(io.BytesIO(sent))  # read while "building": the thread must survive it
+    assert _read_everything(client_input) == encode_frame(fault_body(
+        f"Content-Length 99999999999999 beyond {MAX_BODY_BYTES} bytes")) + after
+    assert exits[0] == [0]  # the end of input, seen by the thread, not a crash
+
+
+class _Broken(io.RawIOBase):
+    def readable(self) -> bool:
+        return True
+
+    def readinto(self, buffer) -> int:
+        raise OSError("the pipe broke")
+
+
+def test_a_reader_that_fails_while_building_ends_the_input(exits):
+    client_input = ClientInput(io.BufferedReader(_Broken()))
+    assert client_input.readline() == b""  # the server sees the end of input instead of waiting forever
 
 
 def test_frames_before_the_server_is_ready_are_kept(exits):
@@ -130,6 +152,8 @@ def test_after_the_server_is_ready_the_stream_is_read_directly(exits):
     pipe.write(later[:30])  # the thread's last frame may arrive in pieces
     pipe.flush()
     assert client_input.readline() == b"Content-Length: 52\r\n"  # the frame read before readiness
+    assert client_input.readline() == b"\r\n"
+    assert client_input.read(52) == first[len(b"Content-Length: 52\r\n\r\n"):]
 
     def send_the_rest() -> None:  # more than a pipe holds: written while the test reads
         pipe.write(later[30:])
@@ -137,6 +161,6 @@ def test_after_the_server_is_ready_the_stream_is_read_directly(exits):
 
     writer = threading.Thread(target=send_the_rest)
     writer.start()
-    assert _read_everything(client_input) == first[len(b"Content-Length: 52\r\n"):] + later
+    assert _read_everything(client_input) == later
     writer.join(5)
     assert client_input._direct and exits[0] == []
