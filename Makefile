@@ -11,7 +11,7 @@ STAMP  := $(VENV)/.installed
 NODE_CLIENT := tests/clients/node
 SARIF_VALIDATOR := tests/clients/sarif
 
-.PHONY: demo test bench fuzz clean node-client neovim sarif-validator
+.PHONY: demo test bench fuzz clean node-client neovim sarif-validator emacs
 
 $(STAMP): pyproject.toml
 	$(PYTHON) -m venv $(VENV)
@@ -22,7 +22,7 @@ $(STAMP): pyproject.toml
 demo: $(STAMP)
 	$(VENV)/bin/notelsp demo
 
-test: $(STAMP) node-client neovim sarif-validator
+test: $(STAMP) node-client neovim sarif-validator emacs
 	$(PY) -m pytest -q -ra
 
 # The Node.js LSP client test's one dependency (vscode-jsonrpc, pinned by the lock file).
@@ -55,6 +55,18 @@ neovim:
 				|| echo "apt-get could not install neovim: the Neovim client test will skip"; \
 		else \
 			echo "nvim missing and apt-get unavailable (or not root): the Neovim client test will skip"; \
+		fi; \
+	fi
+
+# Emacs with eglot for the Emacs client test: Debian's packages (Emacs 28 needs elpa-eglot; 29+ has it
+# built in), as root, when emacs or its eglot is missing. Best effort, like neovim above.
+emacs:
+	@if ! { command -v emacs >/dev/null 2>&1 && emacs --batch --eval "(require 'eglot)" >/dev/null 2>&1; }; then \
+		if command -v apt-get >/dev/null 2>&1 && [ "$$(id -u)" = 0 ]; then \
+			{ apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq emacs-nox elpa-eglot; } >/dev/null 2>&1 \
+				|| echo "apt-get could not install emacs-nox elpa-eglot: the Emacs client test will skip"; \
+		else \
+			echo "emacs with eglot missing and apt-get unavailable (or not root): the Emacs client test will skip"; \
 		fi; \
 	fi
 
