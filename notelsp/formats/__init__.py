@@ -28,6 +28,12 @@ SEVERITY_ORDER = (Severity.ERROR, Severity.WARNING, Severity.INFORMATION, Severi
 class ReviewedFile:
     path: str  # as the user named it (relative paths stay relative); may hold os.fsdecode surrogates
     review: DocumentReview
+    cell: int | None = None  # a notebook's Markdown cell (1-based among all its cells); one ReviewedFile each
+
+    @property
+    def shown_path(self) -> str:
+        """The path as text reports print it: a cell as ``path#cell=N``, as its lines count within the cell."""
+        return self.path if self.cell is None else f"{self.path}#cell={self.cell}"
 
     def location(self, span: Span) -> tuple[int, int, int, int]:
         """1-based (line, column, end_line, end_column) in code points; end is exclusive."""
@@ -97,15 +103,20 @@ class CheckedRun:
             annotations += reviewed.annotation_count()
             for finding in reviewed.review.findings:
                 findings[finding.severity.value] += 1
-        return {"files": len(self.files), "annotations": annotations, "findings": findings,
+        notebooks = {reviewed.path for reviewed in self.files if reviewed.cell is not None}  # one file, many cells
+        files = sum(reviewed.cell is None for reviewed in self.files) + len(notebooks)
+        return {"files": files, "annotations": annotations, "findings": findings,
                 "unreadable": len(self.unreadable)}
 
     def caution_summary(self) -> list[tuple[str, str, int]]:
         """(formula, caution, number of files) over the run, in order of first appearance."""
         counts: dict[tuple[str, str], int] = {}
+        counted: set[tuple[str, str, str]] = set()  # a notebook's cells count as one file
         for reviewed in self.files:
             for pair in reviewed.cautions():
-                counts[pair] = counts.get(pair, 0) + 1
+                if reviewed.cell is None or (*pair, reviewed.path) not in counted:
+                    counted.add((*pair, reviewed.path))
+                    counts[pair] = counts.get(pair, 0) + 1
         return [(formula, caution, n) for (formula, caution), n in counts.items()]
 
 

@@ -23,6 +23,7 @@ def report_dict(run: CheckedRun) -> dict[str, Any]:
             line, column, end_line, end_column = reviewed.location(finding.span)
             findings.append(
                 {
+                    "cell": reviewed.cell,
                     "line": line,
                     "column": column,
                     "end_line": end_line,
@@ -39,7 +40,12 @@ def report_dict(run: CheckedRun) -> dict[str, Any]:
             [{"formula": formula, "caution": caution} for formula, caution in reviewed.cautions()]
             if show_cautions else []
         )
-        report.append({"path": utf8_safe(reviewed.path), "findings": findings, "cautions": cautions})
+        if reviewed.cell is not None and report and report[-1]["path"] == utf8_safe(reviewed.path):
+            # a notebook's cells come one after another: one entry for the file, each finding naming its cell
+            report[-1]["findings"].extend(findings)
+            report[-1]["cautions"].extend(c for c in cautions if c not in report[-1]["cautions"])
+        else:
+            report.append({"path": utf8_safe(reviewed.path), "findings": findings, "cautions": cautions})
     summary = (
         [{"formula": formula, "caution": caution, "files": n} for formula, caution, n in run.caution_summary()]
         if show_cautions else []

@@ -102,6 +102,14 @@ def _fingerprint(parts: tuple[str, ...], occurrence: int) -> str:
     return f"{digest}:{occurrence}"
 
 
+def _cell_location(reviewed: ReviewedFile) -> dict[str, Any]:
+    """What names a notebook's cell beside the physical location, whose region counts within the cell."""
+    return {
+        "logicalLocations": [{"name": f"cell {reviewed.cell}", "kind": "element"}],
+        "properties": {"cell": reviewed.cell},
+    }
+
+
 def _results(reviewed: ReviewedFile, location: dict[str, Any], rule_index: dict[str, int]) -> list[dict[str, Any]]:
     results: list[dict[str, Any]] = []
     occurrences: dict[tuple[str, ...], int] = {}
@@ -118,7 +126,11 @@ def _results(reviewed: ReviewedFile, location: dict[str, Any], rule_index: dict[
             ],
             "partialFingerprints": {FINGERPRINT: _fingerprint(key, occurrence)},
         }
-        if finding.fixes:
+        if reviewed.cell is not None:
+            result["locations"][0].update(_cell_location(reviewed))
+        # A replacement addresses the artifact's own text; in a notebook that is the JSON, not the cell,
+        # so fixes in cells are left out rather than offered where applying them would break the file.
+        if finding.fixes and reviewed.cell is None:
             result["fixes"] = [
                 {
                     "description": {"text": fix.title},
@@ -145,14 +157,17 @@ def sarif_dict(run: CheckedRun, source_root: str = ".") -> dict[str, Any]:
     rule_index = {code: index for index, code in enumerate(RULES)}
     artifacts: list[dict[str, Any]] = []
     results: list[dict[str, Any]] = []
+    previous: ReviewedFile | None = None
     for reviewed in run.files:
-        location = {**locations.of(reviewed.path), "index": len(artifacts)}
-        artifact: dict[str, Any] = {"location": {key: value for key, value in location.items() if key != "index"}}
-        language = _LANGUAGES.get(kind_of_path(reviewed.path))
-        if language:
-            artifact["sourceLanguage"] = language
-        artifacts.append(artifact)
+        if not (reviewed.cell is not None and previous is not None and previous.path == reviewed.path):
+            location = {**locations.of(reviewed.path), "index": len(artifacts)}  # a notebook's cells share one
+            artifact: dict[str, Any] = {"location": {key: value for key, value in location.items() if key != "index"}}
+            language = _LANGUAGES.get(kind_of_path(reviewed.path)) if reviewed.cell is None else None
+            if language:
+                artifact["sourceLanguage"] = language
+            artifacts.append(artifact)
         results.extend(_results(reviewed, location, rule_index))
+        previous = reviewed
     notifications: list[dict[str, Any]] = []
     for unreadable in run.unreadable:
         notifications.append({

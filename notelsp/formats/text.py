@@ -21,7 +21,7 @@ def _species(formulas: list[str]) -> str:
 
 def write_text(run: CheckedRun, out: TextIO) -> None:
     for reviewed in run.files:
-        path = terminal_safe(reviewed.path)
+        path = terminal_safe(reviewed.shown_path)
         for finding in reviewed.review.findings:
             line, column, _, _ = reviewed.location(finding.span)
             out.write(f"{path}:{line}:{column}: {finding.severity.value}[{finding.code}] "

@@ -22,7 +22,7 @@ from typing import Any, Iterable
 from lsprotocol import types
 
 from ..review.describe import rule_doc_url
-from ..review.document import DocumentReview, kind_of_path
+from ..review.document import DocumentReview
 from ..review.findings import Finding, Severity
 from ..review.workspace import cached_review
 from .app import NoteServer
@@ -140,7 +140,7 @@ async def _publish_later(ls: NoteServer, uri: str, delay: float) -> None:
     text, version = document.source, document.version
     diagnostics: list[dict[str, Any]] = []
     if ls.is_reviewed(uri):
-        kind, settings, encoding = kind_of_path(ls.relative_path(uri) or uri), ls.settings, ls.encoding()
+        kind, settings, encoding = ls.review_kind(uri), ls.settings, ls.encoding()
         try:
             diagnostics = await asyncio.to_thread(_reviewed_json, text, kind, settings, encoding)
         except Exception:
