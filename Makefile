@@ -1,25 +1,33 @@
 # Two commands set up everything on a fresh machine:
-#   make demo   - create .venv, install notelsp, check the bundled demo notes
-#   make test   - the same install plus test extras, then the whole test suite
-#   make bench  - the same install, then the benchmarks (prints one 'name: value' per figure)
+#   make demo   - create .venv, install notelsp (runtime dependencies only), check the bundled demo notes
+#   make test   - the same install plus the test extras, then the whole test suite
+#   make bench  - the install with test extras, then the benchmarks (prints one 'name: value' per figure)
 #   make fuzz   - the reliability tests with larger example counts and the full 10 s edit storm
 PYTHON ?= python3
 VENV   ?= .venv
 PY     := $(VENV)/bin/python
 STAMP  := $(VENV)/.installed
+RUNTIME_STAMP := $(VENV)/.installed-runtime
 
 NODE_CLIENT := tests/clients/node
 SARIF_VALIDATOR := tests/clients/sarif
 
 .PHONY: demo test bench fuzz clean node-client neovim sarif-validator emacs
 
-$(STAMP): pyproject.toml
+$(PY):
 	$(PYTHON) -m venv $(VENV)
 	$(PY) -m pip install -q --upgrade pip
+
+# Two stamps: `make demo` installs the runtime only, `make test` adds the test extras (.installed).
+$(RUNTIME_STAMP): pyproject.toml setup.py | $(PY)
+	$(PY) -m pip install -q -e .
+	touch $(RUNTIME_STAMP)
+
+$(STAMP): pyproject.toml setup.py | $(PY)
 	$(PY) -m pip install -q -e '.[test]'
 	touch $(STAMP)
 
-demo: $(STAMP)
+demo: $(RUNTIME_STAMP)
 	$(VENV)/bin/notelsp demo
 
 test: $(STAMP) node-client neovim sarif-validator emacs
@@ -75,7 +83,7 @@ bench: $(STAMP)
 
 # Same tests as in `make test`, pushed harder (tests/reliability/scale.py reads NOTELSP_FUZZ).
 fuzz: $(STAMP)
-	NOTELSP_FUZZ=1 $(PY) -m pytest -q -ra tests/reliability tests/notation/test_properties.py
+	NOTELSP_FUZZ=1 $(PY) -m pytest -q -ra tests/reliability tests/notation/test_properties.py tests/notation/test_incremental.py
 
 clean:
 	rm -rf $(VENV) build dist *.egg-info
