@@ -31,6 +31,7 @@ COLUMNS = (
     "en_pauling",
     "covalent_radius_pyykko",
     "covalent_radius_pyykko_double",
+    "covalent_radius_pyykko_triple",
 )
 
 
@@ -49,6 +50,7 @@ class Element:
     electronegativity: float | None  # Pauling scale; None where mendeleev has none
     covalent_radius_pm: float | None  # single-bond radius (Pyykko)
     double_bond_radius_pm: float | None
+    triple_bond_radius_pm: float | None
 
     @property
     def is_main_group(self) -> bool:
@@ -119,7 +121,7 @@ def read_database(path: Path) -> dict[str, Element]:
     except sqlite3.Error as error:
         raise ElementDataError(f"cannot read the element data in {path}: {error}") from None
     table: dict[str, Element] = {}
-    for symbol, name, number, group, period, block, pauling, single, double in rows:
+    for symbol, name, number, group, period, block, pauling, single, double, triple in rows:
         table[symbol] = Element(
             symbol=symbol,
             name=name,
@@ -130,6 +132,7 @@ def read_database(path: Path) -> dict[str, Element]:
             electronegativity=_number(pauling),
             covalent_radius_pm=_number(single),
             double_bond_radius_pm=_number(double),
+            triple_bond_radius_pm=_number(triple),
         )
     return table
 
@@ -157,11 +160,15 @@ def element(symbol: str) -> Element:
     return table()[symbol]
 
 
-@cache
+@cache  # no argument: one entry, the table by lower-case name
+def _by_lower_name() -> dict[str, Element]:
+    return {candidate.name.lower(): candidate for candidate in table().values()}
+
+
 def by_name(name: str) -> Element | None:
-    """Look an element up by its English name, case-insensitively ("fluorine")."""
-    wanted = name.lower()
-    for candidate in table().values():
-        if candidate.name.lower() == wanted:
-            return candidate
-    return None
+    """Look an element up by its English name, case-insensitively ("fluorine").
+
+    Not memoised by ``name``: the words asked about come from the notes, so a cache keyed by them
+    would grow with every word ever typed; the table by name is bounded by the elements.
+    """
+    return _by_lower_name().get(name.lower())

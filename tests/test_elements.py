@@ -22,10 +22,12 @@ FIELD_COLUMNS = {
     "electronegativity": "en_pauling",
     "covalent_radius_pm": "covalent_radius_pyykko",
     "double_bond_radius_pm": "covalent_radius_pyykko_double",
+    "triple_bond_radius_pm": "covalent_radius_pyykko_triple",
 }
 # The Python type each field holds when it has a value.
 FIELD_TYPES = {"symbol": str, "name": str, "number": int, "group": int, "period": int, "block": str,
-               "electronegativity": float, "covalent_radius_pm": float, "double_bond_radius_pm": float}
+               "electronegativity": float, "covalent_radius_pm": float, "double_bond_radius_pm": float,
+               "triple_bond_radius_pm": float}
 
 
 def _missing(value: object) -> bool:

@@ -136,6 +136,8 @@ CLAIM_WORDS = frozenset(
     axial equatorial apical basal cis trans fac mer lone pairs isomer isomers
     a an one single two three four five six both all bond angle index i s character
     point group shorter longer equal deg degree degrees in
+    distorted sawhorse saw horse dsp length distance unpaired electron electrons
+    paramagnetic diamagnetic hz pm nm angstrom
     """.split()
 )
 

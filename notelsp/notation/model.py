@@ -125,6 +125,45 @@ class AngleClaim(Claim):
     high: float
     atoms: tuple[str, str, str] | None = None  # ("H", "N", "H") for "H-N-H 107°"
     approximate: bool = False  # "~90°"
+    allowance: float = 0.0  # degrees the writer's own uncertainty allows on each side (see Measured)
+
+
+# A measurement's stated uncertainty becomes an allowance on each side of the value: a
+# standard uncertainty in parentheses, 121.9(2), counts three times (the crystallographer's
+# usual bound for a real difference, common practice, no source); an interval, 117.4 ± 0.2, as stated.
+ESD_COVERAGE = 3.0
+
+
+@dataclass(frozen=True, slots=True)
+class BondLengthValueClaim(Claim):
+    angstrom: float  # the claimed length in ångström (pm and nm converted)
+    bond: tuple[str, str] | None = None  # ("C", "F") for "C-F 1.39 Å"; None: "bond length 1.39 Å"
+    allowance: float = 0.0  # ångström allowed on each side by the claim's own uncertainty
+    approximate: bool = False
+
+
+@dataclass(frozen=True, slots=True)
+class CouplingClaim(Claim):
+    bonds: int  # n in nJ: how many bonds apart the coupled nuclei are
+    nuclei: tuple[str, str]  # element symbols, as written ("C", "H")
+    hertz: float
+    allowance: float = 0.0
+
+
+@dataclass(frozen=True, slots=True)
+class UnpairedElectronClaim(Claim):
+    count: int
+
+
+@dataclass(frozen=True, slots=True)
+class MagnetismClaim(Claim):
+    paramagnetic: bool
+
+
+@dataclass(frozen=True, slots=True)
+class AxeClaim(Claim):
+    bonded: int  # X count
+    lone_pairs: int  # E count
 
 
 @dataclass(frozen=True, slots=True)

@@ -19,10 +19,14 @@ from .. import elements
 from .grammar import CLAIM_WORDS, parser
 from .model import (
     AngleClaim,
+    ESD_COVERAGE,
     AngleOrderClaim,
     Atom,
+    AxeClaim,
     BondLengthClaim,
+    BondLengthValueClaim,
     Claim,
+    CouplingClaim,
     ElectronGeometryClaim,
     Formula,
     Group,
@@ -30,6 +34,7 @@ from .model import (
     IndexClaim,
     IsomerCountClaim,
     LonePairClaim,
+    MagnetismClaim,
     NotationError,
     PlacementClaim,
     PointGroupClaim,
@@ -38,6 +43,7 @@ from .model import (
     ShapeClaim,
     ParsedBody,
     Span,
+    UnpairedElectronClaim,
 )
 
 # Bounds that keep every parse small and fast.
@@ -268,7 +274,11 @@ def parse_formula(text: str) -> Formula:
 
 # --- claims -------------------------------------------------------------------
 
-_SHAPE_ALIASES = {"angular": "bent", "v-shaped": "bent", "vshaped": "bent", "see-saw": "seesaw", "tshaped": "t-shaped"}
+_SHAPE_ALIASES = {"angular": "bent", "v-shaped": "bent", "vshaped": "bent", "see-saw": "seesaw", "tshaped": "t-shaped",
+                  "sawhorse": "seesaw", "saw-horse": "seesaw"}
+_D_FIRST_LABELS = {"dsp3": "sp3d", "d2sp3": "sp3d2"}  # older spellings of the same labels
+_LENGTH_UNITS = {"pm": 0.01, "nm": 10.0}  # to ångström; every other unit word is ångström
+_SUPERSCRIPT_DIGITS = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹", "0123456789")
 _HYBRID_LABELS = {"sp", "sp2", "sp3", "sp3d", "sp3d2", "sp3d3"}
 _WORD_NUMBERS = {"a": 1, "an": 1, "one": 1, "single": 1, "two": 2, "three": 3, "four": 4, "five": 5, "six": 6, "no": 0}
 _EXAMPLES = {
@@ -312,7 +322,8 @@ class _ClaimBuilder:
         return ShapeClaim(self.text, self.span, _shape(children[0]))
 
     def geometry_claim(self, children: list) -> Claim:
-        return ElectronGeometryClaim(self.text, self.span, _shape(children[1]))
+        shape = next(token for token in children if token.type == "SHAPE")  # before or after the words
+        return ElectronGeometryClaim(self.text, self.span, _shape(shape))
 
     def polarity_claim(self, children: list) -> Claim:
         words = _hyphenated(children[0])
@@ -321,6 +332,7 @@ class _ClaimBuilder:
     def hybrid_claim(self, children: list) -> Claim | None:
         token = children[0]
         written = str(token).lower().translate(str.maketrans("²³", "23")).replace("^", "")
+        written = _D_FIRST_LABELS.get(written, written)
         if not written.startswith("sp"):
             return HybridizationClaim(self.text, self.span, "unhybridized")
         if written == "sp1":
@@ -444,7 +456,66 @@ class _ClaimBuilder:
                 self.error("impossible-count", f"an angle of {number:g}° is impossible; bond angles lie in (0°, 180°]", self.at(token))
                 return None
         low, high = min(degrees), max(degrees)
-        return AngleClaim(self.text, self.span, low, high, atoms, approximate)
+        allowance = max((self.allowance(u, n) for u, n in _uncertainties(tokens)), default=0.0)
+        return AngleClaim(self.text, self.span, low, high, atoms, approximate, allowance)
+
+    def allowance(self, tree: Tree, value: Token) -> float:
+        """The allowance on each side that a written uncertainty gives ``value``."""
+        marker, number = tree.children[0], tree.children[1]
+        if marker.type == "PLUSMINUS":
+            return float(number)
+        # 121.9(2): the digits in parentheses count in the last decimal place of the value
+        decimals = len(str(value).partition(".")[2])
+        return ESD_COVERAGE * float(number) / 10 ** decimals
+
+    def length_claim(self, children: list) -> Claim | None:
+        bond = None
+        if isinstance(children[0], Tree) and children[0].data == "bond":
+            bond = self.bond(children[0])
+            if bond is None:
+                return None
+        number = next(t for t in children if isinstance(t, Token) and t.type == "NUMBER")
+        unit = next(t for t in children if isinstance(t, Token) and t.type == "LENGTH_UNIT")
+        scale = _LENGTH_UNITS.get(str(unit), 1.0)
+        value = float(number) * scale
+        if value <= 0:
+            self.error("impossible-count", f"a bond length of {number} {unit} is impossible", self.at(number))
+            return None
+        allowance = max((self.allowance(u, n) * scale for u, n in _uncertainties(children)), default=0.0)
+        approximate = any(isinstance(t, Token) and t.type == "APPROX" for t in children)
+        return BondLengthValueClaim(self.text, self.span, value, bond, allowance, approximate)
+
+    def coupling_claim(self, children: list) -> Claim | None:
+        written = str(children[0]).translate(_SUPERSCRIPT_DIGITS)
+        bonds = int(written[0]) if written[0].isdigit() else 1
+        nuclei = tuple(re.findall(r"[A-Z][a-z]?", written.partition("J")[2]))
+        for symbol in nuclei:
+            if not elements.is_symbol(symbol):
+                message, suggestion = _unknown_element(symbol)
+                self.error("unknown-element", message, self.at(children[0]), suggestion)
+                return None
+        number = next(t for t in children if isinstance(t, Token) and t.type == "NUMBER")
+        allowance = max((self.allowance(u, n) for u, n in _uncertainties(children)), default=0.0)
+        return CouplingClaim(self.text, self.span, bonds, (nuclei[0], nuclei[1]), float(number), allowance)
+
+    def unpaired_claim(self, children: list) -> Claim | None:
+        count = self.quantity(children[0])
+        if count == "all" or not isinstance(count, int):
+            self.error("malformed-claim", f"cannot read a count in '{self.text}'; write e.g. '1 unpaired electron'")
+            return None
+        if count < 0:
+            return None
+        return UnpairedElectronClaim(self.text, self.span, count)
+
+    def magnetism_claim(self, children: list) -> Claim:
+        return MagnetismClaim(self.text, self.span, str(children[0]).lower().startswith("para"))
+
+    def axe_claim(self, children: list) -> Claim | None:
+        written = str(children[0]).translate(_SUBSCRIPTS)
+        x, _, e = written[2:].partition("E")
+        bonded = int(x) if x else 1
+        lone_pairs = (int(e) if e else 1) if "E" in written else 0
+        return AxeClaim(self.text, self.span, bonded, lone_pairs)
 
     def angle_order_claim(self, children: list) -> Claim | None:
         left, relation, right = self.triple(children[0]), str(children[1]), self.triple(children[2])
@@ -483,6 +554,15 @@ class _ClaimBuilder:
     def point_group_claim(self, children: list) -> Claim:
         symbol = str(children[-1]).replace("∞", "inf")
         return PointGroupClaim(self.text, self.span, symbol)
+
+
+def _uncertainties(children: list) -> list[tuple[Tree, Token]]:
+    """Each written uncertainty with the number it follows."""
+    found = []
+    for previous, child in zip(children, children[1:]):
+        if isinstance(child, Tree) and child.data == "uncertainty" and isinstance(previous, Token):
+            found.append((child, previous))
+    return found
 
 
 def _unknown_element(word: str) -> tuple[str, str | None]:
@@ -544,7 +624,7 @@ def parse_body(body: str) -> ParsedBody:
     claims: list[Claim] = []
     if colon and claims_text.strip():
         start = len(formula_text) + 1
-        pieces = re.split(r"[,;]", claims_text)
+        pieces = split_claims(claims_text)
         for index, piece in enumerate(pieces):
             if not piece.strip() and index == len(pieces) - 1:
                 break  # a trailing separator is harmless
@@ -554,3 +634,18 @@ def parse_body(body: str) -> ParsedBody:
                 claims.append(claim)
             start += len(piece) + 1
     return ParsedBody(formulas, tuple(claims), tuple(all_errors), bool(colon))
+
+
+def split_claims(text: str) -> list[str]:
+    """Claims are separated by ',' or ';' outside parentheses, so "1J(C,H) 125 Hz" stays one claim."""
+    pieces, depth, start = [], 0, 0
+    for index, char in enumerate(text):
+        if char == "(":
+            depth += 1
+        elif char == ")" and depth:
+            depth -= 1
+        elif char in ",;" and not depth:
+            pieces.append(text[start:index])
+            start = index + 1
+    pieces.append(text[start:])
+    return pieces
