@@ -165,7 +165,7 @@ def register(server: NoteServer) -> None:
     async def workspace_diagnostic(ls: NoteServer, params: types.WorkspaceDiagnosticParams) -> types.WorkspaceDiagnosticReport:
         previous = {item.uri: item.value for item in params.previous_result_ids}
         open_notes = [
-            _OpenNote(uri, document.version, document.source, kind_of_path(ls.relative_path(uri) or uri),
+            _OpenNote(uri, document.version, document.source, ls.review_kind(uri),  # a notebook cell: Markdown
                       _computed(ls, uri))
             for uri, document in list(ls.workspace.text_documents.items())
             if ls.is_reviewed(uri)
