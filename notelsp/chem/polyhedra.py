@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from functools import cache
+from functools import lru_cache
 
 import numpy as np
 
@@ -107,7 +107,7 @@ def _clean(value: float) -> float:
     return 0.0 if rounded == 0 else rounded
 
 
-@cache
+@lru_cache(maxsize=len(POLYHEDRA))  # one entry per named polyhedron
 def polyhedron(name: str) -> Polyhedron:
     """The ideal polyhedron ``name`` (one of POLYHEDRA) with its symmetry operations."""
     sites, generators = _layout(name)

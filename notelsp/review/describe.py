@@ -116,7 +116,7 @@ def rule_doc_anchor(code: str) -> str | None:
     return None if rule is None else f"{rule.code}-{rule.severity.value}"
 
 
-@lru_cache(maxsize=None)  # asked once per diagnostic; there are a few dozen codes
+@lru_cache(maxsize=256)  # asked once per diagnostic; there are a few dozen codes (capped all the same)
 def rule_doc_url(code: str) -> str | None:
     """The address of the rule's explanation (base URL + ``#`` + anchor), None for a code that is not a rule."""
     anchor = rule_doc_anchor(code)

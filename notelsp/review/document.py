@@ -97,11 +97,15 @@ def review_text(text: str, kind: DocumentKind = "markdown", settings: Settings |
         source = text[start:end]
         relative = reviews.get((source, form))
         if relative is None:
+            if len(reviews) >= _REVIEWS_LIMIT:  # a note of more distinct annotations than the cap
+                reviews.clear()
             relative = reviews[(source, form)] = _review_relative(_relative_annotation(found), settings)
         if relative:  # most annotations have no findings: nothing to place
             key = (source, form, start)
             here = placed.get(key)
             if here is None:
+                if len(placed) >= _REVIEWS_LIMIT:
+                    placed.clear()
                 here = placed[key] = tuple([finding.shifted(start) for finding in relative])
             findings.extend(here)
     # Each annotation's findings are sorted and lie inside it, and annotations neither overlap
@@ -135,14 +139,17 @@ Placed = dict[tuple[str, str, int], tuple[Finding, ...]]
 _reviews: dict[Settings, tuple[Relative, Placed]] = {}
 
 
+_SETTINGS_LIMIT = 8  # settings change rarely; a few sets are plenty
+
+
 def _reviews_for(settings: Settings) -> tuple[Relative, Placed]:
+    """The caches for ``settings``; each is emptied when full (edits leave findings at old offsets
+    behind, and a long session types ever new annotations: both are cheap to compute again)."""
     reviews = _reviews.get(settings)
-    if reviews is None or len(reviews[0]) > _REVIEWS_LIMIT:
-        if len(_reviews) >= 8:  # settings change rarely; a few sets are plenty
+    if reviews is None:
+        if len(_reviews) >= _SETTINGS_LIMIT:
             _reviews.clear()
         reviews = _reviews[settings] = ({}, {})
-    elif len(reviews[1]) > _REVIEWS_LIMIT:  # edits leave findings at old offsets behind: cheap to place again
-        reviews[1].clear()
     return reviews
 
 
