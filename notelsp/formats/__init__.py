@@ -5,6 +5,7 @@ These are translators at the edge: they read findings and never decide any.
 
 from __future__ import annotations
 
+import json
 import re
 from bisect import bisect_right
 from dataclasses import dataclass, field
@@ -151,3 +152,17 @@ def utf8_safe(text: str) -> str:
     For JSON strings: the encoder escapes control characters itself.
     """
     return _SURROGATE.sub(_escape, text)
+
+
+def json_text(value: object, indent: int | None = None) -> str:
+    """``value`` as JSON text that always encodes as UTF-8.
+
+    Strings are written as they are (``ensure_ascii=False``); a lone surrogate (a JSON
+    notebook may hold one as ``\\udcff``) is written back as a JSON escape, since it
+    cannot be UTF-8. Compact unless ``indent`` is given.
+    """
+    separators = (",", ":") if indent is None else None
+    text = json.dumps(value, ensure_ascii=False, indent=indent, separators=separators)
+    if _SURROGATE.search(text):  # surrogates occur only inside strings, where the escape means the same
+        text = _SURROGATE.sub(lambda match: f"\\u{ord(match.group()):04x}", text)
+    return text

@@ -8,10 +8,9 @@ is asked for (indenting costs several times the writing).
 
 from __future__ import annotations
 
-import json
 from typing import Any, TextIO
 
-from . import CheckedRun, utf8_safe
+from . import CheckedRun, json_text, utf8_safe
 
 
 def report_dict(run: CheckedRun) -> dict[str, Any]:
@@ -60,6 +59,4 @@ def report_dict(run: CheckedRun) -> dict[str, Any]:
 
 
 def write_json(run: CheckedRun, out: TextIO, indent: int | None = None) -> None:
-    separators = (",", ":") if indent is None else None
-    json.dump(report_dict(run), out, ensure_ascii=False, indent=indent, separators=separators)
-    out.write("\n")
+    out.write(json_text(report_dict(run), indent) + "\n")

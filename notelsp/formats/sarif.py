@@ -11,7 +11,6 @@ Files that could not be read are tool execution notifications.
 from __future__ import annotations
 
 import hashlib
-import json
 import os
 import re
 from pathlib import Path
@@ -23,7 +22,7 @@ from ..notation.model import Span
 from ..review.document import kind_of_path
 from ..review.findings import Severity
 from ..review.rules import RULES, Rule
-from . import PROJECT_URL, README_URL, CheckedRun, ReviewedFile
+from . import PROJECT_URL, README_URL, CheckedRun, ReviewedFile, json_text
 
 SCHEMA_URI = "https://json.schemastore.org/sarif-2.1.0.json"
 SOURCE_ROOT = "%SRCROOT%"
@@ -110,9 +109,13 @@ def _cell_location(reviewed: ReviewedFile) -> dict[str, Any]:
     }
 
 
-def _results(reviewed: ReviewedFile, location: dict[str, Any], rule_index: dict[str, int]) -> list[dict[str, Any]]:
+def _results(
+    reviewed: ReviewedFile,
+    location: dict[str, Any],
+    rule_index: dict[str, int],
+    occurrences: dict[tuple[str, ...], int],  # per artifact: a notebook's cells count on from each other
+) -> list[dict[str, Any]]:
     results: list[dict[str, Any]] = []
-    occurrences: dict[tuple[str, ...], int] = {}
     for finding in reviewed.review.findings:
         key = (finding.code, location["uri"], reviewed.annotation_text(finding.span), finding.claim or "")
         occurrence = occurrences[key] = occurrences.get(key, 0) + 1
@@ -166,7 +169,8 @@ def sarif_dict(run: CheckedRun, source_root: str = ".") -> dict[str, Any]:
             if language:
                 artifact["sourceLanguage"] = language
             artifacts.append(artifact)
-        results.extend(_results(reviewed, location, rule_index))
+            occurrences: dict[tuple[str, ...], int] = {}
+        results.extend(_results(reviewed, location, rule_index, occurrences))
         previous = reviewed
     notifications: list[dict[str, Any]] = []
     for unreadable in run.unreadable:
@@ -204,6 +208,4 @@ def sarif_dict(run: CheckedRun, source_root: str = ".") -> dict[str, Any]:
 
 
 def write_sarif(run: CheckedRun, out: TextIO, source_root: str = ".", indent: int | None = None) -> None:
-    separators = (",", ":") if indent is None else None
-    json.dump(sarif_dict(run, source_root), out, ensure_ascii=False, indent=indent, separators=separators)
-    out.write("\n")
+    out.write(json_text(sarif_dict(run, source_root), indent) + "\n")

@@ -151,3 +151,13 @@ def test_multitool_finds_no_problem_with_the_github_rules(notes, tmp_path):
     assert verdict.is_file(), done.stdout + done.stderr
     results = json.loads(verdict.read_text(encoding="utf-8-sig"))["runs"][0].get("results", [])
     assert results == [], "\n".join(f"{r['ruleId']}: {r['message']}" for r in results)
+
+
+def test_the_same_finding_in_two_notebook_cells_is_two_alerts(tmp_path):
+    nbformat = pytest.importorskip("nbformat")
+    cell = "{ClF3: trigonal planar}\n"
+    notebook = nbformat.v4.new_notebook(cells=[nbformat.v4.new_markdown_cell(cell), nbformat.v4.new_markdown_cell(cell)])
+    nbformat.write(notebook, str(tmp_path / "runs.ipynb"))
+    results = [r for r in _sarif(".", cwd=tmp_path)["runs"][0]["results"] if r["ruleId"] == "wrong-shape"]
+    assert len(results) == 2
+    assert results[0]["partialFingerprints"] != results[1]["partialFingerprints"]

@@ -1,12 +1,13 @@
 """File names and claim text made safe to print: valid UTF-8, one line, no terminal controls."""
 
+import json
 import os
 import unicodedata
 
 from hypothesis import given
 from hypothesis import strategies as st
 
-from notelsp.formats import terminal_safe, utf8_safe
+from notelsp.formats import json_text, terminal_safe, utf8_safe
 
 # Bidirectional embeddings, overrides and isolates (Unicode Standard Annex #9) can reorder what a
 # terminal shows.
@@ -33,3 +34,11 @@ def test_anything_becomes_printable_utf8_on_one_line(text):
     assert "Cc" not in categories and "Cs" not in categories  # no controls, no surrogates (Unicode categories)
     assert not any(char in safe for char in BIDI_CONTROLS)
     utf8_safe(text).encode("utf-8")
+
+
+@given(st.dictionaries(st.text(max_size=5), st.text(max_size=20) | st.binary(max_size=20).map(os.fsdecode), max_size=4))
+def test_json_text_is_utf8_and_reads_back_the_same(value):
+    text = json_text(value)
+    text.encode("utf-8")  # strict
+    assert json.loads(text) == value  # the json module reads a surrogate escape back as the surrogate
+    assert json.loads(json_text(value, indent=2)) == value
