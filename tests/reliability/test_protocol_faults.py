@@ -215,3 +215,30 @@ def test_random_byte_storm(server):
     tried("protocol fault frames sent", count)
     server.send_raw(b"\r\n" * 3 + message({"jsonrpc": "2.0", "method": "notelsp/sacrificed", "params": {"p": "x" * 60}}))
     _still_serving(server)
+
+
+@pytest.mark.parametrize("method, params", [
+    ("textDocument/didOpen", {"textDocument": {"uri": "file:///reliability/with-id.md", "languageId": "markdown",
+                                               "version": 1, "text": "{NH3: trigonal planar}\n"}}),
+    ("notelsp/someNotification", {}),
+    ("$/cancelRequest", {"id": 123456}),
+])
+def test_notification_with_an_id_is_answered(server, method, params):
+    """JSON-RPC 2.0: a message with an id is a request and gets a response, whatever its method."""
+    server.next_id += 1
+    request_id = server.next_id
+    server.send({"jsonrpc": "2.0", "id": request_id, "method": method, "params": params})
+    tried("protocol fault frames sent")
+    answer = server.wait(lambda m: m.get("id") == request_id and "method" not in m)
+    assert "result" in answer or answer["error"]["code"] == METHOD_NOT_FOUND
+    _still_serving(server)
+
+
+def test_notification_with_an_id_is_also_handled(server):
+    uri = "file:///reliability/handled-with-id.md"
+    server.send({"jsonrpc": "2.0", "id": "open-1", "method": "textDocument/didOpen", "params": {"textDocument": {
+        "uri": uri, "languageId": "markdown", "version": 1, "text": "{ClF3: trigonal planar}\n"}}})
+    tried("protocol fault frames sent")
+    assert server.wait(lambda m: m.get("id") == "open-1")["result"] is None
+    pulled = server.request("textDocument/diagnostic", {"textDocument": {"uri": uri}})
+    assert [d["code"] for d in pulled["result"]["items"]] == ["wrong-shape"]
