@@ -12,7 +12,7 @@ import pytest_lsp
 from lsprotocol import types
 from pytest_lsp import ClientServerConfig, LanguageClient, client_capabilities
 
-from .lsp_harness import SERVER_COMMAND, file_uri, wait_for
+from .lsp_harness import SERVER_COMMAND, apply_edits, file_uri, wait_for
 
 MARKDOWN = "# Run 7\n\nThe trifluoride {ClF3: trigonal planar} fumes.\n"
 CODE = "shapes = {ClF3: 'linear'}\n"  # a code cell: never reviewed, whatever it holds
@@ -139,6 +139,14 @@ async def test_a_cell_added_later_is_diagnosed_and_hover_works_in_it(client: Lan
         types.HoverParams(text_document=types.TextDocumentIdentifier(added), position=position_of(text, "SF4", 1))
     )
     assert hover is not None and "SF4" in hover.contents.value
+    (shape,) = [d for d in diagnostics if d.code == "wrong-shape"]
+    actions = await client.text_document_code_action_async(
+        types.CodeActionParams(text_document=types.TextDocumentIdentifier(added), range=shape.range,
+                               context=types.CodeActionContext(diagnostics=[shape]))
+    )
+    fixes = [a for a in actions if isinstance(a, types.CodeAction) and a.kind == types.CodeActionKind.QuickFix]
+    assert fixes and list(fixes[0].edit.changes) == [added]  # the edit is to the cell, not the notebook file
+    assert apply_edits(text, fixes[0].edit.changes[added]) == "Also {SF4: seesaw}.\n"
 
 
 async def test_pulled_diagnostics_for_a_cell(client: LanguageClient, tmp_path):
