@@ -17,11 +17,13 @@ back to their defaults: a bad config never stops the server.
 from __future__ import annotations
 
 import logging
+import os
 from collections.abc import Mapping
 
 from lsprotocol import types
 
-from ..review.settings import Settings, settings_from_mapping, settings_from_toml
+from ..notefiles import read_settings_file
+from ..review.settings import Settings, SettingsProblem, settings_from_mapping
 from .app import NoteServer
 
 log = logging.getLogger("notelsp.server")
@@ -33,13 +35,11 @@ def _file_settings(ls: NoteServer) -> tuple[Settings, list[str]]:
     if ls.root is None:
         return Settings(), []
     path = ls.root / CONFIG_FILE
-    try:
-        text = path.read_text(encoding="utf-8")
-    except FileNotFoundError:
+    if not os.path.lexists(path):
         return Settings(), []
-    except (OSError, UnicodeDecodeError) as error:
-        return Settings(), [f"cannot read {path}: {error}"]
-    return settings_from_toml(text)
+    # Read as the command line reads it: a regular file only (a FIFO never blocks), size-capped.
+    settings, problems = read_settings_file(path)
+    return settings, [SettingsProblem(f"line {p.line}: {p}" if p.line else p, p.line) for p in problems]
 
 
 def section_of(settings: object) -> Mapping | None:
