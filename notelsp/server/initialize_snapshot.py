@@ -10,14 +10,21 @@ CAPABILITIES = {'textDocumentSync': {'openClose': True, 'change': 2, 'save': Fal
  'hoverProvider': True,
  'documentSymbolProvider': True,
  'codeActionProvider': {'codeActionKinds': ['quickfix', 'refactor.rewrite', 'source.crossCheck']},
+ 'workspaceSymbolProvider': {'resolveProvider': False},
  'executeCommandProvider': {'commands': ['notelsp.crossCheck']},
+ 'semanticTokensProvider': {'legend': {'tokenTypes': ['type', 'keyword', 'number', 'operator'],
+                                       'tokenModifiers': []},
+                            'range': True,
+                            'full': True},
  'inlayHintProvider': {'resolveProvider': False},
  'diagnosticProvider': {'interFileDependencies': False,
-                        'workspaceDiagnostics': False,
+                        'workspaceDiagnostics': True,
                         'identifier': 'notelsp'},
  'workspace': {'workspaceFolders': {'supported': True, 'changeNotifications': True}, 'fileOperations': {}}}
 
 CHANGES_WHEN_OFFERED = {'textDocument.synchronization.willSave': {'true': {'textDocumentSync': {'willSave': False}},
                                            'false': {'textDocumentSync': {'willSave': False}}},
  'textDocument.synchronization.willSaveWaitUntil': {'true': {'textDocumentSync': {'willSaveWaitUntil': False}},
-                                                    'false': {'textDocumentSync': {'willSaveWaitUntil': False}}}}
+                                                    'false': {'textDocumentSync': {'willSaveWaitUntil': False}}},
+ 'notebookDocument': {'object': {'notebookDocumentSync': {'notebookSelector': [{'notebook': 'jupyter-notebook',
+                                                                                'cells': [{'language': 'markdown'}]}]}}}}
