@@ -163,4 +163,4 @@ def rules_for(claim: Claim | None) -> Iterator[Rule]:
 # Registering happens on import; every rule module is listed here.
 from . import notation  # noqa: E402,F401
 from . import placement  # noqa: E402,F401
-from . import vsepr, angles, hybrid  # noqa: E402,F401
+from . import vsepr, angles, hybrid, measured  # noqa: E402,F401

@@ -58,7 +58,8 @@ def implausible_angle(context: RuleContext) -> Iterator[Finding]:
     The range starts from the ideal polyhedron angle and moves the way lone
     pairs (closing), an odd electron (opening less than a lone pair closes),
     multiple bonds, Bent's rule and Drago's rule push it; the setting
-    ``angle_tolerance`` widens it on both sides.
+    ``angle_tolerance`` widens it on both sides, and so does the claim's own
+    uncertainty (121.9(2)° counts three standard uncertainties, ± 0.5° as written).
     """
     claim = context.claim
     if not isinstance(claim, AngleClaim):
@@ -72,7 +73,7 @@ def implausible_angle(context: RuleContext) -> Iterator[Finding]:
         ranges = centre.angle_ranges
     if not ranges:
         return
-    tolerance = context.settings.angle_tolerance
+    tolerance = context.settings.angle_tolerance + claim.allowance  # the writer's own uncertainty widens it
     if any(claim.low <= r.high + tolerance and claim.high >= r.low - tolerance for r in ranges):
         return
     middle = (claim.low + claim.high) / 2

@@ -12,8 +12,9 @@ from . import RuleContext, rule
 from .angles import _degrees, centre_named
 
 
-def _angle_window(context: RuleContext, centre, ligand: str | None) -> tuple[float, float, str] | None:
-    """The L-X-L angle window (degrees) the index should match: a claimed angle, else the prediction."""
+def _angle_window(context: RuleContext, centre, ligand: str | None) -> tuple[float, float, str, float | None] | None:
+    """The L-X-L angle window (degrees) the index should match, a claimed angle's or the prediction's,
+    with the one index a fix writes: the claimed angle's middle, else the index the analysis shows."""
     tolerance = context.settings.angle_tolerance
     labels = {l.label for l in centre.ligands}
     if ligand is None:
@@ -24,12 +25,16 @@ def _angle_window(context: RuleContext, centre, ligand: str | None) -> tuple[flo
         if isinstance(claim, AngleClaim):
             atoms = claim.atoms
             if atoms is None and len(labels) == 1 or atoms and atoms[0] == atoms[2] == ligand and atoms[1] == centre.central:
-                return claim.low - tolerance, claim.high + tolerance, f"the claimed angle {claim.text}"
+                return (claim.low - tolerance, claim.high + tolerance, f"the claimed angle {claim.text}",
+                        index_from_angle((claim.low + claim.high) / 2))
     ranges = centre.ranges_for(ligand, ligand)
     if len(ranges) != 1:
         return None  # several site relations (or no such pair): no single angle for the hybrid
     r = ranges[0]
-    return r.low - tolerance, r.high + tolerance, f"the predicted {ligand}-{centre.central}-{ligand} angle {_degrees(r.low)}-{_degrees(r.high)}°"
+    shown = centre.coulson.bond(ligand) if centre.coulson is not None else None
+    expected = shown.index if shown is not None else index_from_angle((r.low + r.high) / 2)
+    return (r.low - tolerance, r.high + tolerance,
+            f"the predicted {ligand}-{centre.central}-{ligand} angle {_degrees(r.low)}-{_degrees(r.high)}°", expected)
 
 
 def _index_bounds(low: float, high: float) -> tuple[float, float]:
@@ -68,12 +73,10 @@ def index_angle_mismatch(context: RuleContext) -> Iterator[Finding]:
     window = _angle_window(context, centre, None)
     if window is None:
         return
-    low, high, source = window
+    low, high, source, expected = window
     smallest, largest = _index_bounds(low, high)
     if smallest <= value <= largest:
         return
-    middle = (low + high) / 2
-    expected = index_from_angle(middle)
     expected_text = "pure p (no s)" if expected is None else f"sp^{expected:.2f}"
     if isinstance(claim, IndexClaim):
         fix = context.replace_claim(f"index {expected:.2f}") if expected is not None else None
@@ -103,13 +106,12 @@ def s_character_mismatch(context: RuleContext) -> Iterator[Finding]:
     window = _angle_window(context, centre, claim.ligand)
     if window is None:
         return
-    low, high, source = window
+    low, high, source, index = window
     smallest, largest = _index_bounds(low, high)
     lowest_s, highest_s = 100 * s_character(None if largest == math.inf else largest), 100 * s_character(smallest)
     if lowest_s - 0.5 <= claim.percent <= highest_s + 0.5:
         return
-    middle = index_from_angle((low + high) / 2)
-    expected = 100 * s_character(middle)
+    expected = 100 * s_character(index)
     scope = claim.text.split(" in ", 1)[1] if " in " in claim.text else None
     replacement = f"s-character {expected:.0f}%" + (f" in {scope}" if scope else "")
     yield context.finding(
