@@ -234,8 +234,9 @@ def _check(paths: Sequence[str], options: CheckOptions, out: TextIO) -> int:
     threshold = FAIL_LEVELS.index(options.fail_level)
     failing = any(FAIL_LEVELS.index(f.severity.value) <= threshold for r in reviewed for f in r.review.findings)
     cannot_run = bool(unreadable)
+    unfinished = False  # a cross-check calculation failed or ran out of time
     if options.cross_check:
-        from .crosscheck.cli import EXIT_CANNOT_RUN, EXIT_DISAGREES, cross_check_paths
+        from .crosscheck.cli import EXIT_CALCULATION_FAILED, EXIT_CANNOT_RUN, EXIT_DISAGREES, cross_check_paths
         from .crosscheck.levels import DEFAULT_LEVEL_TEXT
 
         if len(on_disk) < len(reviewed):
@@ -249,8 +250,11 @@ def _check(paths: Sequence[str], options: CheckOptions, out: TextIO) -> int:
         )
         cannot_run = cannot_run or outcome == EXIT_CANNOT_RUN
         failing = failing or outcome == EXIT_DISAGREES
+        unfinished = outcome == EXIT_CALCULATION_FAILED
     if cannot_run:
         return EXIT_USAGE
+    if unfinished:
+        return EXIT_CALCULATION_FAILED  # agreement unknown: neither "clean" nor only "findings"
     if failing:
         return EXIT_ERRORS
     if not reviewed:

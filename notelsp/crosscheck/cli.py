@@ -21,6 +21,8 @@ from .report import cross_check_findings, cross_check_markdown
 from .runner import CrossCheckResult, Progress, cross_check
 
 EXIT_OK, EXIT_DISAGREES, EXIT_CANNOT_RUN = 0, 1, 2
+EXIT_CALCULATION_FAILED = 4  # a calculation failed, was killed or ran out of time: agreement is unknown
+UNFINISHED = ("failed", "timeout")
 BAR_WIDTH = 24
 
 
@@ -58,7 +60,8 @@ def cross_check_paths(
     """Cross-check each annotated species in ``paths``; returns the exit code.
 
     0: every calculation agrees with the claims; 1: a computed value disagrees
-    with a claim; 2: nothing could run (bad level, missing extra, unreadable file).
+    with a claim; 2: nothing could run (bad level, missing extra, unreadable file);
+    4: a calculation did not finish (failed, killed, out of time), whatever the others said.
     """
     out = stream or sys.stdout
     named: list[tuple[str, tuple[Annotation, ...]]] = []
@@ -94,6 +97,7 @@ def _cross_check_named(
     on_terminal = hasattr(bar, "isatty") and bar.isatty()
     results: dict[str, CrossCheckResult] = {}  # one calculation per species, however often it is annotated
     code = EXIT_OK
+    unfinished = False
     for path, found in named:
         for annotation in found:
             if annotation.formula is None or annotation.errors or annotation.is_comparison:
@@ -104,8 +108,9 @@ def _cross_check_named(
                 if on_terminal:
                     bar.write("\n")  # keep the finished bar; the next one starts on its own line
             result = results[formula.text]
+            unfinished = unfinished or result.status in UNFINISHED
             markdown = cross_check_markdown(result, annotation, angle_tolerance=angle_tolerance)
             out.write(f"{path}: {{{formula.text}}}\n\n{markdown}\n\n")
             if any(f.severity is Severity.WARNING for f in cross_check_findings(result, annotation, angle_tolerance)):
                 code = max(code, EXIT_DISAGREES)
-    return code
+    return EXIT_CALCULATION_FAILED if unfinished else code

@@ -18,7 +18,7 @@ from typing import Literal
 from . import cache
 from .availability import missing_extra
 from .levels import DEFAULT_LEVEL, LevelOfTheory, Limits
-from .protocol import Job, OptimisedIsomer, isomer_from_dict, job_to_json
+from .protocol import Job, OptimisedIsomer, job_to_json
 from .start import StartingGeometry, Unsupported, starting_geometries
 from ..notation.model import Formula
 
@@ -93,7 +93,7 @@ async def cross_check(
         def progress(step: int, energy: float | None, cached: bool = False) -> None:
             report(Progress(formula.text, geometry.isomer, index, len(geometries), step, limits.max_steps, energy, cached))
 
-        stored = cache.load(geometry.species, geometry.isomer, level.label)
+        stored = cache.load(geometry.species, geometry.isomer, level.label, expected=geometry)
         if stored is not None:
             done.append(stored)
             from_cache += 1
@@ -137,18 +137,23 @@ async def _run_worker(
                 line = await asyncio.wait_for(process.stdout.readline(), max(deadline - loop.time(), 0.001))
             except asyncio.TimeoutError:
                 return "timeout", f"the calculation of {_described(job.geometry)} ran out of time"
+            except ValueError:  # a line beyond the stream's limit: not our worker's protocol
+                return "failed", f"the worker for {_described(job.geometry)} sent an unusable answer (a line too long)"
             if not line:
                 code = await process.wait()
                 return "failed", f"the worker for {_described(job.geometry)} ended without an answer (exit code {code})"
-            message = json.loads(line)
-            event = message.get("event")
-            if event == "step":
-                progress(int(message["step"]), float(message["energy"]))
-            elif event == "done":
-                return isomer_from_dict(message["isomer"])
-            elif event == "error":
-                kind = "missing-extra" if message.get("kind") == "missing-extra" else "failed"
-                return kind, str(message.get("message", "the calculation failed"))
+            try:
+                message = json.loads(line)
+                event = message.get("event")
+                if event == "step":
+                    progress(int(message["step"]), float(message["energy"]))
+                elif event == "done":
+                    return cache.checked_isomer(message["isomer"], expected=job.geometry)
+                elif event == "error":
+                    kind = "missing-extra" if message.get("kind") == "missing-extra" else "failed"
+                    return kind, str(message.get("message", "the calculation failed"))[:2000]
+            except (ValueError, KeyError, TypeError, AttributeError, RecursionError) as error:  # BadEntry included
+                return "failed", f"the worker for {_described(job.geometry)} sent an unusable answer ({error})"
     finally:
         if process.returncode is None:
             process.kill()
