@@ -95,7 +95,7 @@ def register(server: NoteServer) -> None:
     @server.feature(types.WORKSPACE_SYMBOL)
     async def symbols(ls: NoteServer, params: types.WorkspaceSymbolParams) -> list[types.WorkspaceSymbol]:
         open_notes = [
-            (uri, ls.relative_path(uri) or uri, document.source, kind_of_path(ls.relative_path(uri) or uri))
+            (uri, ls.relative_path(uri) or uri, document.source, ls.review_kind(uri))  # a notebook cell: Markdown
             for uri, document in list(ls.workspace.text_documents.items())
             if ls.is_reviewed(uri)
         ]
