@@ -583,15 +583,25 @@ def _unreadable_claim(text: str, offset: int) -> NotationError:
         word = match.group()
         if word.lower() in CLAIM_WORDS or elements.is_symbol(word) or elements.by_name(word) is not None:
             continue
-        close = difflib.get_close_matches(word.lower(), CLAIM_WORDS, n=1, cutoff=0.7)
-        if close:
-            suggestion = text[: match.start()] + close[0] + text[match.end():]
-            return NotationError("unknown-claim", f"unknown claim '{text}'; did you mean '{suggestion}'?", span, suggestion)
+        # offer only a suggestion that is itself a claim the notation reads
+        for close in difflib.get_close_matches(word.lower(), CLAIM_WORDS, n=3, cutoff=0.7):
+            suggestion = text[: match.start()] + close + text[match.end():]
+            if _reads_as_claim(suggestion):
+                return NotationError("unknown-claim", f"unknown claim '{text}'; did you mean '{suggestion}'?", span, suggestion)
         return NotationError("unknown-claim", f"unknown claim '{text}'", span)
     first = re.match(r"[^\W\d_]+", text)
     example = _EXAMPLES.get(first.group().lower() if first else "angle")
     hint = f"; write e.g. {example}" if example else ""
     return NotationError("malformed-claim", f"cannot read claim '{text}'{hint}", span)
+
+
+def _reads_as_claim(text: str) -> bool:
+    try:
+        tree = parser().parse(text, start="claim")
+    except UnexpectedInput:
+        return False
+    builder = _ClaimBuilder(text, 0)
+    return builder.build(tree) is not None and not builder.errors
 
 
 def parse_claim(text: str, offset: int = 0) -> tuple[Claim | None, tuple[NotationError, ...]]:

@@ -28,7 +28,7 @@ def test_a_bond_length_far_outside_the_window_is_flagged_without_a_rewrite():
 def test_a_claims_own_uncertainty_widens_the_angle_window():
     assert not with_code("{NH3: H-N-H 114.8 ± 0.5°}", "implausible-angle")
     assert with_code("{NH3: H-N-H 117 ± 0.5°}", "implausible-angle")
-    assert not with_code("{NH3: H-N-H 115.2(2)°}", "implausible-angle")  # 3 x 0.2 reaches 114.5
+    assert not with_code("{NH3: H-N-H 115.0(2)°}", "implausible-angle")  # 115.0 - 3 x 0.2 is inside 114.5
 
 
 def test_coupling_against_the_analysis_and_against_a_claimed_label():

@@ -87,16 +87,17 @@ class RuleContext:
         where = span or (claim.span if claim else self.annotation.span)
         formula = self.annotation.formula
         severity = self.settings.severity_of(self.rule)
-        exception = self.exception if self.rule.judges_geometry else None
-        if exception is not None:
+        doubt = self.doubt() if self.rule.judges_geometry else None
+        if doubt is not None:
             # Trust: where the model only knows what "usually" happens, a contrary claim is at most a
             # warning; where it cannot decide, information with the reason and no rewriting fix.
-            if exception.confidence == "uncertain":
+            confidence, why = doubt
+            if confidence == "uncertain":
                 severity, fixes = _milder(severity, Severity.INFORMATION), ()
-                message = f"{message} (uncertain: {exception.reason})"
+                message = f"{message} (uncertain: {why})"
             else:
                 severity = _milder(severity, Severity.WARNING)
-                message = f"{message} (usually so: {exception.name})"
+                message = f"{message} (usually so: {why})"
         return Finding(
             code=self.rule.code,
             severity=severity,
@@ -114,6 +115,20 @@ class RuleContext:
         if analysis is None or analysis.outside_model is not None or not analysis.centres:
             return None
         return analysis.centres[0].exception
+
+    def doubt(self) -> tuple[str, str] | None:
+        """("usual" or "uncertain", why) where the prediction is less than firm, else None."""
+        from ...chem.ions import likely_ion
+
+        formula = self.annotation.formula
+        if formula is not None:
+            ion = likely_ion(formula.composition(), formula.charge)
+            if ion is not None:
+                return "uncertain", f"{formula.text} is probably the {ion[1]} ion with its charge left out"
+        exception = self.exception
+        if exception is None:
+            return None
+        return exception.confidence, exception.reason if exception.confidence == "uncertain" else exception.name
 
     def replace_claim(self, replacement: str, title: str | None = None) -> Fix:
         """A fix that rewrites just this claim."""

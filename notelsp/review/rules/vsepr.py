@@ -5,8 +5,9 @@ from __future__ import annotations
 from collections.abc import Iterator
 
 from ...notation.model import ElectronGeometryClaim, HybridizationClaim, LonePairClaim, ShapeClaim
+from ...chem.ions import likely_ion, written_charge
 from ...chem.vsepr import HYBRIDIZATION
-from ..findings import Finding, Severity
+from ..findings import Finding, Fix, Severity
 from . import RuleContext, rule
 
 
@@ -126,6 +127,29 @@ def outside_model(context: RuleContext) -> Iterator[Finding]:
     identifiable centre and steric numbers beyond 7 are reported rather than
     answered wrongly.  Writing ``@X`` after the formula chooses the centre.
     """
-    for analysis in context.analyses:
-        if analysis.outside_model is not None:
+    for formula, analysis in zip(context.annotation.formulas, context.analyses):
+        if analysis.outside_model is not None and likely_ion(formula.composition(), formula.charge) is None:
             yield context.finding(f"{analysis.formula}: outside the bonding model ({analysis.outside_model}); claims not checked")
+
+
+@rule("charge-missing", severity=Severity.INFORMATION)
+def charge_missing(context: RuleContext) -> Iterator[Finding]:
+    """A neutral formula that is usually an ion: its charge was probably left out.
+
+    A neutral ClO4, NO3 or SO4 is a short-lived radical or no stable species
+    at all, while perchlorate, nitrate and sulfate are what notes usually
+    mean.  The fix adds the ion's charge; write the neutral species on purpose
+    and this stays information only, and the geometry claims about it are
+    judged as uncertain.
+    """
+    for formula in context.annotation.formulas:
+        ion = likely_ion(formula.composition(), formula.charge)
+        if ion is None:
+            continue
+        charge, name = ion
+        ionic = f"{formula.text}{written_charge(charge)}"
+        yield context.finding(
+            f"{formula.text} as written is neutral; did you mean {name}, {ionic}?",
+            span=formula.span,
+            fixes=[Fix(f"Add the charge: {ionic}", formula.span, ionic)],
+        )
