@@ -57,3 +57,28 @@ def test_a_rule_set_milder_than_the_cap_stays_milder():
     (finding,) = [f for f in review_text("{XeF6: square planar}", "markdown", settings).findings
                   if f.code == "wrong-shape"]
     assert finding.severity is Severity.HINT
+
+
+@pytest.mark.parametrize("note, ion", [("{ClO4: tetrahedral}", "ClO4-"), ("{SO4}", "SO4^2-"), ("{NH4: tetrahedral}", "NH4+")])
+def test_a_probably_forgotten_charge_is_named_with_a_fix(note, ion):
+    # perchlorate, sulfate, ammonium: common ions (common practice, no source)
+    found = review(note).findings
+    (missing,) = [f for f in found if f.code == "charge-missing"]
+    assert [fix.replacement for fix in missing.fixes] == [ion]
+    assert not [f for f in found if f.code == "outside-model"]
+    assert all(f.severity is Severity.INFORMATION for f in found)
+
+
+def test_real_neutral_radicals_are_not_questioned():
+    assert not with_code("{NO2: bent}", "charge-missing")
+    assert not with_code("{ClO2: bent}", "charge-missing")
+
+
+def test_unknown_claim_suggestions_read_as_claims():
+    from notelsp.notation.transform import parse_body, parse_claim
+
+    (error,) = parse_body("H2O: 120° and 90°").errors
+    assert error.suggestion is None  # nothing close reads as a claim
+    (error,) = parse_body("H2O: trigonal planr").errors
+    claim, errors = parse_claim(error.suggestion)
+    assert claim is not None and not errors
