@@ -34,6 +34,11 @@ def units_of(char: str, encoding: str) -> int:
     return 2 if point > 0xFFFF else 1
 
 
+# A line holding wide characters is measured in blocks of this many code points: converting a
+# position encodes at most one block, so a 1 MB line costs the same per position as a short one.
+BLOCK = 256
+
+
 @dataclass(frozen=True)
 class LineIndex:
     """Where each line of ``text`` starts, for converting positions both ways."""
@@ -41,17 +46,24 @@ class LineIndex:
     text: str
     encoding: str
     starts: tuple[int, ...]
-    # line -> whether each of its code points is one unit; filled lazily so a
-    # 1 MB line with thousands of findings converts in linear time, not quadratic.
-    _narrow: dict[int, bool] = field(default_factory=dict, compare=False, repr=False)
+    # line -> None when each of its code points is one unit, else the units before each block of
+    # BLOCK code points (prefix sums); filled lazily, once per line, so converting is O(BLOCK) per position.
+    _blocks: dict[int, list[int] | None] = field(default_factory=dict, compare=False, repr=False)
 
-    def _is_narrow(self, line: int) -> bool:
+    def _units_before_blocks(self, line: int) -> list[int] | None:
         if self.encoding == UTF32:
-            return True
-        if line not in self._narrow:
+            return None
+        if line not in self._blocks:
             start, end = self.starts[line], self._line_end(line)
-            self._narrow[line] = _WIDE_IN[self.encoding].search(self.text, start, end) is None
-        return self._narrow[line]
+            blocks = None
+            if _WIDE_IN[self.encoding].search(self.text, start, end) is not None:
+                codec, width = _CODECS[self.encoding]
+                blocks = [0]
+                for block_start in range(start, end, BLOCK):
+                    block = self.text[block_start : min(block_start + BLOCK, end)]
+                    blocks.append(blocks[-1] + len(block.encode(codec, "surrogatepass")) // width)
+            self._blocks[line] = blocks
+        return self._blocks[line]
 
     def _line_end(self, line: int) -> int:
         """Offset of the line's terminator (or the end of the text)."""
@@ -65,10 +77,14 @@ class LineIndex:
         offset = max(0, min(offset, len(self.text)))
         line = bisect_right(self.starts, offset) - 1
         start = self.starts[line]
-        if self._is_narrow(line):
+        blocks = self._units_before_blocks(line)
+        if blocks is None:
             return line, offset - start
+        whole, _ = divmod(offset - start, BLOCK)
+        whole = min(whole, len(blocks) - 1)  # an offset in the terminator counts from the last block
         codec, width = _CODECS[self.encoding]
-        return line, len(self.text[start:offset].encode(codec, "surrogatepass")) // width
+        rest = self.text[start + whole * BLOCK : offset]
+        return line, blocks[whole] + len(rest.encode(codec, "surrogatepass")) // width
 
     def position(self, offset: int) -> types.Position:
         line, character = self.line_character(offset)
@@ -79,9 +95,13 @@ class LineIndex:
         if position.line >= len(self.starts):
             return len(self.text)
         start, end = self.starts[position.line], self._line_end(position.line)
-        if self._is_narrow(position.line):
+        blocks = self._units_before_blocks(position.line)
+        if blocks is None:
             return min(start + position.character, end)
-        remaining, offset = position.character, start
+        whole = bisect_right(blocks, position.character) - 1  # the last block starting at or before it
+        if whole >= len(blocks) - 1:
+            return end
+        remaining, offset = position.character - blocks[whole], start + whole * BLOCK
         while offset < end and remaining > 0:
             remaining -= units_of(self.text[offset], self.encoding)
             offset += 1
