@@ -9,10 +9,9 @@ Exit status of ``check``: 0 nothing at or above ``--fail-level`` (default: error
 from __future__ import annotations
 
 import argparse
-import fnmatch
 import os
 import sys
-from collections.abc import Iterator, Sequence
+from collections.abc import Sequence
 from dataclasses import dataclass
 from importlib import resources
 from pathlib import Path
@@ -21,7 +20,6 @@ from typing import Any, TextIO
 from . import __version__
 
 NOTE_SUFFIXES = (".md", ".markdown", ".txt")
-SKIPPED_FOLDERS = {".git", ".hg", ".svn", "_darcs", "CVS", "node_modules", "__pycache__"}
 CONFIG_NAME = ".notelsp.toml"
 
 EXIT_CLEAN, EXIT_ERRORS, EXIT_USAGE, EXIT_NOTHING_REVIEWED = 0, 1, 2, 3
@@ -200,10 +198,12 @@ def _check(paths: Sequence[str], options: CheckOptions, out: TextIO) -> int:
     from .formats import CheckedRun, ReviewedFile, Unreadable, terminal_safe
     from .review.document import kind_of_path, review_text
 
-    settings = _load_settings(options.config, [name for name in paths if name != STDIN])
+    found = _note_files(paths, options.config)  # every settings file is read first: a bad one stops the run
+    settings = found.settings  # standard input's and the cross-check's
     reviewed: list[ReviewedFile] = []
     on_disk: list[str] = []  # what the cross-check can read again (not standard input)
     unreadable: list[Unreadable] = []
+    notebooks_left_out = False
 
     def cannot_read(name: str, problem: UsageError) -> None:
         # the reading functions say "cannot read PATH: reason"; the report keeps path and reason apart
@@ -219,16 +219,29 @@ def _check(paths: Sequence[str], options: CheckOptions, out: TextIO) -> int:
             except UsageError as problem:
                 cannot_read(stdin_name, problem)
                 continue
+            if stdin_name.lower().endswith(".ipynb"):  # --stdin-name says it is a notebook
+                try:
+                    reviewed.extend(_notebook_reviews(stdin_name, text, settings))
+                except UsageError as problem:
+                    cannot_read(stdin_name, problem)
+                continue
             reviewed.append(ReviewedFile(stdin_name, review_text(text, kind_of_path(stdin_name), settings)))
             continue
-        for path in _note_files([name], settings.globs):
+        for note in found.named[name]:
             try:
-                text = _read_note(path)
+                text = _read_note(note)
             except UsageError as problem:
-                cannot_read(str(path), problem)
+                cannot_read(str(note.path), problem)
                 continue
-            reviewed.append(ReviewedFile(str(path), review_text(text, kind_of_path(str(path)), settings)))
-            on_disk.append(str(path))
+            if note.kind == "notebook":  # one review per Markdown cell, each report naming its cell
+                try:
+                    reviewed.extend(_notebook_reviews(str(note.path), text, note.settings))
+                except UsageError as problem:
+                    cannot_read(str(note.path), problem)
+                notebooks_left_out = True  # the cross-check reads notes as text, not a notebook's cells
+                continue
+            reviewed.append(ReviewedFile(str(note.path), review_text(text, note.kind, note.settings)))
+            on_disk.append(str(note.path))
     run = CheckedRun(reviewed, unreadable, options.cautions)  # type: ignore[arg-type]
     _write_report(run, options, out)
     threshold = FAIL_LEVELS.index(options.fail_level)
@@ -239,8 +252,10 @@ def _check(paths: Sequence[str], options: CheckOptions, out: TextIO) -> int:
         from .crosscheck.cli import EXIT_CALCULATION_FAILED, EXIT_CANNOT_RUN, EXIT_DISAGREES, cross_check_paths
         from .crosscheck.levels import DEFAULT_LEVEL_TEXT
 
-        if len(on_disk) < len(reviewed):
+        if STDIN in paths:
             print("notelsp: the cross-check reads files again, so it leaves standard input out", file=sys.stderr)
+        if notebooks_left_out:
+            print("notelsp: the cross-check reads notes only, so it leaves notebooks out", file=sys.stderr)
         outcome = cross_check_paths(
             on_disk,
             level=options.level or DEFAULT_LEVEL_TEXT,
@@ -279,80 +294,78 @@ def _write_report(run: Any, options: CheckOptions, out: TextIO) -> None:
         write_text(run, out)
 
 
-def _note_files(paths: Sequence[str], globs: Sequence[str]) -> Iterator[Path]:
-    """Named files as they are; folders recursed for notes, hidden and VCS folders skipped."""
-    for name in paths:
-        path = Path(name)
-        if path.is_dir():
-            yield from _notes_below(path, globs)
-        elif path.exists():
-            yield path
-        else:
-            raise UsageError(f"no such file or folder: {name}")
+@dataclass(frozen=True)
+class _FoundNotes:
+    named: dict[str, list[Any]]  # each named path -> its notes (notelsp.notefiles.NoteFile)
+    settings: Any  # the first path's settings (standard input: the current folder's), for the cross-check
 
 
-def _notes_below(folder: Path, globs: Sequence[str]) -> Iterator[Path]:
-    for root, folders, files in os.walk(folder):
-        folders[:] = sorted(f for f in folders if not f.startswith(".") and f not in SKIPPED_FOLDERS)
-        for file in sorted(files):
-            if file.startswith("."):
-                continue
-            path = Path(root, file)
-            relative = path.relative_to(folder).as_posix()
-            if any(_glob_match(relative, pattern) for pattern in globs):
-                yield path
+def _note_files(paths: Sequence[str], config: str | None) -> _FoundNotes:
+    """The notes each path stands for, with their settings: ``--config`` or each note's nearest settings file.
+
+    Every settings file is read before any note: a problem in one stops the run (a typo
+    must not quietly loosen the review), all problems listed.
+    """
+    from .notefiles import NoteFinder
+
+    finder = NoteFinder(config)  # folders give notes of every kind, notebooks included
+    named = {name: finder.notes(name) for name in dict.fromkeys(paths) if name != STDIN}
+    first = paths[0] if paths else STDIN
+    settings = finder.settings_at(Path.cwd()) if first == STDIN else (
+        named[first][0].settings if named[first] else finder.settings_at(Path(first)))
+    if finder.problems:
+        from .formats import terminal_safe
+
+        for problem in finder.problems:
+            print(f"notelsp: {terminal_safe(problem)}", file=sys.stderr)
+        raise UsageError("nothing was reviewed: the settings above are not valid")
+    return _FoundNotes(named, settings)
 
 
-def _glob_match(relative: str, pattern: str) -> bool:
-    # "**/*.md" should also match a note at the top of the folder ("a.md").
-    return fnmatch.fnmatch(relative, pattern) or (
-        pattern.startswith("**/") and fnmatch.fnmatch(relative, pattern[3:])
-    )
+def _read_note(note: Any) -> str:
+    from .notefiles import MAX_NOTE_BYTES, FileProblem, read_note
 
-
-def _read_note(path: Path) -> str:
+    if note.problem is None and note.kind == "notebook":
+        return _read_notebook(note.path)
+    if note.problem is not None:
+        raise UsageError(f"cannot read {note.path}: {note.problem}")
     try:
-        # keep CRLF: offsets must match the file; a leading BOM is no column (editors hide it too)
-        with open(path, encoding="utf-8-sig", newline="") as handle:
-            return handle.read()
-    except UnicodeDecodeError as error:
-        raise UsageError(f"cannot read {path}: not UTF-8 text (byte {error.start})") from None
-    except OSError as error:
-        raise UsageError(f"cannot read {path}: {error.strerror or error}") from None
+        read = read_note(note.path)
+    except FileProblem as problem:
+        raise UsageError(f"cannot read {note.path}: {problem}") from None
+    if read.truncated:
+        print(f"notelsp: {note.path}: larger than {MAX_NOTE_BYTES:,} bytes; only its beginning was read",
+              file=sys.stderr)
+    return read.text
 
 
-def _load_settings(config: str | None, paths: Sequence[str]):
-    from .review.settings import Settings, settings_from_toml
+def _read_notebook(path: Path) -> str:
+    from .notation.notebook import MAX_NOTEBOOK_CHARS
+    from .notefiles import FileProblem, read_text
 
-    if config is not None:
-        config_path: Path | None = Path(config)
-        if not config_path.is_file():
-            raise UsageError(f"no such settings file: {config}")
-    else:
-        config_path = _nearest_config(Path(paths[0]) if paths else Path.cwd())
-    if config_path is None:
-        return Settings()
     try:
-        text = config_path.read_text(encoding="utf-8")
-    except (OSError, UnicodeDecodeError) as error:
-        raise UsageError(f"cannot read {config_path}: {error}") from None
-    settings, problems = settings_from_toml(text)
-    for problem in problems:
-        print(f"notelsp: {config_path}: {problem} (using the default)", file=sys.stderr)
-    return settings
+        # outputs (images) make notebooks larger than notes; a cut notebook is not JSON, so refuse it whole
+        read = read_text(path, MAX_NOTEBOOK_CHARS)
+    except FileProblem as problem:
+        raise UsageError(f"cannot read {path}: {problem}") from None
+    if read.truncated:
+        raise UsageError(f"cannot read {path}: larger than {MAX_NOTEBOOK_CHARS:,} bytes, more than a notebook of notes")
+    return read.text
 
 
-def _nearest_config(start: Path) -> Path | None:
+def _notebook_reviews(path: str, text: str, settings: Any) -> list:
+    """One reviewed file per Markdown cell (positions within the cell); the file alone when it has none."""
+    from .formats import ReviewedFile
+    from .notation.notebook import NotebookError, markdown_cells
+    from .review.document import review_text
+
     try:
-        folder = start.resolve()
-    except (OSError, RuntimeError):  # a symlink loop: look from where it was named instead
-        folder = start.absolute()
-    if not folder.is_dir():
-        folder = folder.parent
-    for candidate in (folder, *folder.parents):
-        if (candidate / CONFIG_NAME).is_file():
-            return candidate / CONFIG_NAME
-    return None
+        cells = markdown_cells(text)
+    except NotebookError as problem:
+        raise UsageError(f"cannot read {path}: {problem}") from None
+    if not cells:  # still listed in the report, with nothing found
+        return [ReviewedFile(path, review_text("", "markdown", settings))]
+    return [ReviewedFile(path, review_text(cell.source, "markdown", settings), cell.number) for cell in cells]
 
 
 # --- explain, rules, demo -----------------------------------------------------
