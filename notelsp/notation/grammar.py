@@ -22,7 +22,6 @@ import hashlib
 import os
 import stat
 import sys
-import tempfile
 from functools import cache
 from pathlib import Path
 
@@ -40,12 +39,23 @@ CACHE_SUFFIX = ".cache"
 
 
 def grammar_text() -> str:
-    try:
-        from importlib.resources import files
+    # The package's folders straight from its spec (importlib.resources costs more to import than
+    # this read), then the source tree's grammar/ (an editable install cannot import notelsp.grammar).
+    from importlib.util import find_spec
 
-        return files("notelsp.grammar").joinpath(GRAMMAR_FILE).read_text(encoding="utf-8")
-    except (ModuleNotFoundError, FileNotFoundError):
-        return (Path(__file__).resolve().parents[2] / "grammar" / GRAMMAR_FILE).read_text(encoding="utf-8")
+    try:
+        spec = find_spec("notelsp.grammar")
+    except ModuleNotFoundError:
+        spec = None
+    folders = list(spec.submodule_search_locations or ()) if spec is not None else []
+    folders.append(str(Path(__file__).resolve().parents[2] / "grammar"))
+    for folder in folders:
+        candidate = Path(folder) / GRAMMAR_FILE
+        if candidate.is_file():
+            return candidate.read_text(encoding="utf-8")
+    from importlib.resources import files  # a zip or other loader without plain folders
+
+    return files("notelsp.grammar").joinpath(GRAMMAR_FILE).read_text(encoding="utf-8")
 
 
 @cache
@@ -104,6 +114,8 @@ def _trusted(status: os.stat_result) -> bool:
 
 def save_cached_parser(built: Lark, path: Path, fingerprint: str) -> None:
     """Write the cache file whole or not at all (a temporary file renamed); never raises."""
+    import tempfile  # only when writing: it imports shutil and the compression modules
+
     temporary = None
     try:
         path.parent.mkdir(mode=0o700, parents=True, exist_ok=True)

@@ -12,7 +12,6 @@ from __future__ import annotations
 import json
 import re
 import reprlib
-import tomllib
 from dataclasses import dataclass, replace
 from typing import Any, Mapping
 
@@ -21,7 +20,7 @@ from .findings import Severity
 DEFAULT_GLOBS = ("**/*",)  # every note file (which files are notes is decided by their type)
 MAX_SETTINGS_CHARS = 256 * 1024  # a settings file is a few lines; beyond this it is something else
 MAX_NESTING = 16  # arrays and inline tables inside each other; settings need two
-MAX_GLOB_CHARS = 1_000
+MAX_GLOB_CHARS = 256  # matching costs (pattern length) × (path length) per file
 
 
 @dataclass(frozen=True)
@@ -70,6 +69,8 @@ def settings_from_toml(text: str, base: Settings | None = None) -> tuple[Setting
     too_deep = _too_deep_line(text)
     if too_deep is not None:
         return base, [SettingsProblem(f"arrays or tables nested more than {MAX_NESTING} deep", too_deep)]
+    import tomllib  # only when a settings file exists: its import is a noticeable part of a check's start
+
     try:
         document = tomllib.loads(text)
     except tomllib.TOMLDecodeError as error:
