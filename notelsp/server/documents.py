@@ -5,9 +5,14 @@ out again, and splits at every Unicode line break (U+2028, form feed, ...)
 where LSP breaks lines only at CR, LF and CRLF.  Here the change's range is
 converted with the same line index the diagnostics use (cached for the text
 just published, so usually no work) and the text is spliced in one step.
+A notebook change naming a notebook or cell that is not open is dropped
+(pygls would fail on it and show the user an error).
 """
 
 from __future__ import annotations
+
+import logging
+from urllib.parse import unquote
 
 from lsprotocol import types
 from pygls.workspace import TextDocument, Workspace
@@ -33,6 +38,20 @@ class SplicedWorkspace(Workspace):
             sync_kind=self._sync_kind,
             position_codec=self._position_codec,
         )
+
+    def update_notebook_document(self, params: types.DidChangeNotebookDocumentParams) -> None:
+        """pygls's, except that a change to a notebook or cell that is not open is dropped (logged), not an error."""
+        if self.get_notebook_document(notebook_uri=params.notebook_document.uri) is None:
+            logging.getLogger("notelsp.server").warning("change to a notebook that is not open: %s",
+                                                        params.notebook_document.uri)
+            return
+        cells = params.change.cells
+        if cells is not None and cells.text_content:
+            opening = {unquote(item.uri) for item in (cells.structure.did_open or ())} if cells.structure else set()
+            cells.text_content = [content for content in cells.text_content
+                                  if unquote(content.document.uri) in self._text_documents
+                                  or unquote(content.document.uri) in opening]
+        super().update_notebook_document(params)
 
 
 def spliced(workspace: Workspace | None) -> Workspace | None:

@@ -160,3 +160,27 @@ async def test_pulled_diagnostics_for_a_cell(client: LanguageClient, tmp_path):
     )
     assert len(report.items) == 0
     assert markdown not in client.diagnostics  # a pulling client is not pushed to
+
+
+async def test_changes_to_a_notebook_or_cell_not_open_are_dropped_quietly(client: LanguageClient, tmp_path):
+    notebook, _, markdown = await open_notebook(client, tmp_path)
+    await wait_for(lambda: client.diagnostics.get(markdown))
+
+    def change(uri: str, cell: str) -> None:
+        client.notebook_document_did_change(
+            types.DidChangeNotebookDocumentParams(
+                notebook_document=types.VersionedNotebookDocumentIdentifier(version=5, uri=uri),
+                change=types.NotebookDocumentChangeEvent(cells=types.NotebookDocumentCellChanges(text_content=[
+                    types.NotebookDocumentCellContentChanges(
+                        document=types.VersionedTextDocumentIdentifier(uri=cell, version=5),
+                        changes=[types.TextDocumentContentChangeWholeDocument(text="{SF4: linear}")])])),
+            )
+        )
+
+    change(file_uri(tmp_path / "never-opened.ipynb"), cell_uri(notebook, "never"))
+    change(notebook, cell_uri(notebook, "never"))
+    hover = await client.text_document_hover_async(  # the server still answers, and nothing was shown
+        types.HoverParams(text_document=types.TextDocumentIdentifier(markdown), position=position_of(MARKDOWN, "ClF3", 1))
+    )
+    assert hover is not None and "ClF3" in hover.contents.value
+    assert not [m for m in client.messages if m.type == types.MessageType.Error]
