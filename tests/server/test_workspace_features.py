@@ -15,7 +15,7 @@ from notelsp.review.describe import rule_doc_url
 from notelsp.server import workspace_diagnostics, workspace_symbols
 from notelsp.review.settings import Settings
 
-from .lsp_harness import SERVER_COMMAND, file_uri, wait_for
+from .lsp_harness import SERVER_COMMAND, file_uri
 from .test_session import NOTE, open_note, start
 
 CLEAN = "Water {H2O: bent}\n"
@@ -92,8 +92,7 @@ async def test_workspace_symbols_find_species_in_open_and_saved_notes(client, tm
     (tmp_path / "lab" / "subscripts.md").write_text("Written with subscripts: {ClF₃: t-shaped}\n")
     await start(client, tmp_path)
     open_uri = file_uri(tmp_path / "fluorides.md")
-    open_note(client, open_uri, "\n" + NOTE)  # one line lower than on disk
-    await wait_for(lambda: open_uri in client.diagnostics)
+    open_note(client, open_uri, "\n" + NOTE)  # one line lower than on disk; held before the next request is read
 
     found = await client.workspace_symbol_async(types.WorkspaceSymbolParams(query="clf3"))
     places = sorted((s.name, s.container_name, s.location.uri, s.location.range.start.line) for s in found)

@@ -7,8 +7,10 @@ M.defaults = {
   cmd = { "notelsp", "serve" },
   filetypes = { "markdown", "text" },
   root_markers = { ".notelsp.toml", ".git" },
-  -- Sent as the "notelsp" section of workspace/configuration; same keys as
-  -- the [review] table of .notelsp.toml (inlay_hints, disabled, severity, ...).
+  -- The "notelsp" section: answered to workspace/configuration, and pushed with
+  -- workspace/didChangeConfiguration at start (all Neovim 0.7 does; the server
+  -- applies either). Same keys as the [review] table of .notelsp.toml
+  -- (inlay_hints, disabled, severity, ...), over that file.
   settings = { notelsp = {} },
 }
 
