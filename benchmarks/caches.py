@@ -14,7 +14,7 @@ from __future__ import annotations
 import sys
 
 PROCESS_SETUP = {
-    ("notelsp.elements", "by_name"),
+    ("notelsp.elements", "_by_lower_name"),
     ("notelsp.notation.grammar", "parser"),
     ("notelsp.notation.markdown", "_markdown"),
     ("notelsp.notation.model", "_fields_of"),

@@ -12,8 +12,9 @@ from __future__ import annotations
 
 from bisect import bisect_right
 from functools import lru_cache
+from heapq import merge
 from operator import itemgetter
-from typing import Literal
+from typing import Iterator, Literal
 
 from .. import elements
 from .markdown import MarkdownStructure, Segment, line_starts, markdown_structure
@@ -46,6 +47,42 @@ def scan_with_structure(text: str, structure: MarkdownStructure) -> ScannedDocum
         found.extend(placed for line in structure.bonding_lines if (placed := _block_found(text, line)))
         found.sort(key=_START)
     return ScannedDocument(tuple(found))
+
+
+def scan_pieces(text: str, kind: DocumentKind = "markdown") -> Iterator[list[Found]]:
+    """The annotations of ``text`` one piece at a time, in document order.
+
+    A piece is one inline segment (a line, or a paragraph's lines) or one line of a
+    bonding block, so a consumer may stop between pieces and have scanned nothing
+    it does not use; pieces without annotations are passed over.
+    """
+    structure = markdown_structure(text) if kind == "markdown" else MarkdownStructure(_text_segments(text), ())
+    if not structure.bonding_lines:
+        for segment in structure.segments:
+            if found := _segment_found(segment):
+                yield found
+        return
+    pieces = merge(((segment.start, segment) for segment in structure.segments),
+                   ((line.start, line) for line in structure.bonding_lines), key=_START)
+    for _, piece in pieces:
+        if isinstance(piece, Span):
+            if (placed := _block_found(text, piece)) is not None:
+                yield [placed]
+        elif found := _segment_found(piece):
+            yield found
+
+
+def scan_pieces_around(text: str, kind: DocumentKind, start: int, end: int) -> Iterator[list[Found]]:
+    """The annotations of the pieces (see :func:`scan_pieces`) that touch ``[start, end]``, and no others."""
+    structure = markdown_structure(text) if kind == "markdown" else MarkdownStructure(_text_segments(text), ())
+    pieces: list[list[Found]] = []
+    for segment in structure.segments:
+        if segment.start <= end and start <= segment.start + len(segment.text) and (found := _segment_found(segment)):
+            pieces.append(found)
+    for line in structure.bonding_lines:
+        if line.start <= end and start <= line.end and (placed := _block_found(text, line)) is not None:
+            pieces.append([placed])
+    return iter(sorted(pieces, key=lambda piece: piece[0][0]))
 
 
 def _text_segments(text: str) -> tuple[Segment, ...]:

@@ -11,9 +11,10 @@ from __future__ import annotations
 from bisect import bisect_left, bisect_right
 from dataclasses import dataclass
 from functools import cache, cached_property
-from typing import Any, Literal
+from typing import Any, Callable, Literal
 
 from ..notation import scan
+from ..notation.scanner import scan_pieces, scan_pieces_around
 from ..notation.model import Annotation, Found, ScannedDocument, Span, annotation_of
 from ..positions import LineIndex
 from .findings import Finding
@@ -27,6 +28,7 @@ class DocumentReview:
     text: str
     scanned: ScannedDocument
     findings: tuple[Finding, ...]
+    stopped_at: int | None = None  # where a review given a time budget stopped; None: the whole note
 
     @cached_property
     def line_index(self) -> LineIndex:
@@ -85,14 +87,84 @@ def analyses_of(annotation: Annotation) -> tuple[Any, ...]:
     return tuple(analyse(formula) for formula in annotation.formulas)
 
 
-def review_text(text: str, kind: DocumentKind = "markdown", settings: Settings | None = None) -> DocumentReview:
+def review_text(
+    text: str,
+    kind: DocumentKind = "markdown",
+    settings: Settings | None = None,
+    more_time: Callable[[], bool] | None = None,
+) -> DocumentReview:
+    """Every finding of ``text``.
+
+    With ``more_time`` the review may stop early: it is asked before each further line
+    holding annotations, and when it answers False the review ends at the start of that
+    line (``DocumentReview.stopped_at``).  Everything above is complete, and the
+    whole-note rule ``review-continues`` marks the first line left out.  Whoever asks
+    keeps the clock: the review itself stays a function of its arguments and the answers.
+    """
     settings = settings or Settings()
+    key = (text, kind, settings)
+    finished = _finished.get(key)
+    if finished is not None:
+        return finished
     rules = _chemistry()[1]
-    reviewed = _reviewed_length(text, rules.notation.MAX_REVIEWED_CHARS)
-    scanned = scan(text if reviewed == len(text) else text[:reviewed], kind)
+    reviewed = rules.notation.reviewed_length(text)
+    scanned_text = text if reviewed == len(text) else text[:reviewed]
     reviews, placed = _reviews_for(settings)
     findings: list[Finding] = []
-    for found in scanned.found:
+    stopped_at = None
+    if more_time is None:
+        scanned = scan(scanned_text, kind)
+        _review_found(scanned.found, text, settings, reviews, placed, findings)
+    else:
+        found: list[Found] = []
+        for piece in scan_pieces(scanned_text, kind):
+            if found and not more_time():
+                line_start = text.rfind("\n", 0, piece[0][0]) + 1
+                if line_start >= found[-1][1]:  # nothing reviewed lies on the line: stop at its start
+                    stopped_at = reviewed = line_start
+                    break
+            _review_found(piece, text, settings, reviews, placed, findings)
+            found.extend(piece)
+        scanned = ScannedDocument(tuple(found))
+    # Each annotation's findings are sorted and lie inside it, and annotations neither overlap
+    # nor touch: in document order the findings are sorted already.
+    whole_note = rules.whole_note_findings(text, reviewed, settings)
+    if whole_note:
+        findings.extend(whole_note)
+        findings.sort(key=_ORDER)
+    review = DocumentReview(text, scanned, tuple(findings), stopped_at)
+    if stopped_at is None:
+        _finished[key] = review
+        if len(_finished) > _FINISHED_LIMIT:
+            del _finished[next(iter(_finished))]  # the oldest
+    return review
+
+
+def review_around(text: str, kind: DocumentKind, settings: Settings, span: Span) -> DocumentReview:
+    """The review of only the annotations ``span`` touches (for hover and code actions).
+
+    The complete review when one of this text is at hand; otherwise only the pieces
+    (segments, bonding-block lines) holding the span are scanned and reviewed, so asking
+    about one annotation never waits for a whole large note.
+    """
+    finished = _finished.get((text, kind, settings))
+    if finished is not None:
+        return finished
+    rules = _chemistry()[1]
+    scanned_text = text[: rules.notation.reviewed_length(text)]
+    reviews, placed = _reviews_for(settings)
+    found: list[Found] = []
+    for piece in scan_pieces_around(scanned_text, kind, span.start, span.end):
+        found.extend(f for f in piece if f[0] <= span.end and span.start <= f[1])
+    findings: list[Finding] = []
+    _review_found(found, text, settings, reviews, placed, findings)
+    return DocumentReview(text, ScannedDocument(tuple(found)), tuple(findings), None)
+
+
+def _review_found(found_in_order, text: str, settings: Settings, reviews: "Relative", placed: "Placed",
+                  findings: list[Finding]) -> None:
+    """Append the placed findings of each annotation (in document order) to ``findings``."""
+    for found in found_in_order:
         start, end, _, _, _, form = found
         source = text[start:end]
         relative = reviews.get((source, form))
@@ -108,25 +180,16 @@ def review_text(text: str, kind: DocumentKind = "markdown", settings: Settings |
                     placed.clear()
                 here = placed[key] = tuple([finding.shifted(start) for finding in relative])
             findings.extend(here)
-    # Each annotation's findings are sorted and lie inside it, and annotations neither overlap
-    # nor touch: in document order the findings are sorted already.
-    whole_note = rules.whole_note_findings(text, reviewed, settings)
-    if whole_note:
-        findings.extend(whole_note)
-        findings.sort(key=_ORDER)
-    return DocumentReview(text, scanned, tuple(findings))
 
 
 def _ORDER(finding: Finding) -> tuple[int, int, str]:
     return finding.span.start, finding.span.end, finding.code
 
 
-def _reviewed_length(text: str, limit: int) -> int:
-    """How much of ``text`` is reviewed: all of it, or up to the last line break within ``limit``."""
-    if len(text) <= limit:
-        return len(text)
-    line_break = text.rfind("\n", 0, limit)
-    return line_break + 1 if line_break > 0 else limit
+# The last few complete reviews, oldest first: a review finished in slices (see ``more_time``)
+# is found here by whoever asks next (the server's hover, actions, pulled diagnostics).
+_FINISHED_LIMIT = 8
+_finished: dict[tuple[str, str, Settings], DocumentReview] = {}
 
 
 # The findings of each annotation text (offsets from the annotation's start), per settings.
@@ -154,9 +217,10 @@ def _reviews_for(settings: Settings) -> tuple[Relative, Placed]:
 
 
 def forget_placed_results() -> None:
-    """Empty only the caches of results at positions (placed findings)."""
+    """Empty only the caches of results at positions (placed findings, complete reviews)."""
     for _, placed in list(_reviews.values()):
         placed.clear()
+    _finished.clear()
 
 
 def forget_cached_results() -> None:
@@ -167,6 +231,7 @@ def forget_cached_results() -> None:
     from ..notation import markdown, markdown_blocks, scanner, transform
 
     _reviews.clear()
+    _finished.clear()
     for cached in (transform.parse_body, scanner._inline_groups, scanner._block_body, markdown_blocks._paragraph_pieces):
         cached.cache_clear()
     markdown.forget_documents()

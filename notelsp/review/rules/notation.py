@@ -81,6 +81,19 @@ def formula_too_large(context: RuleContext) -> Iterator[Finding]:
 MAX_REVIEWED_CHARS = 4_000_000  # ~4 MB: a review stays under a few seconds even of hostile text
 
 
+def reviewed_length(text: str) -> int:
+    """How much of ``text`` is reviewed at most: all of it, or up to the last line break within the limit."""
+    if len(text) <= MAX_REVIEWED_CHARS:
+        return len(text)
+    line_break = text.rfind("\n", 0, MAX_REVIEWED_CHARS)
+    return line_break + 1 if line_break > 0 else MAX_REVIEWED_CHARS
+
+
+def _rest_of_line(text: str, start: int) -> Span:
+    line_end = text.find("\n", start)
+    return Span(start, len(text) if line_end == -1 else line_end)
+
+
 @rule("note-too-large", severity=Severity.WARNING, whole_note=True)
 def note_too_large(context: DocumentContext) -> Iterator[Finding]:
     """A note larger than the tool reviews: only its beginning was checked.
@@ -90,13 +103,33 @@ def note_too_large(context: DocumentContext) -> Iterator[Finding]:
     every keystroke would stall the editor.  The first 4,000,000 characters (up
     to a line break) are reviewed; split the note to have the rest checked.
     """
-    text, reviewed = context.text, context.reviewed_chars
-    if reviewed >= len(text):
+    text = context.text
+    limit = reviewed_length(text)
+    if limit >= len(text):
         return
-    line_end = text.find("\n", reviewed)
-    span = Span(reviewed, len(text) if line_end == -1 else line_end)
     yield context.finding(
-        f"note of {len(text):,} characters: the first {reviewed:,} were reviewed, the remaining "
-        f"{len(text) - reviewed:,} were not (limit {MAX_REVIEWED_CHARS:,})",
-        span,
+        f"note of {len(text):,} characters: the first {limit:,} were reviewed, the remaining "
+        f"{len(text) - limit:,} were not (limit {MAX_REVIEWED_CHARS:,})",
+        _rest_of_line(text, limit),
+    )
+
+
+@rule("review-continues", severity=Severity.INFORMATION, whole_note=True)
+def review_continues(context: DocumentContext) -> Iterator[Finding]:
+    """The editor got this note's findings up to here first; the rest follows shortly.
+
+    The language server answers each change within a fixed time.  When a
+    review would take longer (a large note opened, or pasted in, for the
+    first time) it stops at the start of a line, publishes the findings of
+    everything above it with this mark on the first line left out, and reviews
+    the rest in the background; the complete findings replace these when they
+    are ready.  The command line always reviews the whole note.
+    """
+    text, reviewed = context.text, context.reviewed_chars
+    limit = reviewed_length(text)
+    if reviewed >= limit:
+        return
+    yield context.finding(
+        f"review in progress: findings from this line on ({limit - reviewed:,} characters) follow when ready",
+        _rest_of_line(text, reviewed),
     )
