@@ -12,7 +12,7 @@ RUNTIME_STAMP := $(VENV)/.installed-runtime
 NODE_CLIENT := tests/clients/node
 SARIF_VALIDATOR := tests/clients/sarif
 
-.PHONY: demo test bench fuzz clean node-client neovim sarif-validator emacs
+.PHONY: demo test bench fuzz clean node-client neovim sarif-validator emacs chromium
 
 $(PY):
 	$(PYTHON) -m venv $(VENV)
@@ -28,9 +28,9 @@ $(STAMP): pyproject.toml setup.py | $(PY)
 	touch $(STAMP)
 
 demo: $(RUNTIME_STAMP)
-	$(VENV)/bin/notelsp demo
+	$(VENV)/bin/notelsp demo --page demo-review.html
 
-test: $(STAMP) node-client neovim sarif-validator emacs
+test: $(STAMP) node-client neovim sarif-validator emacs chromium
 	$(PY) -m pytest -q -ra
 
 # The Node.js LSP client test's one dependency (vscode-jsonrpc, pinned by the lock file).
@@ -87,3 +87,14 @@ fuzz: $(STAMP)
 
 clean:
 	rm -rf $(VENV) build dist *.egg-info
+
+# Headless Chromium for the review page's browser test: Debian's package, as root, when missing.
+chromium:
+	@if ! command -v chromium >/dev/null 2>&1; then \
+		if command -v apt-get >/dev/null 2>&1 && [ "$$(id -u)" = 0 ]; then \
+			{ apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq chromium; } >/dev/null 2>&1 \
+				|| echo "apt-get could not install chromium: the review page's browser test will skip"; \
+		else \
+			echo "chromium missing and apt-get unavailable (or not root): the review page's browser test will skip"; \
+		fi; \
+	fi

@@ -13,7 +13,6 @@ import os
 import sys
 from collections.abc import Sequence
 from dataclasses import dataclass
-from importlib import resources
 from pathlib import Path
 from typing import Any, TextIO
 
@@ -83,8 +82,14 @@ def _parser() -> argparse.ArgumentParser:
     explain.add_argument("formula", metavar="FORMULA", help="e.g. ClF3, 'SO4^2-', 'HOCl @O'")
     explain.add_argument("--format", choices=("text", "json"), default="text")
 
+    report = commands.add_parser("report", help="write a reviewer's page (one self-contained HTML file) with drawings")
+    report.add_argument("paths", nargs="+", metavar="PATH")
+    report.add_argument("-o", "--output", required=True, metavar="FILE.html", help="where to write the page")
+    report.add_argument("--config", metavar="FILE", help=f"settings file for every note (default: each note's nearest {CONFIG_NAME})")
+
     commands.add_parser("rules", help="list every rule with its explanation (Markdown)")
-    commands.add_parser("demo", help="check the bundled demo notebook")
+    demo = commands.add_parser("demo", help="check the bundled demo notebook")
+    demo.add_argument("--page", metavar="FILE.html", help="also write the demo notebook's review page there")
 
     serve = commands.add_parser("serve", help="run the language server (stdio by default)")
     serve.add_argument("--tcp", metavar="HOST:PORT", help="listen on a loopback TCP port instead (for debugging)")
@@ -99,10 +104,12 @@ def main(argv: Sequence[str] | None = None) -> int:
             return _check_command(args, sys.stdout)
         if args.command == "explain":
             return _explain(args.formula, args.format, sys.stdout)
+        if args.command == "report":
+            return _report(args.paths, args.output, args.config)
         if args.command == "rules":
             return _rules(sys.stdout)
         if args.command == "demo":
-            return _demo(sys.stdout)
+            return _demo(sys.stdout, args.page)
         if args.command == "serve":
             from .server import run
 
@@ -280,7 +287,11 @@ def _check(paths: Sequence[str], options: CheckOptions, out: TextIO) -> int:
 
 
 def _write_report(run: Any, options: CheckOptions, out: TextIO) -> None:
-    if options.output == "json":
+    if options.output == "html":
+        from .formats.html_report import write_html
+
+        write_html(run.files, out)
+    elif options.output == "json":
         from .formats.json_report import write_json
 
         write_json(run, out, options.indent)
@@ -393,6 +404,22 @@ def _explain(formula_text: str, output: str, out: TextIO) -> int:
     return EXIT_CLEAN
 
 
+def _report(paths: Sequence[str], output: str, config: str | None) -> int:
+    """``check`` rendered as a page; exit statuses as ``check``'s, the page written whole or not at all."""
+    import io
+
+    page = io.StringIO()
+    status = _check(paths, CheckOptions(output="html", config=config, cautions="none"), page)
+    if status == EXIT_USAGE:
+        return status
+    try:
+        Path(output).write_text(page.getvalue(), encoding="utf-8")
+    except OSError as error:
+        raise UsageError(f"cannot write {output}: {error.strerror or error}") from None
+    print(f"notelsp: wrote {output}", file=sys.stderr)
+    return status
+
+
 def _rules(out: TextIO) -> int:
     from .review.describe import rules_markdown
 
@@ -400,7 +427,9 @@ def _rules(out: TextIO) -> int:
     return EXIT_CLEAN
 
 
-def _demo(out: TextIO) -> int:
+def _demo(out: TextIO, page: str | None = None) -> int:
+    from importlib import resources  # demo only: importing it costs every check (tempfile, shutil, ...)
+
     demo = resources.files("notelsp.demo")
     notes = sorted(p.name for p in demo.iterdir() if p.name.endswith(NOTE_SUFFIXES))
     with resources.as_file(demo) as folder:
@@ -409,10 +438,21 @@ def _demo(out: TextIO) -> int:
         os.chdir(folder)  # report short relative paths
         try:
             _check(notes, CheckOptions(), out)
+            if page is not None:
+                import io
+
+                rendered = io.StringIO()
+                _check(notes, CheckOptions(output="html", cautions="none"), rendered)
         finally:
             os.chdir(previous)
     out.write("\nEach line above is path:line:column: severity[rule] message. "
               "Run 'notelsp explain FORMULA' for the full analysis of a species.\n")
+    if page is not None:
+        try:
+            Path(page).write_text(rendered.getvalue(), encoding="utf-8")
+        except OSError as error:
+            raise UsageError(f"cannot write {page}: {error.strerror or error}") from None
+        out.write(f"The review page, with drawings of every species, is {Path(page).resolve()}: open it in a browser.\n")
     return EXIT_CLEAN
 
 
