@@ -49,6 +49,8 @@ def markdown_cells(text: str) -> tuple[MarkdownCell, ...]:
         raise NotebookError(f"not valid JSON (line {error.lineno}, column {error.colno}: {error.msg})") from None
     except RecursionError:  # the decoder recurses per nesting level; no notebook nests this deep
         raise NotebookError("not a notebook: JSON nested too deeply") from None
+    except ValueError:  # Python refuses integers of thousands of digits (int_max_str_digits)
+        raise NotebookError("not a notebook: it holds a number too long to read") from None
     except MemoryError:
         raise NotebookError("not a notebook: too large to read") from None
     if not isinstance(document, dict):

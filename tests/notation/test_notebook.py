@@ -11,6 +11,8 @@ import json
 
 import nbformat
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 from nbformat import v4
 
 from notelsp.notation.notebook import MAX_NOTEBOOK_CHARS, MarkdownCell, NotebookError, markdown_cells
@@ -105,3 +107,40 @@ def test_a_lone_surrogate_escape_becomes_one_replacement_character():
     (cell,) = markdown_cells(text)
     assert cell.source == "a\ufffdb {ClF3}"
     assert cell.source.index("{") == 4  # columns after it are where they were
+
+
+def test_a_number_of_thousands_of_digits_is_refused_with_a_reason():
+    # CPython refuses to convert integers of more than 4,300 digits by default (Python 3.11 docs,
+    # "Integer string conversion length limitation")
+    with pytest.raises(NotebookError, match="number too long"):
+        markdown_cells('{"cells": [], "x": ' + "1" * 5000 + "}")
+
+
+_JSON = st.recursive(
+    st.none() | st.booleans() | st.integers() | st.floats(allow_nan=False) | st.text(max_size=20),
+    lambda inner: st.lists(inner, max_size=4) | st.dictionaries(
+        st.sampled_from(["cells", "cell_type", "source", "worksheets", "markdown", "code", "x"]), inner, max_size=4),
+    max_leaves=30,
+)
+
+
+@settings(max_examples=200, deadline=None)
+@given(_JSON)
+def test_any_json_value_gives_cells_or_a_notebook_error(value):
+    try:
+        cells = markdown_cells(json.dumps(value))
+    except NotebookError as error:
+        assert str(error)
+    else:
+        assert all(isinstance(cell.source, str) and cell.index >= 0 for cell in cells)
+
+
+@settings(max_examples=200, deadline=None)
+@given(st.text(max_size=200))
+def test_any_text_gives_cells_or_a_notebook_error(text):
+    try:
+        cells = markdown_cells(text)
+    except NotebookError as error:  # anything else (RecursionError, TypeError, ...) fails the test
+        assert str(error)
+    else:
+        assert isinstance(cells, tuple)
