@@ -163,6 +163,8 @@ def _check_command(args: argparse.Namespace, out: TextIO) -> int:
         raise UsageError("standard input (-) can be named once")
     if args.indent is not None and not 0 <= args.indent <= 16:
         raise UsageError(f"--indent must be between 0 and 16 (got {args.indent})")
+    if not os.path.isdir(args.source_root):
+        raise UsageError(f"--source-root is not a folder: {args.source_root}")
     options = CheckOptions(
         output=args.format,
         config=args.config,

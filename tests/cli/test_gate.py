@@ -145,3 +145,10 @@ def test_json_is_compact_unless_indented(mixed):
     indented = run_notelsp("check", "--format", "json", "--indent", "2", str(mixed)).stdout
     assert compact.count("\n") == 1 and indented.count("\n") > 10
     assert json.loads(compact) == json.loads(indented)
+
+
+def test_bad_option_values_are_usage_errors(mixed):
+    note = str(mixed / "clean.md")
+    for bad in (["--indent", "-1"], ["--source-root", str(mixed / "absent")], ["--cautions", "loud"], ["-", "-"]):
+        result = run_notelsp("check", *bad, note)
+        assert result.returncode == 2 and "Traceback" not in result.stderr, bad
