@@ -297,3 +297,28 @@ def _arc(centre: tuple[float, float], first: tuple[float, float], second: tuple[
     return (f'<path d="M{p1[0]:.1f},{p1[1]:.1f} A{radius:.1f},{radius:.1f} 0 0 1 {p2[0]:.1f},{p2[1]:.1f}" '
             f'fill="none" stroke="#000" stroke-width="1"/>'
             f'<text x="{label[0]:.1f}" y="{label[1]:.1f}" font-size="10" text-anchor="middle" fill="#000">{value:g}°</text>')
+
+
+def picture_markdown(analysis: Any, mentioned: tuple[tuple[str, str, str], ...] = (), size: int = 160) -> str | None:
+    """A Markdown image of the expected arrangement (an SVG data URI), or None when nothing is drawn."""
+    import base64
+
+    models = models_of(analysis, mentioned, limit=1)
+    if not models:
+        return None
+    encoded = base64.b64encode(svg(models[0], size=size).encode("utf-8")).decode("ascii")
+    alternative = models[0].description.replace("[", "(").replace("]", ")")
+    return f"![{alternative}](data:image/svg+xml;base64,{encoded})"
+
+
+def angles_claimed(annotation: Any) -> tuple[tuple[str, str, str], ...]:
+    """The angles (A, X, B) an annotation's claims name: each is marked in its drawings."""
+    from ..notation.model import AngleClaim, AngleOrderClaim
+
+    found: list[tuple[str, str, str]] = []
+    for claim in annotation.claims:
+        if isinstance(claim, AngleClaim) and claim.atoms:
+            found.append(claim.atoms)
+        elif isinstance(claim, AngleOrderClaim):
+            found.extend((claim.left, claim.right))
+    return tuple(dict.fromkeys(found))

@@ -14,9 +14,8 @@ from html import escape
 from typing import Any, TextIO
 
 from .. import __version__
-from ..notation.model import AngleClaim, AngleOrderClaim
 from . import SEVERITY_ORDER, ReviewedFile
-from .drawing import LONE_PAIR_FILL, OTHER_ELEMENT, PALETTE, models_of, svg
+from .drawing import LONE_PAIR_FILL, OTHER_ELEMENT, PALETTE, angles_claimed, models_of, svg
 
 CAUTION = ("Predictions are not safety data. Many species worth writing about are toxic or violently reactive; "
            "follow the safety data sheet, local rules and licensed practice.")
@@ -90,14 +89,8 @@ def _mentioned_angles(annotations) -> dict[str, set[tuple[str, str, str]]]:
     """Per formula text: the angles (A, X, B) claims name, to be marked in the drawings."""
     found: dict[str, set[tuple[str, str, str]]] = {}
     for annotation in annotations:
-        formula = annotation.formula
-        if formula is None:
-            continue
-        for claim in annotation.claims:
-            if isinstance(claim, AngleClaim) and claim.atoms:
-                found.setdefault(formula.text, set()).add(claim.atoms)
-            elif isinstance(claim, AngleOrderClaim):
-                found.setdefault(formula.text, set()).update((claim.left, claim.right))
+        if annotation.formula is not None:
+            found.setdefault(annotation.formula.text, set()).update(angles_claimed(annotation))
     return found
 
 

@@ -29,6 +29,7 @@ class Settings:
     severities: tuple[tuple[str, Severity], ...] = ()  # per-rule overrides (a tuple keeps Settings hashable)
     disabled: frozenset[str] = frozenset()
     inlay_hints: bool = True
+    hover_pictures: bool = True  # a drawing in hover, for clients that render Markdown images
     globs: tuple[str, ...] = DEFAULT_GLOBS
     cross_check_automatic: bool = False
 
@@ -104,7 +105,7 @@ def _apply(values: Mapping[str, Any], settings: Settings, prefix: str) -> tuple[
                 changes[key] = float(value)
             else:
                 problems.append(((key,), f"{name} must be a number of degrees from 0 to 45, not {_shown(value)}"))
-        elif key == "inlay_hints" or key == "cross_check_automatic":
+        elif key in ("inlay_hints", "cross_check_automatic", "hover_pictures"):
             if isinstance(value, bool):
                 changes[key] = value
             else:
