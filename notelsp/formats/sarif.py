@@ -165,7 +165,8 @@ def sarif_dict(run: CheckedRun, source_root: str = ".") -> dict[str, Any]:
         if not (reviewed.cell is not None and previous is not None and previous.path == reviewed.path):
             location = {**locations.of(reviewed.path), "index": len(artifacts)}  # a notebook's cells share one
             artifact: dict[str, Any] = {"location": {key: value for key, value in location.items() if key != "index"}}
-            language = _LANGUAGES.get(kind_of_path(reviewed.path)) if reviewed.cell is None else None
+            notebook = reviewed.cell is not None or reviewed.path.lower().endswith(".ipynb")  # JSON, not a note
+            language = None if notebook else _LANGUAGES.get(kind_of_path(reviewed.path))
             if language:
                 artifact["sourceLanguage"] = language
             artifacts.append(artifact)

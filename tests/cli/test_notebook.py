@@ -74,6 +74,7 @@ def test_sarif_is_schema_valid_and_names_the_cell_without_file_edits(tmp_path):
     jsonschema.validate(log, json.loads(SCHEMA.read_text(encoding="utf-8")))
     run = log["runs"][0]
     assert len(run["artifacts"]) == 1
+    assert "sourceLanguage" not in run["artifacts"][0]  # the file is JSON; only its cells are Markdown
     (entry,) = run["results"]
     location = entry["locations"][0]
     line, column = where(CELL, CLAIM)
