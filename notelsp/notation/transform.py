@@ -18,8 +18,8 @@ from lark.exceptions import UnexpectedCharacters, UnexpectedInput, UnexpectedTok
 from .. import elements
 from .grammar import CLAIM_WORDS, parser
 from .model import (
-    AngleClaim,
     ESD_COVERAGE,
+    AngleClaim,
     AngleOrderClaim,
     Atom,
     AxeClaim,
@@ -44,6 +44,7 @@ from .model import (
     ParsedBody,
     Span,
     UnpairedElectronClaim,
+    shifted,
 )
 
 # Bounds that keep every parse small and fast.
@@ -241,6 +242,14 @@ def _symbols(part: Atom | Group) -> set[str]:
 
 def parse_formulas(text: str, offset: int = 0) -> tuple[tuple[Formula, ...], tuple[NotationError, ...]]:
     """The species written in ``text`` (one, or two around 'vs'), with spans shifted by ``offset``."""
+    formulas, errors = _formulas_at_start(text)
+    return shifted(formulas, offset), shifted(errors, offset)
+
+
+@lru_cache(maxsize=8192)
+def _formulas_at_start(text: str) -> tuple[tuple[Formula, ...], tuple[NotationError, ...]]:
+    """``parse_formulas`` once per distinct text, spans from 0 (notes name the same species often)."""
+    offset = 0
     if len(text) > 2 * MAX_FORMULA_CHARS + 16:
         start = len(text) - len(text.lstrip())
         return (), (NotationError("formula-too-large", f"formula longer than {MAX_FORMULA_CHARS} characters",
@@ -610,11 +619,18 @@ def parse_claim(text: str, offset: int = 0) -> tuple[Claim | None, tuple[Notatio
     stripped = text.strip()
     if not stripped:
         return None, (NotationError("malformed-claim", "empty claim between separators", Span(offset, offset + len(text))),)
+    claim, errors = _claim_at_start(stripped)
+    return shifted(claim, offset + lead), shifted(errors, offset + lead)
+
+
+@lru_cache(maxsize=8192)
+def _claim_at_start(stripped: str) -> tuple[Claim | None, tuple[NotationError, ...]]:
+    """A claim parsed once per distinct text (notes repeat "sp3", "trigonal planar" ...), spans from 0."""
     try:
         tree = parser().parse(stripped, start="claim")
     except UnexpectedInput:
-        return None, (_unreadable_claim(stripped, offset + lead),)
-    builder = _ClaimBuilder(stripped, offset + lead)
+        return None, (_unreadable_claim(stripped, 0),)
+    builder = _ClaimBuilder(stripped, 0)
     claim = builder.build(tree)
     return (claim if not builder.errors else None), tuple(builder.errors)
 
