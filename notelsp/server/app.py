@@ -22,7 +22,8 @@ from pygls.exceptions import JsonRpcException
 from pygls.lsp.server import LanguageServer
 
 from .. import __version__
-from ..review.document import DocumentReview, kind_of_path
+from ..notation.model import Span
+from ..review.document import DocumentReview, kind_of_path, review_around
 from ..review.settings import Settings
 from ..review.workspace import cached_review, is_reviewed
 from .positions import LineIndex, line_index
@@ -113,19 +114,28 @@ class NoteServer(LanguageServer):
         """The open text document, or None (never read from disk)."""
         return self.workspace.text_documents.get(unquote(uri))
 
-    def held(self, uri: str) -> HeldDocument | None:
-        """The open document with its (cached) review; reviews on demand."""
+    def held(self, uri: str, around: types.Position | types.Range | None = None) -> HeldDocument | None:
+        """The open document with its (cached) review; reviews on demand.
+
+        ``around``: only the annotations there are reviewed (the complete review when one is at
+        hand), so hover and code actions never wait for the review of a whole large note.
+        """
         document = self.open_document(uri)
         if document is None:
             return None
         text = document.source
+        index = line_index(text, self.encoding())
         review = None
         if self.is_reviewed(uri):
             try:
-                review = cached_review(text, self.review_kind(uri), self.settings)
+                if around is None:
+                    review = cached_review(text, self.review_kind(uri), self.settings)
+                else:
+                    span = index.span(around) if isinstance(around, types.Range) else Span(*[index.offset(around)] * 2)
+                    review = review_around(text, self.review_kind(uri), self.settings, span)
             except Exception:
                 log.exception("review of %s failed", uri)
-        return HeldDocument(uri, document.version, text, line_index(text, self.encoding()), review)
+        return HeldDocument(uri, document.version, text, index, review)
 
     def show(self, message: str, kind: types.MessageType = types.MessageType.Warning) -> None:
         log.warning("%s", message)

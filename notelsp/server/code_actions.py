@@ -97,7 +97,7 @@ def register(server: NoteServer) -> None:
         ),
     )
     def code_actions(ls: NoteServer, params: types.CodeActionParams) -> list[types.CodeAction]:
-        held = ls.held(params.text_document.uri)
+        held = ls.held(params.text_document.uri, around=params.range)
         if held is None or held.review is None:
             return []
         review = held.review

@@ -5,7 +5,10 @@ that arrives while one is pending or running (a burst: paste, replace-all,
 fast typing) cancels it and waits until changes have paused for ~30 ms, so a
 burst costs one review.  A result whose version is no longer current is
 dropped.  The review runs in a worker thread so hover and completion stay
-responsive.  Clients that pull diagnostics (textDocument/diagnostic) are not
+responsive.  A review is given ~200 ms: one that would take longer (a large
+note opened or pasted for the first time) publishes the findings above the
+line it reached, marked ``review-continues`` there, and reviews the rest in
+further slices before publishing everything.  Clients that pull diagnostics (textDocument/diagnostic) are not
 also pushed to, so nothing is shown twice.
 
 Pushed diagnostics are built as JSON directly: a long note has a thousand
@@ -17,19 +20,22 @@ from __future__ import annotations
 
 import asyncio
 import logging
+import time
 from typing import Any, Iterable
 
 from lsprotocol import types
 
 from ..review.describe import rule_doc_url
-from ..review.document import DocumentReview
+from ..review.document import DocumentReview, review_text
 from ..review.findings import Finding, Severity
-from ..review.workspace import cached_review
 from .app import NoteServer
 from .positions import LineIndex, line_index
 
 log = logging.getLogger("notelsp.server")
 PAUSE_SECONDS = 0.03  # quiet time that ends a burst of changes; keystrokes are further apart
+# A review taking longer than this publishes what it has (with review-continues) and goes on in slices
+# this long, stopping at once when a newer version arrives.  Hover and code actions do not wait for it.
+REVIEW_BUDGET_SECONDS = 0.2
 SOURCE = "notelsp"
 PUBLISH = types.TEXT_DOCUMENT_PUBLISH_DIAGNOSTICS
 
@@ -127,8 +133,12 @@ def schedule(ls: NoteServer, uri: str, delay: float | None = None) -> None:
     ls.pending[uri] = asyncio.get_running_loop().create_task(_publish_later(ls, uri, delay))
 
 
-def _reviewed_json(text: str, kind, settings, encoding: str) -> list[dict[str, Any]]:
-    return diagnostics_json(cached_review(text, kind, settings).findings, line_index(text, encoding))
+def _reviewed_slice(text: str, kind, settings, encoding: str) -> tuple[list[dict[str, Any]], bool]:
+    """One slice of the review (at most about REVIEW_BUDGET_SECONDS of new work) as JSON, and whether it
+    was the whole note.  Each slice finds what earlier ones computed in the review's caches."""
+    deadline = time.monotonic() + REVIEW_BUDGET_SECONDS
+    review = review_text(text, kind, settings, more_time=lambda: time.monotonic() < deadline)
+    return diagnostics_json(review.findings, line_index(text, encoding)), review.stopped_at is None
 
 
 async def _publish_later(ls: NoteServer, uri: str, delay: float) -> None:
@@ -139,12 +149,22 @@ async def _publish_later(ls: NoteServer, uri: str, delay: float) -> None:
         return
     text, version = document.source, document.version
     diagnostics: list[dict[str, Any]] = []
+    whole = True
     if ls.is_reviewed(uri):
         kind, settings, encoding = ls.review_kind(uri), ls.settings, ls.encoding()
-        try:
-            diagnostics = await asyncio.to_thread(_reviewed_json, text, kind, settings, encoding)
-        except Exception:
-            log.exception("review of %s failed", uri)
+        first = True
+        while first or not whole:  # a review past its budget: what it has first, then the rest slice by slice
+            try:
+                diagnostics, whole = await asyncio.to_thread(_reviewed_slice, text, kind, settings, encoding)
+            except Exception:
+                log.exception("review of %s failed", uri)
+                diagnostics, whole = [], True
+            current = ls.open_document(uri)
+            if current is None or current.version != version:
+                return  # stale: a newer change has its own publication scheduled (or the document closed)
+            if first and not whole:
+                publish_json(ls, uri, version, diagnostics)  # carries review-continues where it stopped
+            first = False
     current = ls.open_document(uri)
     if current is None or current.version != version:
         return  # stale: a newer change has its own publication scheduled (or the document closed)
