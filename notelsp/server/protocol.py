@@ -27,7 +27,7 @@ import json
 import logging
 from concurrent.futures import Future
 from functools import partial
-from typing import Any, Callable
+from typing import Any
 
 from pygls.exceptions import (
     JsonRpcException,
