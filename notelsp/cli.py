@@ -3,7 +3,8 @@
 Reads files, hands their text to the review layer and prints what it found.
 Exit status of ``check``: 0 nothing at or above ``--fail-level`` (default: error),
 1 findings at or above it, 2 usage or I/O error (an unreadable file included),
-3 no notes were reviewed (a warning: nothing matched).
+3 no notes were reviewed (a warning: nothing matched), 4 with ``--cross-check``:
+a calculation failed, was killed or ran out of time.
 """
 
 from __future__ import annotations
