@@ -58,7 +58,10 @@ Line and text are nil while an edit has left a diagnostic's old positions beyond
   ;; eglot-ensure connects after the command that opened the buffer: run what follows a command.
   (run-hooks 'post-command-hook)
   (drive-put 'managed (and (drive-wait (lambda () (bound-and-true-p eglot--managed-mode)) 30) t))
-  (drive-put 'diagnostics (drive-wait (lambda () (and (drive-find "wrong-shape") (drive-diagnostics))) 30))
+  ;; A first publication may be partial (review-continues marks where it stopped): wait for the whole.
+  (drive-put 'diagnostics (drive-wait (lambda () (and (drive-find "wrong-shape") (not (drive-find "review-continues"))
+                                                      (drive-diagnostics)))
+                                      30))
 
   ;; Hover, asked the way eglot asks it (its own request and position conversion).
   (goto-char (point-min))
@@ -76,7 +79,7 @@ Line and text are nil while an edit has left a diagnostic's old positions beyond
       (drive-put 'fix_cleared (and (drive-wait (lambda () (not (drive-find "wrong-shape"))) 30) t))))
 
   ;; Settings: the user's eglot-workspace-configuration switches a rule off.
-  (drive-put 'before_settings (and (drive-find "wrong-hybridization") t))
+  (drive-put 'before_settings (and (drive-wait (lambda () (drive-find "wrong-hybridization")) 30) t))
   (setq-default eglot-workspace-configuration '(:notelsp (:disabled ["wrong-hybridization"])))
   (eglot-signal-didChangeConfiguration (eglot--current-server-or-lose))
   (drive-put 'settings_cleared (and (drive-wait (lambda () (not (drive-find "wrong-hybridization"))) 30) t))
