@@ -20,7 +20,8 @@ import pytest
 
 ROOT = Path(__file__).resolve().parents[1]
 HOOK_ID = "notelsp-check"
-pytestmark = pytest.mark.slow
+# Each try-repo run installs notelsp and its dependencies into a new environment: minutes, not seconds.
+pytestmark = [pytest.mark.slow, pytest.mark.timeout(1500)]
 # What pip says when it cannot reach an index: then the hook's environment cannot be built here.
 OFFLINE_SIGNS = ("No matching distribution", "Could not find a version", "Failed to establish a new connection",
                  "Temporary failure in name resolution", "Network is unreachable", "ProxyError", "Read timed out")
