@@ -15,7 +15,7 @@ import pytest
 from notelsp.server.framing import MAX_BODY_BYTES, MAX_HEADER_BYTES, MAX_HEADER_LINES
 
 from .scale import tried
-from .stdio_wire import message, start_server
+from .stdio_wire import frame as message_frame, message, start_server
 
 INVALID_REQUEST = -32600
 NOTE_URI = "file:///reliability/bounds.md"
@@ -107,5 +107,21 @@ def test_hostile_frame_before_initialize_then_the_input_ends():
         _open(server)
         _serving(server)
         assert _exits_when_input_ends(server) == 0
+    finally:
+        server.close()
+
+
+def test_json_nested_a_million_deep_is_a_parse_error():
+    """Within the length bound but beyond any parser's nesting: -32700 (id null), before and after initialize."""
+    deep = b"[" * 1_000_000 + b"]" * 1_000_000
+    server = start_server()
+    try:
+        server.send_raw(message_frame(deep))  # read by the fast start-up's front first
+        server.initialize()
+        server.send_raw(message_frame(deep))
+        tried("hostile frames sent over stdio (beyond the length and header bounds)", 2)
+        _open(server)
+        _serving(server)
+        assert [m["error"]["code"] for m in _refused(server)] == [-32700, -32700]  # JSON-RPC 2.0 parse error
     finally:
         server.close()
