@@ -15,6 +15,7 @@ from pathlib import Path
 sys.path.insert(0, str(Path(__file__).resolve().parent))
 
 import analysis  # noqa: E402
+import cli_start  # noqa: E402
 import server  # noqa: E402
 
 
@@ -34,6 +35,8 @@ def main() -> None:
     print(f"cores: {os.cpu_count()}")
     print(f"python_loop_ms: {python_loop_ms():.0f}", flush=True)
     for name, value in server.measure().items():  # first: its fresh processes should not share the CPU with us
+        print(f"{name}: {value}", flush=True)
+    for name, value in cli_start.measure().items():  # processes too, before the in-process figures
         print(f"{name}: {value}", flush=True)
     analysis.main()
 
