@@ -1,0 +1,26 @@
+"""Computed geometries: every single-centre species optimised with GFN2-xTB.
+
+The analysis predicts; this package computes.  A species' starting structure
+comes from the analysis (the centre at the origin, each ligand at its
+predicted bond length along its site's unit vector), is optimised with
+tblite's GFN2-xTB in a worker process, and the result (angles, lengths,
+energy) is kept in a disk cache.  Like the cross-check it lives at the edge:
+it runs processes and writes files; nothing below it imports it.
+"""
+
+from .method import ANGLE_UNCERTAINTY_DEG, METHOD, Limits, versions
+from .pool import GeometryPool, compute_species
+from .result import Angle, Bond, ComputedGeometry, ComputedSpecies
+
+__all__ = [
+    "ANGLE_UNCERTAINTY_DEG",
+    "METHOD",
+    "Angle",
+    "Bond",
+    "ComputedGeometry",
+    "ComputedSpecies",
+    "GeometryPool",
+    "Limits",
+    "compute_species",
+    "versions",
+]

@@ -1,0 +1,214 @@
+"""Computed structures on disk: one small JSON file per structure, method and versions.
+
+Lives in ``$NOTELSP_CACHE_DIR/computed``, else ``$XDG_CACHE_HOME/notelsp/computed``,
+else ``~/.cache/notelsp/computed``.  Safe to delete at any time.  The key is a
+hash of everything the result depends on: the species as written, its charge,
+the isomer's arrangement (labels, sites and starting positions), the spin
+state, the method and the package versions, so an upgrade of tblite or ASE
+simply misses.
+
+The folder is outside our control, so an entry is read only if it is a
+regular file of plausible size (checked before and after a non-blocking open;
+symlinks are not followed), parsed as JSON only (never pickle, never
+executed) after its nesting depth is checked, and used only if it passes the
+result schema (``result.geometry_from_dict``) and describes exactly the
+structure asked for; anything else is treated as absent and recomputed.
+Writers write a temporary file and rename it into place, so concurrent
+writers and readers never see half an entry.  Past ``MAX_TOTAL_BYTES`` the
+oldest entries are removed.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+import os
+import stat
+import tempfile
+import time
+from pathlib import Path
+from typing import Any
+
+from .geometry import Structure
+from .method import METHOD, versions
+from .result import BadResult, ComputedGeometry, geometry_from_dict, geometry_to_dict
+
+FORMAT = 1  # bump when an entry changes shape or meaning
+MAX_ENTRY_BYTES = 64 * 1024  # a structure of 40 atoms is about 8 kB
+MAX_NESTING = 6  # entry -> geometry -> positions -> one position: 4 levels are used
+MAX_TOTAL_BYTES = 50 * 1024 * 1024
+EVICT_TO = 0.8  # of MAX_TOTAL_BYTES, so eviction does not run on every store
+EVICT_EVERY = 32  # stores between size checks in one process
+STALE_TEMPORARY_S = 3600.0  # a temporary file this old belongs to a writer that died
+
+_stores = 0
+
+
+def cache_root() -> Path:
+    override = os.environ.get("NOTELSP_CACHE_DIR")
+    if override:
+        return Path(override) / "computed"
+    xdg = os.environ.get("XDG_CACHE_HOME")
+    base = Path(xdg) if xdg else Path.home() / ".cache"
+    return base / "notelsp" / "computed"
+
+
+def entry_key(structure: Structure) -> list[Any]:
+    """Everything a computed structure depends on, as JSON."""
+    return [FORMAT, METHOD, [list(v) for v in versions()], structure.species, structure.charge, structure.isomer,
+            list(structure.symbols), list(structure.labels), list(structure.sites),
+            [[round(c, 6) for c in p] for p in structure.positions], structure.unpaired]
+
+
+def entry_path(structure: Structure) -> Path:
+    digest = hashlib.sha256(json.dumps(entry_key(structure)).encode()).hexdigest()[:32]
+    return cache_root() / f"{digest}.json"
+
+
+def read_entry(path: Path) -> bytes | None:
+    """The bytes of ``path`` if it is a regular file of at most MAX_ENTRY_BYTES; else None. Never blocks."""
+    try:
+        if not stat.S_ISREG(os.lstat(path).st_mode):
+            return None
+        descriptor = os.open(path, os.O_RDONLY | os.O_NONBLOCK | getattr(os, "O_NOFOLLOW", 0))
+    except OSError:
+        return None
+    try:
+        status = os.fstat(descriptor)
+        if not stat.S_ISREG(status.st_mode) or status.st_size > MAX_ENTRY_BYTES:
+            return None
+        data = os.read(descriptor, MAX_ENTRY_BYTES + 1)
+        return data if len(data) <= MAX_ENTRY_BYTES else None
+    except OSError:
+        return None
+    finally:
+        os.close(descriptor)
+
+
+def nesting_depth(text: str) -> int:
+    """How deeply ``text``'s JSON arrays and objects nest, counted without parsing (strings skipped)."""
+    depth = deepest = 0
+    in_string = escaped = False
+    for char in text:
+        if in_string:
+            if escaped:
+                escaped = False
+            elif char == "\\":
+                escaped = True
+            elif char == '"':
+                in_string = False
+        elif char == '"':
+            in_string = True
+        elif char in "[{":
+            depth += 1
+            deepest = max(deepest, depth)
+        elif char in "]}":
+            depth -= 1
+    return deepest
+
+
+def parse_entry(data: bytes, structure: Structure) -> ComputedGeometry:
+    """The entry's geometry if it is well formed and is the result for ``structure``; BadResult otherwise."""
+    try:
+        text = data.decode("utf-8")
+    except UnicodeDecodeError as error:
+        raise BadResult("not UTF-8") from error
+    if nesting_depth(text) > MAX_NESTING:
+        raise BadResult(f"nested deeper than {MAX_NESTING}")
+    try:
+        payload = json.loads(text)
+    except (ValueError, RecursionError) as error:
+        raise BadResult(f"not JSON: {error}") from error
+    if not isinstance(payload, dict) or payload.get("key") != entry_key(structure):
+        raise BadResult("not an entry for this structure, method and versions")
+    found = geometry_from_dict(payload.get("geometry"))
+    expected = (structure.species, structure.charge, structure.isomer, structure.symbols, structure.labels,
+                structure.sites, structure.unpaired, METHOD, versions())
+    if (found.species, found.charge, found.isomer, found.symbols, found.labels, found.sites, found.unpaired,
+            found.method, found.versions) != expected:
+        raise BadResult("the stored structure is not the one asked for")
+    if found.failed is not None:
+        raise BadResult("a failure is never stored")
+    return found
+
+
+def load(structure: Structure) -> ComputedGeometry | None:
+    """The stored result for ``structure``, or None when absent or unusable (then it is recomputed)."""
+    path = entry_path(structure)
+    data = read_entry(path)
+    if data is None:
+        return None
+    try:
+        return parse_entry(data, structure)
+    except BadResult:
+        return None
+
+
+def store(geometry: ComputedGeometry) -> None:
+    """Keep a result that did not fail (failures depend on load and bounds, so they are recomputed).
+
+    A cache that cannot be written is not an error.
+    """
+    global _stores
+    if geometry.failed is not None:
+        return
+    structure = Structure(geometry.species, geometry.charge, geometry.isomer, geometry.rank, geometry.symbols,
+                          geometry.labels, geometry.sites, geometry.start, (), geometry.unpaired, geometry.spin)
+    path = entry_path(structure)
+    payload = json.dumps({"key": entry_key(structure), "geometry": geometry_to_dict(geometry)}, allow_nan=False)
+    try:
+        path.parent.mkdir(parents=True, exist_ok=True)
+        descriptor, temporary = tempfile.mkstemp(dir=path.parent, prefix=".entry-", suffix=".tmp")
+        try:
+            with os.fdopen(descriptor, "w", encoding="utf-8") as handle:
+                handle.write(payload)
+            os.replace(temporary, path)
+        except BaseException:
+            _remove(Path(temporary))
+            raise
+    except (OSError, ValueError):
+        return
+    _stores += 1
+    if _stores % EVICT_EVERY == 1:
+        evict()
+
+
+def evict(limit: int = MAX_TOTAL_BYTES) -> int:
+    """Remove the oldest entries while the folder holds more than ``limit`` bytes; the count removed."""
+    root = cache_root()
+    entries = []
+    now = time.time()
+    try:
+        with os.scandir(root) as found:
+            for item in found:
+                try:
+                    status = item.stat(follow_symlinks=False)
+                except OSError:
+                    continue
+                if not stat.S_ISREG(status.st_mode):
+                    continue
+                if item.name.startswith(".entry-") and now - status.st_mtime > STALE_TEMPORARY_S:
+                    _remove(Path(item.path))
+                elif item.name.endswith(".json"):
+                    entries.append((status.st_mtime, status.st_size, item.path))
+    except OSError:
+        return 0
+    total = sum(size for _, size, _ in entries)
+    if total <= limit:
+        return 0
+    removed = 0
+    for _, size, path in sorted(entries):
+        if total <= limit * EVICT_TO:
+            break
+        if _remove(Path(path)):
+            total -= size
+            removed += 1
+    return removed
+
+
+def _remove(path: Path) -> bool:
+    try:
+        path.unlink()
+        return True
+    except OSError:
+        return False

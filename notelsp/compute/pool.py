@@ -1,0 +1,271 @@
+"""Compute many species at once: cached structures first, the rest in worker processes.
+
+A pool of worker processes (``spawn``, one per core, each replaced after
+``Limits.tasks_per_worker`` structures) optimises one structure per job.  At
+most one job per worker is handed over at a time, so every job's deadline
+runs from when it really starts; the rest wait here, where :meth:`cancel`
+can drop them.  Whatever happens to a job (a failed SCF, the time or memory
+bound, a worker killed by the kernel) comes back as a result whose
+``failed`` says why, never as an exception or a hang.
+"""
+
+from __future__ import annotations
+
+import multiprocessing
+import os
+import threading
+import time
+from collections import deque
+from collections.abc import Callable, Sequence
+from concurrent.futures import FIRST_COMPLETED, Future, ProcessPoolExecutor, wait
+from concurrent.futures.process import BrokenProcessPool
+from dataclasses import dataclass
+
+from ..chem import analyse
+from ..chem.analysis import SpeciesAnalysis
+from ..notation import parse_formula
+from ..notation.model import Formula
+from . import cache, worker
+from .geometry import Skipped, Structure, start_structures
+from .method import METHOD, Limits, missing_packages, versions
+from .result import BadResult, ComputedGeometry, ComputedSpecies, geometry_from_dict, ordered
+
+# Added to a job's own wall-time bound before the parent gives up on it: a fresh worker first
+# imports tblite and ASE (3-5 s on an idle core, several times that on a loaded machine).
+STARTUP_GRACE_S = 30.0
+POLL_S = 0.2  # how often a waiting compute() looks at the cancel flag
+
+
+@dataclass(frozen=True, slots=True)
+class Request:
+    """A species to compute; ``unpaired`` chooses the spin state instead of the default."""
+
+    species: str | Formula | SpeciesAnalysis
+    unpaired: int | None = None
+
+
+@dataclass(slots=True)
+class _Job:
+    species: int  # index of the request
+    slot: int  # index of the structure within it
+    structure: Structure
+    attempts: int = 0
+
+
+class GeometryPool:
+    """Worker processes that optimise structures; use as a context manager, or call close()."""
+
+    def __init__(self, limits: Limits = Limits(), workers: int | None = None, use_cache: bool = True) -> None:
+        self.limits = limits
+        self.workers = max(1, workers or os.cpu_count() or 1)
+        self.use_cache = use_cache
+        self._executor: ProcessPoolExecutor | None = None
+        self._cancelled = threading.Event()
+        self._lock = threading.Lock()
+
+    def __enter__(self) -> GeometryPool:
+        return self
+
+    def __exit__(self, *exc: object) -> None:
+        self.close()
+
+    def cancel(self) -> None:
+        """Start no further structure (from any thread); those not started come back failed as cancelled.
+
+        Structures already running finish within their own wall-time bound.
+        """
+        self._cancelled.set()
+
+    def close(self) -> None:
+        with self._lock:
+            executor, self._executor = self._executor, None
+        if executor is not None:
+            executor.shutdown(wait=True, cancel_futures=True)
+
+    # --- computing -----------------------------------------------------------------
+
+    def compute(self, requests: Sequence[Request | str | Formula | SpeciesAnalysis],
+                on_species: Callable[[ComputedSpecies], None] | None = None) -> list[ComputedSpecies]:
+        """Every request's computed species, in the order asked; ``on_species`` hears each as it completes."""
+        self._cancelled.clear()
+        asked = [r if isinstance(r, Request) else Request(r) for r in requests]
+        missing = missing_packages()
+        if missing:
+            return [ComputedSpecies(_name(r.species), 0, METHOD, versions(), (),
+                                    f"{' and '.join(missing)} not installed (pip install tblite ase)") for r in asked]
+        starts = [_structures(r, self.limits) for r in asked]
+        slots: list[list[ComputedGeometry | None]] = [[] if isinstance(s, Skipped) else [None] * len(s[1])
+                                                      for s in starts]
+        cached = [0] * len(asked)
+        pending: deque[_Job] = deque()
+        for index, start in enumerate(starts):
+            if isinstance(start, Skipped):
+                continue
+            for slot, structure in enumerate(start[1]):
+                stored = cache.load(structure) if self.use_cache else None
+                if stored is not None:
+                    slots[index][slot] = stored
+                    cached[index] += 1
+                else:
+                    pending.append(_Job(index, slot, structure))
+        results: list[ComputedSpecies | None] = [None] * len(asked)
+
+        def finish_ready() -> None:
+            for index, start in enumerate(starts):
+                if results[index] is None and all(g is not None for g in slots[index]):
+                    results[index] = _species(asked[index], start, slots[index], cached[index])  # type: ignore[arg-type]
+                    if on_species is not None:
+                        on_species(results[index])  # type: ignore[arg-type]
+
+        finish_ready()
+        self._run(pending, slots)
+        finish_ready()
+        return results  # type: ignore[return-value]
+
+    def _run(self, pending: deque[_Job], slots: list[list[ComputedGeometry | None]]) -> None:
+        running: dict[Future, tuple[_Job, float]] = {}
+        while pending or running:
+            if self._cancelled.is_set():
+                while pending:
+                    job = pending.popleft()
+                    slots[job.species][job.slot] = _failure(job.structure, "cancelled before it started")
+            while pending and len(running) < self.workers:
+                job = pending.popleft()
+                job.attempts += 1
+                future = self._pool().submit(worker.run, {"structure": job.structure.to_dict(),
+                                                          "limits": _limits_dict(self.limits)})
+                running[future] = (job, time.monotonic() + self.limits.wall_time_s + 2.0 + STARTUP_GRACE_S)
+            if not running:
+                continue
+            soonest = min(deadline for _, deadline in running.values())
+            done, _ = wait(running, timeout=max(0.0, min(POLL_S, soonest - time.monotonic())),
+                           return_when=FIRST_COMPLETED)
+            broken = False
+            for future in done:
+                job, _ = running.pop(future)
+                answer = self._answer(future, job)
+                if answer is None:  # the worker died under it: once more on a fresh worker
+                    broken = True
+                    if job.attempts < 2:
+                        pending.appendleft(job)
+                        continue
+                    answer = _failure(job.structure, "its worker process ended twice (the memory or CPU-time bound, "
+                                                     "or a crash in the library)")
+                slots[job.species][job.slot] = answer
+                if self.use_cache:
+                    cache.store(answer)
+            now = time.monotonic()
+            late = [f for f, (_, deadline) in running.items() if deadline <= now]
+            if late or broken:
+                for future in late:
+                    job, _ = running.pop(future)
+                    slots[job.species][job.slot] = _failure(
+                        job.structure, f"ran out of time (no answer within {self.limits.wall_time_s:g} s "
+                                       f"plus {STARTUP_GRACE_S:g} s to start a worker); its worker was stopped")
+                # A stuck or dead worker takes the pool with it: the others' jobs go back in line.
+                for future, (job, _) in running.items():
+                    job.attempts -= 1 if not future.done() else 0
+                    pending.appendleft(job)
+                running.clear()
+                self._discard_pool()
+
+    def _answer(self, future: Future, job: _Job) -> ComputedGeometry | None:
+        """The job's checked result; None when its worker process died."""
+        try:
+            raw = future.result()
+        except BrokenProcessPool:
+            return None
+        except Exception as error:  # anything the worker let through (it should not): a failure, not a crash
+            return _failure(job.structure, f"the worker raised {type(error).__name__}: {str(error)[:300]}")
+        try:
+            found = geometry_from_dict(raw)
+        except BadResult as error:
+            return _failure(job.structure, f"the worker's answer is unusable ({error})")
+        if (found.species, found.isomer, found.symbols, found.labels) != (
+                job.structure.species, job.structure.isomer, job.structure.symbols, job.structure.labels):
+            return _failure(job.structure, "the worker answered for another structure")
+        return found
+
+    def _pool(self) -> ProcessPoolExecutor:
+        with self._lock:
+            if self._executor is None:
+                self._executor = ProcessPoolExecutor(
+                    max_workers=self.workers, mp_context=multiprocessing.get_context("spawn"),
+                    initializer=worker.initialise, initargs=(self.limits.memory_bytes,),
+                    max_tasks_per_child=self.limits.tasks_per_worker)
+            return self._executor
+
+    def _discard_pool(self) -> None:
+        """Stop every worker now (a hung one included) and forget the pool; the next job starts a new one."""
+        with self._lock:
+            executor, self._executor = self._executor, None
+        if executor is None:
+            return
+        kill = getattr(executor, "kill_workers", None)  # Python 3.14+
+        if kill is not None:
+            kill()
+        else:
+            for process in list((getattr(executor, "_processes", None) or {}).values()):
+                if process.is_alive():
+                    process.kill()
+        executor.shutdown(wait=False, cancel_futures=True)
+
+
+def compute_species(species: str | Formula | SpeciesAnalysis, limits: Limits = Limits(),
+                    unpaired: int | None = None, use_cache: bool = True) -> ComputedSpecies:
+    """One species with a pool of its own (for scripts and tests; a server keeps one GeometryPool)."""
+    with GeometryPool(limits, use_cache=use_cache) as pool:
+        return pool.compute([Request(species, unpaired)])[0]
+
+
+# --- helpers ----------------------------------------------------------------------
+
+
+def _name(species: str | Formula | SpeciesAnalysis) -> str:
+    if isinstance(species, str):
+        return species
+    return species.text if isinstance(species, Formula) else species.formula
+
+
+def _structures(request: Request, limits: Limits) -> tuple[SpeciesAnalysis, tuple[Structure, ...]] | Skipped:
+    species = request.species
+    if isinstance(species, SpeciesAnalysis):
+        analysis = species
+    else:
+        try:
+            formula = parse_formula(species) if isinstance(species, str) else species
+        except ValueError as error:
+            return Skipped(f"{species!r} is not a formula the notation reads: {error}")
+        analysis = analyse(formula)
+    built = start_structures(analysis, limits, request.unpaired)
+    return built if isinstance(built, Skipped) else (analysis, built)
+
+
+def _species(request: Request, start: tuple[SpeciesAnalysis, tuple[Structure, ...]] | Skipped,
+             structures: list[ComputedGeometry], cached: int) -> ComputedSpecies:
+    if isinstance(start, Skipped):
+        return ComputedSpecies(_name(request.species), 0, METHOD, versions(), (), start.reason)
+    analysis, built = start
+    notes = ()
+    centre = analysis.centres[0]
+    listed = len(centre.isomers) - sum(1 for i, iso in enumerate(centre.isomers)
+                                       if iso.enantiomer is not None and iso.enantiomer < i)
+    if listed > len(built):
+        notes = (f"only the first {len(built)} of {listed} isomers (by the analysis's rank) were computed",)
+    return ComputedSpecies(analysis.formula, analysis.charge, METHOD, versions(), ordered(structures),
+                           None, notes, cached)
+
+
+def _failure(structure: Structure, reason: str) -> ComputedGeometry:
+    return geometry_from_dict({
+        "species": structure.species, "charge": structure.charge, "isomer": structure.isomer,
+        "rank": structure.rank, "method": METHOD, "versions": [list(v) for v in versions()],
+        "symbols": list(structure.symbols), "labels": list(structure.labels), "sites": list(structure.sites),
+        "unpaired": structure.unpaired, "spin": structure.spin,
+        "start": [list(p) for p in structure.positions], "positions": [list(p) for p in structure.positions],
+        "energy_ev": None, "converged": False, "steps": 0, "wall_time_s": 0.0, "failed": reason, "notes": [],
+    })
+
+
+def _limits_dict(limits: Limits) -> dict[str, float | int]:
+    return {name: getattr(limits, name) for name in Limits.__slots__}  # type: ignore[attr-defined]

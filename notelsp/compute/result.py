@@ -1,0 +1,276 @@
+"""What a calculation returns, as frozen values, and their JSON form.
+
+The JSON form is the only thing that crosses a process boundary or touches
+the disk; :func:`geometry_from_dict` rebuilds a value from it and refuses
+(``BadResult``) anything that is not exactly that shape: types, counts,
+finite numbers of sane size, short strings.  A worker's answer and a cache
+file are read through it alike.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import Any
+
+Vector = tuple[float, float, float]
+
+EV_PER_KJ_MOL = 0.010364269656262174  # 1 kJ/mol in eV (CODATA 2018 via 1 eV = 96.485 kJ/mol)
+REARRANGED_DEG = 30.0  # an angle that moved this far from the start means the isomer became another one
+
+MAX_ATOMS = 64  # above Limits.max_atoms, so a bound change does not make every entry unreadable
+MAX_TEXT = 400
+MAX_COORDINATE = 1000.0  # angstrom
+MAX_ENERGY_EV = 1e7  # the heaviest single-centre species are ~1e5 eV in size
+MAX_SECONDS = 1e6
+
+
+class BadResult(ValueError):
+    """A stored or reported result that is not a usable computed geometry."""
+
+
+@dataclass(frozen=True, slots=True)
+class Angle:
+    """The bond angle first-centre-second; atoms by index into ``symbols`` (the centre is 0)."""
+
+    first: int
+    second: int
+    labels: tuple[str, str, str]  # (A, X, B): the ligands as written and the centre
+    degrees: float
+
+
+@dataclass(frozen=True, slots=True)
+class Bond:
+    atom: int  # index into symbols
+    label: str  # the ligand as written
+    angstrom: float  # its distance from the centre
+
+
+@dataclass(frozen=True, slots=True)
+class ComputedGeometry:
+    """One optimised structure: one isomer of one species at one spin state."""
+
+    species: str  # the formula as written
+    charge: int
+    isomer: str  # the analysis's name of the isomer, "" when the species has one
+    rank: int  # the analysis's rank (1 = the isomer the rules expect)
+    method: str
+    versions: tuple[tuple[str, str], ...]  # (package, version) of what computed it
+    symbols: tuple[str, ...]  # centre first
+    labels: tuple[str, ...]  # the ligand of each of symbols[1:] as written ("F", "O")
+    sites: tuple[str, ...]  # the site each ligand started on ("axial", "vertex", ...)
+    unpaired: int  # unpaired electrons of the spin state computed
+    spin: str  # which spin state, and why that one
+    start: tuple[Vector, ...]  # angstrom: the structure built from the analysis
+    positions: tuple[Vector, ...]  # angstrom: the optimised structure (the start if it failed early)
+    energy_ev: float | None
+    converged: bool
+    steps: int
+    angles: tuple[Angle, ...]  # every bond angle at the centre
+    bonds: tuple[Bond, ...]  # every bond to the centre
+    largest_angle_change_deg: float  # how far any angle moved from the start
+    wall_time_s: float
+    failed: str | None = None  # why this structure has no usable result; None when it has one
+    notes: tuple[str, ...] = ()
+
+    @property
+    def usable(self) -> bool:
+        """Converged, not failed, and still the isomer it started as."""
+        return self.failed is None and self.converged and not self.rearranged
+
+    @property
+    def rearranged(self) -> bool:
+        return self.largest_angle_change_deg > REARRANGED_DEG
+
+    def angles_between(self, a: str, b: str) -> tuple[float, ...]:
+        """Every computed a-centre-b angle (ligand labels, either order), smallest first."""
+        return tuple(sorted(angle.degrees for angle in self.angles
+                            if {angle.labels[0], angle.labels[2]} == {a, b} and
+                            (a != b or angle.labels[0] == angle.labels[2] == a)))
+
+
+@dataclass(frozen=True, slots=True)
+class ComputedSpecies:
+    """Every computed structure of a species, lowest energy first; failed ones last."""
+
+    species: str
+    charge: int
+    method: str
+    versions: tuple[tuple[str, str], ...]
+    structures: tuple[ComputedGeometry, ...]
+    skipped: str | None = None  # why nothing was computed (a group ligand, several centres, ...)
+    notes: tuple[str, ...] = ()
+    cached: int = 0  # structures that came from the disk cache
+
+    @property
+    def lowest(self) -> ComputedGeometry | None:
+        """The usable structure of lowest energy, None when none is usable."""
+        usable = [s for s in self.structures if s.usable]
+        return usable[0] if usable else None
+
+    @property
+    def failed(self) -> str | None:
+        """Why the species has no usable structure at all; None when it has one."""
+        if self.skipped:
+            return self.skipped
+        if self.lowest is None:
+            reasons = [f"{s.isomer or s.species}: {s.failed or _unusable_reason(s)}" for s in self.structures]
+            return "; ".join(reasons) or "nothing was computed"
+        return None
+
+    def relative_energies_kj_mol(self) -> tuple[tuple[str, float], ...]:
+        """(isomer, energy above the lowest usable structure) for every usable structure."""
+        usable = [s for s in self.structures if s.usable and s.energy_ev is not None]
+        if not usable:
+            return ()
+        base = usable[0].energy_ev
+        return tuple((s.isomer, (s.energy_ev - base) / EV_PER_KJ_MOL) for s in usable)  # type: ignore[operator]
+
+
+def _unusable_reason(structure: ComputedGeometry) -> str:
+    if not structure.converged:
+        return f"not converged in {structure.steps} steps"
+    return (f"rearranged into another arrangement (an angle moved {structure.largest_angle_change_deg:.0f}° "
+            "from the start)")
+
+
+def ordered(structures: list[ComputedGeometry]) -> tuple[ComputedGeometry, ...]:
+    """Usable structures by energy, then the rest in the analysis's rank order."""
+    return tuple(sorted(structures, key=lambda s: (not s.usable, s.energy_ev if s.usable else 0.0, s.rank)))
+
+
+# --- JSON form ------------------------------------------------------------------
+
+
+def geometry_to_dict(geometry: ComputedGeometry) -> dict[str, Any]:
+    return {
+        "species": geometry.species,
+        "charge": geometry.charge,
+        "isomer": geometry.isomer,
+        "rank": geometry.rank,
+        "method": geometry.method,
+        "versions": [list(v) for v in geometry.versions],
+        "symbols": list(geometry.symbols),
+        "labels": list(geometry.labels),
+        "sites": list(geometry.sites),
+        "unpaired": geometry.unpaired,
+        "spin": geometry.spin,
+        "start": [list(p) for p in geometry.start],
+        "positions": [list(p) for p in geometry.positions],
+        "energy_ev": geometry.energy_ev,
+        "converged": geometry.converged,
+        "steps": geometry.steps,
+        "wall_time_s": geometry.wall_time_s,
+        "failed": geometry.failed,
+        "notes": list(geometry.notes),
+    }
+
+
+def _text(value: Any, what: str) -> str:
+    if not isinstance(value, str) or len(value) > MAX_TEXT:
+        raise BadResult(f"{what} is not a short string")
+    return value
+
+
+def _integer(value: Any, what: str, low: int, high: int) -> int:
+    if not isinstance(value, int) or isinstance(value, bool) or not low <= value <= high:
+        raise BadResult(f"{what} is not an integer from {low} to {high}")
+    return value
+
+
+def _number(value: Any, what: str, bound: float) -> float:
+    if not isinstance(value, (int, float)) or isinstance(value, bool) or not math.isfinite(value) or abs(value) > bound:
+        raise BadResult(f"{what} is not a finite number within {bound:g}")
+    return float(value)
+
+
+def _list(value: Any, what: str, length: int | None = None, most: int = MAX_ATOMS) -> list:
+    if not isinstance(value, list) or len(value) > most or (length is not None and len(value) != length):
+        raise BadResult(f"{what} is not a list of {length if length is not None else f'at most {most}'} items")
+    return value
+
+
+def _positions(value: Any, what: str, count: int) -> tuple[Vector, ...]:
+    return tuple(tuple(_number(c, "a coordinate", MAX_COORDINATE) for c in _list(p, "a position", 3))  # type: ignore[misc]
+                 for p in _list(value, what, count))
+
+
+def geometry_from_dict(raw: Any) -> ComputedGeometry:
+    """The geometry ``raw`` describes, if every field has its type, count and a sane value; else BadResult.
+
+    Angles and bond lengths are not read: they are measured again from the positions, so a
+    stored value can never disagree with its own structure.
+    """
+    if not isinstance(raw, dict):
+        raise BadResult("the result is not an object")
+    symbols = tuple(_text(s, "an atom symbol") for s in _list(raw.get("symbols"), "symbols"))
+    if len(symbols) < 2:
+        raise BadResult("fewer than two atoms")
+    ligands = len(symbols) - 1
+    versions = tuple(tuple(_text(t, "a version") for t in _list(v, "a version pair", 2))
+                     for v in _list(raw.get("versions"), "versions", most=8))
+    energy = raw.get("energy_ev")
+    failed = raw.get("failed")
+    converged = raw.get("converged")
+    if not isinstance(converged, bool):
+        raise BadResult("converged is not true or false")
+    start = _positions(raw.get("start"), "the start", len(symbols))
+    positions = _positions(raw.get("positions"), "the positions", len(symbols))
+    labels = tuple(_text(s, "a ligand label") for s in _list(raw.get("labels"), "labels", ligands))
+    return ComputedGeometry(
+        species=_text(raw.get("species"), "the species"),
+        charge=_integer(raw.get("charge"), "the charge", -20, 20),
+        isomer=_text(raw.get("isomer"), "the isomer"),
+        rank=_integer(raw.get("rank"), "the rank", 1, 100_000),
+        method=_text(raw.get("method"), "the method"),
+        versions=versions,  # type: ignore[arg-type]
+        symbols=symbols,
+        labels=labels,
+        sites=tuple(_text(s, "a site") for s in _list(raw.get("sites"), "sites", ligands)),
+        unpaired=_integer(raw.get("unpaired"), "the unpaired electrons", 0, 20),
+        spin=_text(raw.get("spin"), "the spin state"),
+        start=start,
+        positions=positions,
+        energy_ev=None if energy is None else _number(energy, "the energy", MAX_ENERGY_EV),
+        converged=converged,
+        steps=_integer(raw.get("steps"), "the step count", 0, 1_000_000),
+        angles=measure_angles(symbols[0], labels, positions),
+        bonds=measure_bonds(labels, positions),
+        largest_angle_change_deg=largest_angle_change(start, positions),
+        wall_time_s=_number(raw.get("wall_time_s"), "the wall time", MAX_SECONDS),
+        failed=None if failed is None else _text(failed, "the failure"),
+        notes=tuple(_text(n, "a note") for n in _list(raw.get("notes"), "notes", most=16)),
+    )
+
+
+# --- measuring --------------------------------------------------------------------
+
+
+def _angle(u: Vector, v: Vector) -> float:
+    nu, nv = math.hypot(*u), math.hypot(*v)
+    if nu == 0.0 or nv == 0.0:
+        return 0.0
+    cosine = sum(a * b for a, b in zip(u, v)) / (nu * nv)
+    return math.degrees(math.acos(max(-1.0, min(1.0, cosine))))
+
+
+def _from_centre(positions: tuple[Vector, ...]) -> list[Vector]:
+    centre = positions[0]
+    return [tuple(p[k] - centre[k] for k in range(3)) for p in positions[1:]]  # type: ignore[misc]
+
+
+def measure_angles(centre: str, labels: tuple[str, ...], positions: tuple[Vector, ...]) -> tuple[Angle, ...]:
+    arms = _from_centre(positions)
+    return tuple(Angle(i + 1, j + 1, (labels[i], centre, labels[j]), _angle(arms[i], arms[j]))
+                 for i in range(len(arms)) for j in range(i + 1, len(arms)))
+
+
+def measure_bonds(labels: tuple[str, ...], positions: tuple[Vector, ...]) -> tuple[Bond, ...]:
+    return tuple(Bond(i + 1, labels[i], math.hypot(*arm)) for i, arm in enumerate(_from_centre(positions)))
+
+
+def largest_angle_change(start: tuple[Vector, ...], end: tuple[Vector, ...]) -> float:
+    before, after = _from_centre(start), _from_centre(end)
+    changes = [abs(_angle(before[i], before[j]) - _angle(after[i], after[j]))
+               for i in range(len(before)) for j in range(i + 1, len(before))]
+    return max(changes, default=0.0)

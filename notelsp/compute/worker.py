@@ -1,0 +1,70 @@
+"""What runs inside a worker process: bounds first, then one optimisation per job.
+
+Jobs and answers cross the process boundary as plain JSON-able dicts; the
+parent reads every answer through ``result.geometry_from_dict``.
+"""
+
+from __future__ import annotations
+
+import os
+import resource
+import signal
+import time
+from typing import Any
+
+# One thread per worker: the pool already runs one worker per core, and OpenMP threads on top
+# of that only fight over the same cores.  Set before tblite (and its OpenMP runtime) loads.
+THREAD_VARIABLES = ("OMP_NUM_THREADS", "OPENBLAS_NUM_THREADS", "MKL_NUM_THREADS", "OMP_STACKSIZE")
+CPU_SECONDS_PER_WALL_SECOND = 3  # the CPU-time backstop: generous, it only stops a runaway
+
+
+def initialise(memory_bytes: int) -> None:
+    for name in THREAD_VARIABLES[:3]:
+        os.environ[name] = "1"
+    os.environ.setdefault("OMP_STACKSIZE", "64M")
+    try:
+        _, hard = resource.getrlimit(resource.RLIMIT_AS)
+        cap = memory_bytes if hard == resource.RLIM_INFINITY else min(memory_bytes, hard)
+        resource.setrlimit(resource.RLIMIT_AS, (cap, hard))
+    except (ValueError, OSError):  # a platform without the limit: the wall-time bound still holds
+        pass
+    signal.signal(signal.SIGALRM, _out_of_time)
+    try:  # load the libraries now, so a job's wall-time bound is spent on the job
+        import ase.optimize  # noqa: F401
+        import tblite.ase  # noqa: F401
+    except ImportError:  # each job then fails with the reason
+        pass
+
+
+def _out_of_time(signum: int, frame: Any) -> None:
+    from .geometry import OutOfTime
+
+    raise OutOfTime
+
+
+def run(job: dict[str, Any]) -> dict[str, Any]:
+    """Optimise the structure ``job`` describes; answer its result as a dict (never raises for the chemistry)."""
+    from .geometry import Structure, optimise
+    from .method import Limits
+    from .result import geometry_to_dict
+
+    structure = Structure.from_dict(job["structure"])
+    limits = Limits(**job["limits"])
+    _cap_cpu_time(limits.wall_time_s)
+    # The optimiser checks the clock every step; the alarm (a little later) stops a single step that hangs.
+    signal.setitimer(signal.ITIMER_REAL, limits.wall_time_s + 2.0)
+    try:
+        return geometry_to_dict(optimise(structure, limits))
+    finally:
+        signal.setitimer(signal.ITIMER_REAL, 0)
+
+
+def _cap_cpu_time(wall_time_s: float) -> None:
+    """Past this job's share of CPU time the kernel ends the process (the parent reports it)."""
+    try:
+        used = time.process_time()
+        _, hard = resource.getrlimit(resource.RLIMIT_CPU)
+        soft = int(used + CPU_SECONDS_PER_WALL_SECOND * wall_time_s + 5)
+        resource.setrlimit(resource.RLIMIT_CPU, (soft if hard == resource.RLIM_INFINITY else min(soft, hard), hard))
+    except (ValueError, OSError):
+        pass
