@@ -28,7 +28,7 @@ def nvim() -> str:
     return found
 
 
-def drive(nvim: str, note: Path, tmp_path: Path) -> dict:
+def drive(nvim: str, note: Path, tmp_path: Path, script_name: str = "drive.lua") -> dict:
     out = tmp_path / "neovim.json"
     env = dict(
         os.environ,
@@ -39,7 +39,7 @@ def drive(nvim: str, note: Path, tmp_path: Path) -> dict:
         XDG_STATE_HOME=str(tmp_path / "state"),  # keep Neovim's LSP log out of $HOME
         XDG_DATA_HOME=str(tmp_path / "data"),
     )
-    script = ROOT / "tests" / "server" / "neovim" / "drive.lua"
+    script = ROOT / "tests" / "server" / "neovim" / script_name
     subprocess.run(
         [nvim, "--headless", "--clean", "-c", f"luafile {script}"],
         env=env, cwd=tmp_path, timeout=120, check=False, capture_output=True,
@@ -61,3 +61,16 @@ def test_neovim_shows_diagnostics_hover_and_applies_the_fix(nvim, tmp_path):
     assert "ClF3" in result["hover"]["value"]
     assert result["after_fix"][2] == "Chlorine trifluoride {ClF3: t-shaped}."
     assert result["cleared"] is True
+
+
+def test_neovim_settings_reach_the_server(nvim, tmp_path):
+    """setup({ settings = ... }) switches a rule off: pushed by Neovim 0.7, asked for by newer versions.
+
+    H2O claimed sp: steric number 4 predicts sp3 (from memory).
+    """
+    note = tmp_path / "note.md"
+    note.write_text("Chlorine trifluoride {ClF3: trigonal planar}.\nWater {H2O: sp}.\n")
+    result = drive(nvim, note, tmp_path, "settings.lua")
+    assert "error" not in result, result
+    assert result["settled"] is True, result
+    assert "wrong-hybridization" in result["codes"] and "wrong-shape" not in result["codes"]

@@ -8,8 +8,8 @@ M.defaults = {
   filetypes = { "markdown", "text" },
   root_markers = { ".notelsp.toml", ".git" },
   -- The "notelsp" section: answered to workspace/configuration, and pushed with
-  -- workspace/didChangeConfiguration at start (all Neovim 0.7 does; the server
-  -- applies either). Same keys as the [review] table of .notelsp.toml
+  -- workspace/didChangeConfiguration at start (on_init below does that for
+  -- Neovim 0.7; the server applies either). Same keys as the [review] table of .notelsp.toml
   -- (inlay_hints, disabled, severity, ...), over that file.
   settings = { notelsp = {} },
 }
@@ -54,6 +54,11 @@ local function setup_legacy(opts)
           root_dir = root,
           workspace_folders = { { uri = vim.uri_from_fname(root), name = root } },
           settings = opts.settings,
+          -- Neovim before 0.8 neither offers workspace/configuration nor sends its settings by
+          -- itself ("should be sent during on_init", :help vim.lsp.start_client): push them.
+          on_init = function(client)
+            client.notify("workspace/didChangeConfiguration", { settings = client.config.settings })
+          end,
         })
         clients[root] = id
       end
