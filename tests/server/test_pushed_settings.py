@@ -103,4 +103,16 @@ async def test_invalid_settings_file_is_an_error_message(client: LanguageClient,
     await start(client, tmp_path)
     message = await wait_for(lambda: client.messages)
     assert message[0].type == types.MessageType.Error
-    assert ".notelsp.toml" in message[0].message
+    assert ".notelsp.toml" in message[0].message and "line 2" in message[0].message
+
+
+async def test_bad_value_in_the_file_names_its_line_and_key(client: LanguageClient, tmp_path):
+    (tmp_path / ".notelsp.toml").write_text('[review]\ndisabled = ["wrong-shape"]\nangle_tolerance = "wide"\n')
+    await start(client, tmp_path)
+    message = await wait_for(lambda: client.messages)
+    assert message[0].type == types.MessageType.Error
+    assert "line 3" in message[0].message and "angle_tolerance" in message[0].message
+    uri = file_uri(tmp_path / "rest-applies.md")
+    open_note(client, uri, NOTE)  # the good value of the same file still applies
+    await wait_for(lambda: uri in client.diagnostics)
+    assert "wrong-shape" not in codes(client, uri)
