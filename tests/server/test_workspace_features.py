@@ -145,3 +145,22 @@ async def test_semantic_tokens_for_annotations(client, tmp_path):
     last_line = types.Range(types.Position(3, 0), types.Position(4, 0))
     ranged = await client.text_document_semantic_tokens_range_async(types.SemanticTokensRangeParams(document, last_line))
     assert [token for token in decoded(ranged.data, legend, text)] == [t for t in decoded(full.data, legend, text) if t[0] == 3]
+
+
+def test_semantic_token_columns_count_in_the_negotiated_encoding():
+    """Columns and lengths in UTF-16 and UTF-8 units, checked with Python's own codecs (LSP: character offsets
+    count in the negotiated encoding)."""
+    from notelsp.review.document import review_text
+    from notelsp.server.positions import line_index
+    from notelsp.server.semantic_tokens import annotation_tokens, encode
+
+    text = "\N{TEST TUBE} é {ClF3: 87.5°}\n"
+    review = review_text(text, "markdown")
+    tokens = [token for annotation in review.annotations for token in annotation_tokens(annotation, text)]
+    for encoding, codec, width in (("utf-16", "utf-16-le", 2), ("utf-8", "utf-8", 1)):
+        data = encode(tokens, line_index(text, encoding))
+        column = 0
+        for index, (start, end, _) in enumerate(tokens):
+            column += data[index * 5 + 1]
+            assert column == len(text[:start].encode(codec)) // width
+            assert data[index * 5 + 2] == len(text[start:end].encode(codec)) // width
