@@ -31,6 +31,9 @@ FIXABLE_NOTES = {
     "wrong-polarity": "{CO2: polar}",
     "wrong-point-group": "{BF3: C3v}",
     "wrong-isomer-count": "{SF2Cl2: 9 isomers}",
+    "wrong-axe-class": "{ClF3: AX3E}",
+    "wrong-unpaired-electrons": "{NO2: diamagnetic}",
+    "charge-missing": "{ClO4}",
 }
 # Put each note in a line of prose with a wide character before it, so the edit's columns matter.
 PROSE = "Line one.\r\nWe write \N{TEST TUBE} {note} in the log; ok\r\n"
@@ -63,7 +66,8 @@ def _apply(text: str, edit: dict) -> str:
 
 # Rules whose findings have no single correct replacement (the writer must decide).
 WITHOUT_FIXES = {"formula-too-large", "impossible-count", "malformed-claim", "malformed-formula", "outside-model",
-                 "unknown-element", "isomers-not-enumerated", "note-too-large"}
+                 "unknown-element", "isomers-not-enumerated", "note-too-large", "review-continues",
+                 "implausible-bond-length", "coupling-against-s-character", "outer-d-convention"}
 
 
 def test_every_rule_is_either_round_tripped_or_has_no_fix():
