@@ -114,8 +114,8 @@ def analyse(formula: Formula) -> SpeciesAnalysis:
     if found is None:
         found = _analyse(formula)
         with _cache_lock:
-            if len(_cache) >= _CACHE_LIMIT:
-                _cache.clear()
+            while len(_cache) >= _CACHE_LIMIT:  # the oldest goes: memory stays level, with no refill wave
+                del _cache[next(iter(_cache))]
             _cache[key] = found
     return found
 

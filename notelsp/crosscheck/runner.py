@@ -3,7 +3,9 @@
 Every isomer is optimised by its own ``python -m notelsp.crosscheck.worker``
 process, so the caller's event loop never blocks and cancelling (cancel the
 awaiting task) kills the process at once.  One wall-time budget covers all
-the isomers of the species.
+the isomers of the species.  A worker serves one job and ends, so none
+carries memory from one job to the next; each caps its own address space
+(WORKER_MEMORY_BYTES), and one killed from outside is replaced once.
 """
 
 from __future__ import annotations
@@ -24,6 +26,13 @@ from ..notation.model import Formula
 
 Status = Literal["done", "unsupported", "missing-extra", "timeout", "failed"]
 WORKER = ("-m", "notelsp.crosscheck.worker")
+# Address space each worker may take (set in the worker with RLIMIT_AS): a calculation that would need
+# more fails there with MemoryError instead of pressing on the editor's machine.  PySCF at the levels
+# offered needs well under 1 GiB for the species allowed (max_atoms); BLAS reserves some more per thread.
+WORKER_MEMORY_BYTES = 4 * 1024**3
+# A worker killed from outside (the out-of-memory killer, a signal) is started again once for the same
+# isomer; a second kill fails the cross-check.  Every isomer has a fresh worker, so none is reused.
+WORKER_RETRIES = 1
 
 
 @dataclass(frozen=True, slots=True)
@@ -100,7 +109,7 @@ async def cross_check(
             progress(0, stored.energy_hartree, cached=True)
             continue
         progress(0, None)
-        outcome = await _run_worker(Job(geometry, level, limits.max_steps), deadline - loop.time(), progress)
+        outcome = await _run_worker_again_if_killed(Job(geometry, level, limits.max_steps), deadline, progress)
         if isinstance(outcome, OptimisedIsomer):
             done.append(outcome)
             if outcome.converged:
@@ -113,14 +122,38 @@ async def cross_check(
     return CrossCheckResult(formula.text, level, "done", tuple(done), note, from_cache)
 
 
+async def _run_worker_again_if_killed(
+    job: Job, deadline: float, progress: Callable[[int, float | None], None]
+) -> OptimisedIsomer | tuple[Status, str]:
+    """Run the job in a worker; a worker killed by a signal is replaced once and the job sent again."""
+    loop = asyncio.get_running_loop()
+    for _ in range(WORKER_RETRIES):
+        outcome = await _run_worker(job, deadline - loop.time(), progress)
+        if not isinstance(outcome, _Killed):
+            return outcome
+    outcome = await _run_worker(job, deadline - loop.time(), progress)
+    if isinstance(outcome, _Killed):
+        return "failed", f"{outcome.message}, again after a restart"
+    return outcome
+
+
+@dataclass(frozen=True, slots=True)
+class _Killed:
+    """A worker ended by a signal before answering (not a failure of the calculation itself)."""
+
+    message: str
+
+
 async def _run_worker(
     job: Job, seconds_left: float, progress: Callable[[int, float | None], None]
-) -> OptimisedIsomer | tuple[Status, str]:
+) -> OptimisedIsomer | tuple[Status, str] | _Killed:
     if seconds_left <= 0:
         return "timeout", "no time left for the next isomer"
     process = await asyncio.create_subprocess_exec(
         sys.executable,
         *WORKER,
+        "--memory-bytes",
+        str(WORKER_MEMORY_BYTES),
         stdin=asyncio.subprocess.PIPE,
         stdout=asyncio.subprocess.PIPE,
         stderr=asyncio.subprocess.DEVNULL,
@@ -141,6 +174,8 @@ async def _run_worker(
                 return "failed", f"the worker for {_described(job.geometry)} sent an unusable answer (a line too long)"
             if not line:
                 code = await process.wait()
+                if code < 0:
+                    return _Killed(f"the worker for {_described(job.geometry)} was killed (signal {-code})")
                 return "failed", f"the worker for {_described(job.geometry)} ended without an answer (exit code {code})"
             try:
                 message = json.loads(line)

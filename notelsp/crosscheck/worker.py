@@ -1,4 +1,4 @@
-"""The worker process: ``python -m notelsp.crosscheck.worker`` runs one job.
+"""The worker process: ``python -m notelsp.crosscheck.worker [--memory-bytes N]`` runs one job.
 
 Reads the job from stdin, answers on stdout in JSON lines (see protocol).
 Anything the libraries print goes to stderr, so the protocol stays clean.
@@ -13,7 +13,23 @@ import sys
 from .protocol import isomer_to_dict, job_from_json
 
 
-def main() -> int:
+def _bound_memory(arguments: list[str]) -> None:
+    """``--memory-bytes N``: cap this process's address space, so a runaway calculation ends here
+    (MemoryError, reported as a failure) rather than exhausting the machine."""
+    if "--memory-bytes" not in arguments:
+        return
+    limit = int(arguments[arguments.index("--memory-bytes") + 1])
+    try:
+        import resource
+
+        _, hard = resource.getrlimit(resource.RLIMIT_AS)
+        resource.setrlimit(resource.RLIMIT_AS, (limit if hard == resource.RLIM_INFINITY else min(limit, hard), hard))
+    except (ImportError, ValueError, OSError):  # no such limit on this system: run unbounded
+        pass
+
+
+def main(arguments: list[str] | None = None) -> int:
+    _bound_memory(sys.argv[1:] if arguments is None else arguments)
     answer = os.fdopen(os.dup(sys.stdout.fileno()), "w", buffering=1)
     os.dup2(sys.stderr.fileno(), sys.stdout.fileno())  # library chatter -> stderr
 

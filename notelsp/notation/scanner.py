@@ -10,6 +10,7 @@ plain offsets beside that parse (:data:`notelsp.notation.model.Found`).
 
 from __future__ import annotations
 
+import threading
 from bisect import bisect_right
 from functools import lru_cache
 from heapq import merge
@@ -29,8 +30,16 @@ _NOT_BEFORE_ANNOTATION = set("\\_^}$") | set("abcdefghijklmnopqrstuvwxyzABCDEFGH
 
 # Segments (a line, or a paragraph's whole lines) are remembered by their text, not their
 # place: after an edit, the segments that moved are placed again (plain offsets, cheap)
-# without being looked at again.  About two large documents' worth.
+# without being looked at again.  About two large documents' worth.  Each remembered segment
+# holds its annotations' parses, and a paragraph may hold hundreds: the annotations held
+# together are capped too, or a long session of edits to annotation-dense paragraphs would
+# keep every parse typed (8,192 segments x their annotations) after parse_body let it go.
 _SEGMENT_CACHE_SIZE = 8192
+_SEGMENT_CACHE_ANNOTATIONS = 32_768
+Groups = tuple[tuple[int, int, ParsedBody], ...]
+_segment_groups: dict[tuple[str, tuple[tuple[int, int], ...]], Groups] = {}  # oldest first
+_segment_annotations = 0  # annotations held in _segment_groups
+_segment_lock = threading.Lock()
 
 
 def scan(text: str, kind: DocumentKind = "markdown") -> ScannedDocument:
@@ -114,15 +123,43 @@ def _begins_with_element(body: str) -> bool:
 
 def _segment_found(segment: Segment) -> list[Found]:
     start = segment.start
+    groups = _segment_groups.get((segment.text, segment.skips))
+    if groups is None:
+        groups = _inline_groups(segment.text, segment.skips)
     return [
         (start + opening, start + closing + 1, start + opening + 1, start + closing, parsed, "inline")
-        for opening, closing, parsed in _inline_groups(segment.text, segment.skips)
+        for opening, closing, parsed in groups
     ]
 
 
-@lru_cache(maxsize=_SEGMENT_CACHE_SIZE)
-def _inline_groups(text: str, skips: tuple[tuple[int, int], ...]) -> tuple[tuple[int, int, ParsedBody], ...]:
-    """(opening brace, closing brace, parse) of each annotation in a segment of inline text."""
+def _inline_groups(text: str, skips: tuple[tuple[int, int], ...]) -> Groups:
+    """(opening brace, closing brace, parse) of each annotation in a segment of inline text (remembered)."""
+    global _segment_annotations
+    key = (text, skips)
+    groups = _segment_groups.get(key)
+    if groups is not None:
+        return groups
+    groups = _find_inline_groups(text, skips)
+    with _segment_lock:
+        if key not in _segment_groups:
+            _segment_groups[key] = groups
+            _segment_annotations += len(groups)
+        while len(_segment_groups) > _SEGMENT_CACHE_SIZE or _segment_annotations > _SEGMENT_CACHE_ANNOTATIONS:
+            _segment_annotations -= len(_segment_groups.pop(next(iter(_segment_groups))))  # the oldest
+    return groups
+
+
+def _forget_segment_groups() -> None:
+    global _segment_annotations
+    with _segment_lock:
+        _segment_groups.clear()
+        _segment_annotations = 0
+
+
+_inline_groups.cache_clear = _forget_segment_groups  # type: ignore[attr-defined]  # as for the lru caches
+
+
+def _find_inline_groups(text: str, skips: tuple[tuple[int, int], ...]) -> Groups:
     found = []
     skip_starts = [start for start, _ in skips]
     opening, closing = text.find("{"), -1

@@ -169,17 +169,27 @@ def _review_found(found_in_order, text: str, settings: Settings, reviews: "Relat
         source = text[start:end]
         relative = reviews.get((source, form))
         if relative is None:
-            if len(reviews) >= _REVIEWS_LIMIT:  # a note of more distinct annotations than the cap
-                reviews.clear()
+            if len(reviews) >= _REVIEWS_LIMIT:  # full: the oldest goes (see _evict_oldest)
+                _evict_oldest(reviews)
             relative = reviews[(source, form)] = _review_relative(_relative_annotation(found), settings)
         if relative:  # most annotations have no findings: nothing to place
             key = (source, form, start)
             here = placed.get(key)
             if here is None:
                 if len(placed) >= _REVIEWS_LIMIT:
-                    placed.clear()
+                    _evict_oldest(placed)
                 here = placed[key] = tuple([finding.shifted(start) for finding in relative])
             findings.extend(here)
+
+
+def _evict_oldest(cache: dict) -> None:
+    """Drop the entry put in first.  Dropping one at a time rather than emptying a full cache keeps
+    memory level in a long session: emptying frees tens of thousands of objects at once, and the refill
+    that follows takes fresh memory while the freed blocks sit scattered among live ones."""
+    try:
+        del cache[next(iter(cache))]
+    except (StopIteration, KeyError, RuntimeError):  # emptied or changed by another thread meanwhile
+        pass
 
 
 def _ORDER(finding: Finding) -> tuple[int, int, str]:
@@ -206,8 +216,8 @@ _SETTINGS_LIMIT = 8  # settings change rarely; a few sets are plenty
 
 
 def _reviews_for(settings: Settings) -> tuple[Relative, Placed]:
-    """The caches for ``settings``; each is emptied when full (edits leave findings at old offsets
-    behind, and a long session types ever new annotations: both are cheap to compute again)."""
+    """The caches for ``settings``, each capped at _REVIEWS_LIMIT entries, the oldest going first (edits
+    leave findings at old offsets behind, and a long session types ever new annotations)."""
     reviews = _reviews.get(settings)
     if reviews is None:
         if len(_reviews) >= _SETTINGS_LIMIT:

@@ -75,9 +75,24 @@ def test_annotation_body_parses_stay_at_the_cap():
     _fill(transform.parse_body, lambda n: transform.parse_body(f"{n}{long_tail}"))
 
 
-def test_segment_scans_stay_at_the_cap():
-    _fill(scanner._inline_groups, lambda n: scanner._inline_groups(f"prose {n} without braces", ()))
+def test_segment_scans_stay_at_the_cap_in_segments_and_in_annotations_held():
     _fill(scanner._block_body, lambda n: scanner._block_body(f"# comment {n}"))
+    scanner._inline_groups.cache_clear()
+    try:
+        for number in range(scanner._SEGMENT_CACHE_SIZE + 50):  # segments without annotations
+            scanner._inline_groups(f"prose {number} without braces", ())
+        assert len(scanner._segment_groups) == scanner._SEGMENT_CACHE_SIZE
+        # Annotation-dense paragraphs: the parses they hold are capped, not only their count.
+        dense = " ".join(["{ClF3: t-shaped}"] * 40)
+        for number in range(scanner._SEGMENT_CACHE_ANNOTATIONS // 40 + 50):
+            assert len(scanner._inline_groups(f"Run {number}: {dense}", ())) == 40
+            held = sum(len(groups) for groups in scanner._segment_groups.values())
+            assert held == scanner._segment_annotations <= scanner._SEGMENT_CACHE_ANNOTATIONS
+        assert held > scanner._SEGMENT_CACHE_ANNOTATIONS - 40  # full, not emptied
+        assert len(scanner._segment_groups) <= scanner._SEGMENT_CACHE_SIZE
+    finally:
+        scanner._inline_groups.cache_clear()
+    assert scanner._segment_annotations == 0 and not scanner._segment_groups
 
 
 def test_paragraph_pieces_and_fence_patterns_stay_at_the_cap():
