@@ -118,17 +118,18 @@ class GeometryPool:
                         on_species(results[index])  # type: ignore[arg-type]
 
         finish_ready()
-        self._run(pending, slots)
-        finish_ready()
+        self._run(pending, slots, finish_ready)
         return results  # type: ignore[return-value]
 
-    def _run(self, pending: deque[_Job], slots: list[list[ComputedGeometry | None]]) -> None:
+    def _run(self, pending: deque[_Job], slots: list[list[ComputedGeometry | None]],
+             finish_ready: Callable[[], None]) -> None:
         running: dict[Future, tuple[_Job, float]] = {}
         while pending or running:
             if self._cancelled.is_set():
                 while pending:
                     job = pending.popleft()
                     slots[job.species][job.slot] = _failure(job.structure, "cancelled before it started")
+                finish_ready()
             while pending and len(running) < self.workers:
                 job = pending.popleft()
                 job.attempts += 1
@@ -154,6 +155,8 @@ class GeometryPool:
                 slots[job.species][job.slot] = answer
                 if self.use_cache:
                     cache.store(answer)
+            if done:
+                finish_ready()
             now = time.monotonic()
             late = [f for f, (_, deadline) in running.items() if deadline <= now]
             if late or broken:
@@ -168,6 +171,7 @@ class GeometryPool:
                     pending.appendleft(job)
                 running.clear()
                 self._discard_pool()
+                finish_ready()
 
     def _answer(self, future: Future, job: _Job) -> ComputedGeometry | None:
         """The job's checked result; None when its worker process died."""
