@@ -77,8 +77,8 @@ def encode(tokens: list[tuple[int, int, int]], index: LineIndex) -> list[int]:
     return data
 
 
-def _tokens(ls: NoteServer, uri: str, span: tuple[int, int] | None = None) -> types.SemanticTokens:
-    held = ls.held(uri)
+def _tokens(held, span: tuple[int, int] | None = None) -> types.SemanticTokens:
+    """The tokens of a held document's annotations, all or those overlapping ``span`` (offsets)."""
     if held is None or held.review is None:
         return types.SemanticTokens(data=[])
     annotations = held.review.annotations
@@ -94,7 +94,7 @@ def _tokens(ls: NoteServer, uri: str, span: tuple[int, int] | None = None) -> ty
 def register(server: NoteServer) -> None:
     @server.feature(types.TEXT_DOCUMENT_SEMANTIC_TOKENS_FULL, LEGEND)
     def full(ls: NoteServer, params: types.SemanticTokensParams) -> types.SemanticTokens:
-        return _tokens(ls, params.text_document.uri)
+        return _tokens(ls.held(params.text_document.uri))
 
     @server.feature(types.TEXT_DOCUMENT_SEMANTIC_TOKENS_RANGE, LEGEND)
     def in_range(ls: NoteServer, params: types.SemanticTokensRangeParams) -> types.SemanticTokens:
@@ -102,4 +102,4 @@ def register(server: NoteServer) -> None:
         if held is None:
             return types.SemanticTokens(data=[])
         span = held.index.span(params.range)
-        return _tokens(ls, params.text_document.uri, (span.start, span.end))
+        return _tokens(held, (span.start, span.end))
