@@ -17,7 +17,6 @@ import asyncio
 import hashlib
 import logging
 import os
-import stat
 from dataclasses import dataclass
 from pathlib import Path
 from urllib.parse import unquote, urlparse
@@ -28,19 +27,14 @@ from .. import __version__
 from ..review.document import kind_of_path, review_text
 from ..review.findings import Finding
 from ..review.settings import Settings
-from ..review.workspace import cached_review, is_reviewed
-
-try:
-    from ..review.workspace import SKIPPED_FOLDERS
-except ImportError:  # older layout: the command line held the list
-    from ..cli import SKIPPED_FOLDERS
+from ..notefiles import FileProblem, read_note
+from ..review.workspace import cached_review, is_hidden, is_reviewed
 from .app import NoteServer
 from .diagnostics import to_diagnostic
 from .positions import line_index
 
 log = logging.getLogger("notelsp.server")
 MAX_NOTES = 1000  # a workspace report is one JSON reply: keep it bounded
-MAX_NOTE_BYTES = 16_000_004  # the review reads 4,000,000 characters (note-too-large beyond): 4 bytes each at most
 
 
 @dataclass(frozen=True)
@@ -95,8 +89,8 @@ def _report(uri: str, version: int | None, text: str, kind: str, settings: Setti
 
 def note_files(root: Path, settings: Settings):
     """The files under ``root`` the server reviews, in a stable order (sorted folder by folder)."""
-    for folder, folders, files in os.walk(root):
-        folders[:] = sorted(f for f in folders if not f.startswith(".") and f not in SKIPPED_FOLDERS)
+    for folder, folders, files in os.walk(root):  # symlinked folders are not followed: no loops
+        folders[:] = sorted(f for f in folders if not is_hidden(f + "/x"))  # hidden and version-control folders
         for name in sorted(files):
             path = Path(folder, name)
             if is_reviewed(path.relative_to(root).as_posix(), settings):
@@ -108,19 +102,11 @@ class UnreadableNote(Exception):
 
 
 def read_saved_note(path: Path) -> str:
-    """A regular file's UTF-8 text (a BOM dropped, line breaks kept: offsets must match the file)."""
+    """A note file's text as the command line reads it (regular files only, size-capped, BOM dropped)."""
     try:
-        status = path.stat()
-        if not stat.S_ISREG(status.st_mode):
-            raise UnreadableNote(f"{path}: not a regular file")
-        if status.st_size > MAX_NOTE_BYTES:
-            raise UnreadableNote(f"{path}: larger than {MAX_NOTE_BYTES:,} bytes")
-        with open(path, encoding="utf-8-sig", newline="") as handle:
-            return handle.read(MAX_NOTE_BYTES)
-    except UnicodeDecodeError as error:
-        raise UnreadableNote(f"{path}: not UTF-8 text (byte {error.start})") from None
-    except OSError as error:
-        raise UnreadableNote(f"{path}: {error.strerror or error}") from None
+        return read_note(path).text
+    except FileProblem as problem:
+        raise UnreadableNote(f"{path}: {problem}") from None
 
 
 def workspace_reports(open_notes: list[_OpenNote], root: Path | None, settings: Settings, encoding: str,

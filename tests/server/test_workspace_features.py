@@ -7,6 +7,8 @@ relative encoding is decoded here as the specification describes it (common prac
 
 from __future__ import annotations
 
+import os
+
 import pytest_lsp
 from lsprotocol import types
 from pytest_lsp import ClientServerConfig, LanguageClient, client_capabilities
@@ -106,6 +108,14 @@ async def test_workspace_symbols_find_species_in_open_and_saved_notes(client, tm
     everything = await client.workspace_symbol_async(types.WorkspaceSymbolParams(query=""))
     assert {s.name for s in everything} == {"ClF3", "ClF₃", "H2O"}
     assert await client.workspace_symbol_async(types.WorkspaceSymbolParams(query="XeF6")) == []
+
+
+def test_workspace_diagnostics_leave_out_what_is_not_a_readable_note(tmp_path):
+    (tmp_path / "good.md").write_text(CLEAN)
+    os.mkfifo(tmp_path / "pipe.md")  # a FIFO named like a note: reading it would block
+    (tmp_path / "latin1.md").write_bytes("caf\xe9 {H2O: bent}\n".encode("latin-1"))  # not UTF-8
+    reports, capped = workspace_diagnostics.workspace_reports([], tmp_path, Settings(), "utf-16", {})
+    assert [report.uri for report in reports] == [file_uri(tmp_path / "good.md")] and not capped
 
 
 def test_workspace_symbols_are_capped(tmp_path, monkeypatch):
