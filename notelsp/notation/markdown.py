@@ -14,7 +14,7 @@ from itertools import chain
 from operator import attrgetter
 
 from ..positions import lf_line_starts as line_starts  # Markdown lines end at LF here
-from .markdown_blocks import BONDING_INFO, ParsedBlocks, Segment, parse_blocks
+from .markdown_blocks import _FRONT_MATTER_OPENER, BONDING_INFO, ParsedBlocks, Segment, parse_blocks
 from .model import Span
 
 __all__ = ["BONDING_INFO", "MarkdownStructure", "Segment", "forget_documents", "line_starts", "markdown_structure"]
@@ -157,11 +157,15 @@ def _reparsed(previous: tuple[_Parsed, int, int], text: str) -> ParsedBlocks | N
     changed character is the last one starting at or before it.
     """
     old, prefix, suffix = previous
-    starts, blocks = old.parsed
+    starts, blocks, front_matter = old.parsed
     if not starts:
         return None
     shift = len(text) - len(old.text)
     touched = bisect_right(starts, prefix) - 1
+    # Front matter runs from the first line to a closing line anywhere below: unless the edit is
+    # past front matter that was closed, a parse of a window around it cannot tell.
+    if (_FRONT_MATTER_OPENER.match(text) or _FRONT_MATTER_OPENER.match(old.text)) and not (front_matter and touched > 0):
+        return None
     keep = max(touched - _BACKED_UP_BLOCKS, 0)
     window_first = starts[keep] if keep > 0 else 0
     given_starts = [block.start for block in blocks]  # only the blocks that contribute something
@@ -177,7 +181,7 @@ def _reparsed(previous: tuple[_Parsed, int, int], text: str) -> ParsedBlocks | N
             window_end = starts[end_block] + shift if end_block < len(starts) else len(text)
         fresh = _parse_window(text, window_first, window_end)
         if resync >= len(starts):
-            return ParsedBlocks(starts[:keep] + fresh.starts, kept + fresh.blocks)
+            return ParsedBlocks(starts[:keep] + fresh.starts, kept + fresh.blocks, front_matter or fresh.front_matter)
         target = starts[resync] + shift
         at = bisect_left(fresh.starts, target)
         if at < len(fresh.starts) and fresh.starts[at] == target:
@@ -187,11 +191,14 @@ def _reparsed(previous: tuple[_Parsed, int, int], text: str) -> ParsedBlocks | N
             return ParsedBlocks(
                 starts[:keep] + fresh.starts[:at] + later_starts,
                 kept + fresh_given + tuple(block.moved(shift) for block in later),
+                front_matter or fresh.front_matter,
             )
         resync = len(starts)  # the edit reaches further (say, an unclosed fence): parse to the end
 
 
 def _parse_window(text: str, begin: int, stop: int) -> ParsedBlocks:
     """The blocks of ``text[begin:stop]`` (whole lines) parsed on their own, placed in the document."""
-    fresh = parse_blocks(text[begin:stop])
-    return ParsedBlocks(tuple(start + begin for start in fresh.starts), tuple(block.moved(begin) for block in fresh.blocks))
+    fresh = parse_blocks(text[begin:stop], document_start=begin == 0)
+    return ParsedBlocks(
+        tuple(start + begin for start in fresh.starts), tuple(block.moved(begin) for block in fresh.blocks), fresh.front_matter
+    )

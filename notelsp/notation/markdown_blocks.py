@@ -3,8 +3,11 @@
 A CommonMark block parser reduced to what decides where annotations stand:
 which lines are prose (paragraphs, headings, table cells, inside block quotes
 and list items), which are code (fenced, indented), display math (``$$``),
-raw HTML or link reference definitions, and which are the content lines of a
-```` ```bonding ```` fence.  Prose is grouped into inline runs (a paragraph,
+raw HTML, link reference definitions or front matter (YAML ``---`` or TOML
+``+++`` at the very start), and which are the content lines of a
+```` ```bonding ```` fence.  The bodies of MyST directives (a fence or ``:::``
+colon fence with a ``{name}`` info string) and of admonitions (``!!! note``,
+``??? note``, body indented) are read as Markdown, like a block quote's.  Prose is grouped into inline runs (a paragraph,
 a heading, a table cell) whose skipped ranges come from
 :mod:`notelsp.notation.markdown_inline`; only runs holding a ``{`` are looked
 at closely.  Most of a note is plain paragraphs, blank lines, ATX headings and
@@ -74,6 +77,7 @@ class ParsedBlocks(NamedTuple):
 
     starts: tuple[int, ...]  # the offset of every top-level block's first line, in order
     blocks: tuple[Block, ...]
+    front_matter: bool = False  # the first block is front matter
 
 
 _LINE_BREAK = re.compile(r"\r\n|\r|\n")
@@ -86,18 +90,42 @@ _LINE_BREAK = re.compile(r"\r\n|\r|\n")
 #   fence:   an unindented code fence, its content and its closing line (the fence is its
 #            whole run of backticks or tildes: a tilde fence's info string may hold tildes).
 # A line holding "|" may be a table header, which comes first: such headings and fence
-# openings are left to the line-by-line path, as is everything else.
+# openings are left to the line-by-line path, as are fences whose info string starts with
+# "{" (perhaps a directive) and everything else.
 _TOP_LEVEL_BLOCK = re.compile(
-    r"(?P<plain>(?:[^ \t>\-+*_#=`~$<|:\[0-9\n][^\n]*(?:\n|\Z))+)"
+    r"(?P<plain>(?:[^ \t>\-+*_#=`~$<|:!?\[0-9\n][^\n]*(?:\n|\Z))+)"
     r"|(?P<blank>(?:[ \t]*\n)+|[ \t]*\Z)"
     r"|(?P<heading>#{1,6}(?:[ \t][^|\n]*)?(?:\n|\Z))"
-    r"|(?P<fence>(?P<ticks>`{3,})(?!`)(?P<info>[^`|\n]*)\n(?:[^\n]*\n)*? {0,3}(?P=ticks)`*[ \t]*(?:\n|\Z)"
-    r"|(?P<tildes>~{3,})(?!~)(?P<tilde_info>[^|\n]*)\n(?:[^\n]*\n)*? {0,3}(?P=tildes)~*[ \t]*(?:\n|\Z))"
+    r"|(?P<fence>(?P<ticks>`{3,})(?![`{]|[ \t]+\{)(?P<info>[^`|\n]*)\n(?:[^\n]*\n)*? {0,3}(?P=ticks)`*[ \t]*(?:\n|\Z)"
+    r"|(?P<tildes>~{3,})(?![~{]|[ \t]+\{)(?P<tilde_info>[^|\n]*)\n(?:[^\n]*\n)*? {0,3}(?P=tildes)~*[ \t]*(?:\n|\Z))"
 )
 _ATX_HEADING = re.compile(r"(#{1,6})(?:[ \t]+|$)")
-_ATX_CLOSING = re.compile(r"(?:^|[ \t]+)#+[ \t]*$")
 _FENCE_OPEN = re.compile(r"(`{3,}|~{3,})(.*)")
 _THEMATIC_BREAK = re.compile(r"(?:(?:\*[ \t]*){3,}|(?:-[ \t]*){3,}|(?:_[ \t]*){3,})$")
+_BLANK_REST = re.compile(r"\s*$")
+_COLON_FENCE = re.compile(r":{3,}")
+_DIRECTIVE_NAME = re.compile(r"\{([^{}\s]+)\}")
+_FRONT_MATTER_OPENER = re.compile(r"-{3,}|\+{3,}")
+_ADMONITION_MARKERS = ("???+", "!!!", "???")  # the longest first
+_ADMONITION_TAGS_AND_TITLE = re.compile(r'^\s*(?P<tokens>[^"\s](?:[^"]*[^"\s])?)\s+"(?P<title>.*)"[^\s"]*$')
+# MyST directives whose body is Markdown, in a backtick or tilde fence (```{note}); any other
+# name there is code (```{python} is a code cell in Quarto and R Markdown).  In a colon fence
+# (:::{note}) every body is Markdown but those of the code directives (common practice, no source).
+MARKDOWN_DIRECTIVES = frozenset({
+    "admonition", "attention", "caution", "danger", "error", "hint", "important", "note", "seealso", "tip",
+    "warning", "todo", "versionadded", "versionchanged", "deprecated", "topic", "sidebar", "margin",
+    "dropdown", "card", "grid", "grid-item", "grid-item-card", "tab-set", "tab-item", "figure", "table",
+    "list-table", "epigraph", "pull-quote", "highlights", "compound", "container", "div", "only",
+    "glossary", "exercise", "solution",
+})
+CODE_DIRECTIVES = frozenset({
+    "code", "code-block", "code-cell", "sourcecode", "literalinclude", "math", "raw", "eval-rst", "mermaid",
+    "graphviz", "csv-table",
+})  # whitespace to the end: what str.strip() would leave empty
+# Containers (block quotes, list items) nested deeper than this are not opened: their
+# markers are read as text, as CommonMark parsers cap nesting (markdown-it's maxNesting).
+# It bounds the work per line, so a line of a hundred thousand "- " stays linear.
+MAX_NESTING = 32
 _SETEXT_UNDERLINE = re.compile(r"(?:=+|-+)[ \t]*$")
 _LIST_MARKER = re.compile(r"([-+*]|(\d{1,9})[.)])(?=[ \t]|$)")
 _TABLE_DELIMITER = re.compile(r"[|:\-][|:\- \t]*$")
@@ -156,6 +184,71 @@ def _expanded_marker_tabs(line: str, in_container: bool) -> tuple[str, str] | No
     if "\t" not in prefix or (not in_container and prefix.strip(" \t0123456789") == ""):
         return None
     return prefix.expandtabs(4), prefix
+
+
+def _is_thematic_break(line: str, at: int) -> bool:
+    """A thematic break from ``at`` to the end of ``line``.
+
+    Checked from the end first: a line of list markers ending in text ("- - - a")
+    is rejected at once rather than read to its end from every marker.
+    """
+    return len(line.rstrip("-*_ \t")) <= at and _THEMATIC_BREAK.match(line, at) is not None
+
+
+def _atx_content_end(text: str) -> int:
+    """Where an ATX heading's content ends: before its optional closing run of '#' (CommonMark 4.2).
+
+    Read from the end of the line, so a long run of spaces before a closing "#x" costs one pass.
+    """
+    body = len(text.rstrip(" \t"))
+    run = len(text[:body].rstrip("#"))  # where the last run of '#' starts
+    if run == body:  # no closing sequence
+        return len(text)
+    if run == 0:
+        return 0
+    if text[run - 1] not in " \t":  # "foo#": the '#' are content
+        return len(text)
+    return len(text[:run].rstrip(" \t"))
+
+
+def _closes_fence(line: str, at: int, run: str) -> bool:
+    """Whether ``line`` closes a fence opened by ``run`` at ``at``: as long a run or longer, then nothing."""
+    if not line.startswith(run, at):
+        return False
+    end = at + len(run)
+    while end < len(line) and line[end] == run[0]:
+        end += 1
+    return not line[end:].strip()
+
+
+def _admonition(line: str, at: int) -> tuple[int, int, str] | None:
+    """(body column, title offset, title) of an admonition opening at ``at``, or None.
+
+    As mdit-py-plugins' admon reads it: a marker, then a kind and an optional title; the body
+    is indented to where the kind starts (``???+`` counts as three characters).
+    """
+    for marker in _ADMONITION_MARKERS:
+        if line.startswith(marker, at):
+            break
+    else:
+        return None
+    params_at = at + len(marker)
+    params = line[params_at:]
+    stripped = params.strip()
+    if not stripped:
+        return None
+    kind_at = params_at
+    while kind_at < len(line) and line[kind_at] == " ":
+        kind_at += 1
+    indent = kind_at - at + 3 - len(marker)
+    lead = params_at + len(params) - len(params.lstrip())
+    quoted = _ADMONITION_TAGS_AND_TITLE.match(stripped)
+    if quoted is not None:
+        return indent, lead + quoted.start("title"), quoted.group("title")
+    kind, _, title = stripped.partition(" ")
+    if not title or title == '""':
+        return indent, lead, ""
+    return indent, lead + len(kind) + 1, title
 
 
 def _fence_opening(line: str, at: int) -> re.Match[str] | None:
@@ -256,10 +349,18 @@ def _delimiter_cells(line: str) -> int | None:
 # --- open blocks --------------------------------------------------------------------
 
 
-@dataclass(slots=True)
+_ITEM, _QUOTE, _DIRECTIVE, _ADMONITION = range(4)
+
+
+@dataclass(slots=True, eq=False)
 class _Container:
-    quote: bool  # a block quote; otherwise a list item
-    indent: int = 0  # a list item's content column
+    kind: int  # _ITEM, _QUOTE, _DIRECTIVE or _ADMONITION
+    indent: int = 0  # a list item's or admonition's content column; a directive fence's indentation
+    closer: str = ""  # a directive's shortest closing run
+
+    @property
+    def quote(self) -> bool:
+        return self.kind == _QUOTE
 
 
 @dataclass(slots=True)
@@ -295,6 +396,10 @@ class _Fence:
     length: int
     indent: int
     bonding: bool
+    marker: str = ""  # the shortest closing run, made once (not once per line)
+
+    def __post_init__(self) -> None:
+        self.marker = self.character * self.length
 
 
 @dataclass(slots=True)
@@ -320,8 +425,9 @@ _INDENTED = _Indented()
 
 
 class _Parser:
-    def __init__(self, text: str) -> None:
+    def __init__(self, text: str, document_start: bool = True) -> None:
         self.text = text
+        self.document_start = document_start  # the text is a whole document (front matter may open it)
         self.references = _reference_labels(text)
         self.block_starts: list[int] = []  # the offset of every top-level block's first line
         self.blocks: list[tuple[int, list[Segment], list[Span]]] = []  # the blocks given something
@@ -329,6 +435,10 @@ class _Parser:
         self.containers: list[_Container] = []
         self.leaf: object | None = None
         self._math_closers: list[int] | None = None
+        # Per container (by id): (container, first line, line reached, whether that line is outside it).
+        self._inside: dict[int, tuple[_Container, int, int, bool]] = {}
+        self._empty: dict[tuple[int, int], tuple[_Container, bool]] = {}  # see _empty_for
+        self.front_matter = False
 
     # Each line's start and text: only the line-by-line path needs them, and a note made of
     # plain paragraphs, headings and fences never takes it.
@@ -350,8 +460,8 @@ class _Parser:
         # The line being read, and while ``whole_blocks`` its offset.  Reading whole blocks
         # counts no lines: the index is found again (None until then) when a line is read alone.
         index: int | None = None
-        offset = 0
-        while True:
+        offset = self._front_matter() if self.document_start else 0
+        while offset <= len(text):
             if index is not None and index >= len(self.lines):
                 break
             if whole_blocks and not self.containers:
@@ -377,7 +487,34 @@ class _Parser:
                 offset = self.starts[index]
         self._close_leaf()
         blocks = tuple([Block(start, tuple(segments), tuple(bonding)) for start, segments, bonding in self.blocks])
-        return ParsedBlocks(tuple(self.block_starts), blocks)
+        return ParsedBlocks(tuple(self.block_starts), blocks, self.front_matter)
+
+    def _front_matter(self) -> int:
+        """Where reading starts: after front matter opening the document, if there is one.
+
+        As mdit-py-plugins' front_matter reads it ('---', and '+++' for TOML alike): a run of three
+        or more at the very start (the rest of that line not looked at), closed by a line with as
+        long a run or longer and nothing after it (at most 3 spaces in), or by a YAML '...' line.
+        Unclosed, it is no front matter.
+        """
+        text = self.text
+        opener = _FRONT_MATTER_OPENER.match(text)
+        if opener is None:
+            return 0
+        run = opener.group()
+        next_break = _LINE_BREAK.search(text)
+        while next_break is not None:
+            line_start = next_break.end()
+            next_break = _LINE_BREAK.search(text, line_start)
+            line = text[line_start : next_break.start() if next_break else len(text)]
+            columns, at = _indent(line, 0)
+            if (line.startswith("...") and not line[3:].strip(" \t")) or (
+                columns < 4 and line.startswith(run, at) and not line[at:].lstrip(run[0]).strip(" \t")
+            ):
+                self.block_starts.append(0)
+                self.front_matter = True
+                return next_break.end() if next_break else len(text) + 1
+        return 0
 
     def _whole_blocks(self, offset: int) -> int | None:
         """Take the blocks ``_TOP_LEVEL_BLOCK`` matches from the line at ``offset`` on, one after
@@ -447,8 +584,13 @@ class _Parser:
 
     def _emit_heading(self, line: str, start: int, heading: re.Match[str]) -> None:
         text = line[heading.end() :]
-        closing = _ATX_CLOSING.search(text)
-        self._emit_run([(start + heading.end(), text[: closing.start()] if closing else text)])
+        self._emit_run([(start + heading.end(), text[: _atx_content_end(text)])])
+
+    def _open_directive(self, index: int, run: str, columns: int) -> None:
+        """A directive (or colon fence) whose body is read as Markdown, up to a closing run."""
+        self._close_leaf()
+        self._begin_block(index)
+        self.containers.append(_Container(_DIRECTIVE, indent=columns, closer=run))
 
     def _open_fence(self, index: int, fence: re.Match[str], columns: int) -> None:
         self._close_leaf()
@@ -494,12 +636,19 @@ class _Parser:
                 return line_start + position + (1 if character == "\t" else 0)
         return line_start + len(prefix)
 
-    def _matched_containers(self, line: str) -> tuple[int, int]:
-        """How many open containers ``line`` continues, and the offset after their markers."""
+    def _matched_containers(self, line: str, index: int | None = None) -> tuple[int, int]:
+        """How many open containers ``line`` (the line at ``index``) continues, and the offset after their markers."""
+        blank = not line.strip(" \t")
         position, matched = 0, 0
-        for container in self.containers:
-            if container.quote:
-                columns, at = _indent(line, position)
+        for depth, container in enumerate(self.containers):
+            kind = container.kind
+            if blank:  # list items and directives go on, block quotes end, admonitions after two
+                if kind == _QUOTE or (kind == _ADMONITION and self._ends_admonition(index, depth)):
+                    break
+                matched += 1
+                continue
+            columns, at = _indent(line, position)
+            if kind == _QUOTE:
                 if columns < 4 and at < len(line) and line[at] == ">":
                     position = at + 1
                     if position < len(line) and line[position] in " \t":
@@ -507,8 +656,15 @@ class _Parser:
                     matched += 1
                     continue
                 break
-            columns, at = _indent(line, position)
+            if kind == _DIRECTIVE:
+                if columns < 4 and _closes_fence(line, at, container.closer):
+                    break
+                position = _advance(line, position, container.indent)
+                matched += 1
+                continue
             if at >= len(line):  # blank (after the markers matched so far)
+                if kind == _ADMONITION and self._ends_admonition(index, depth):
+                    break
                 matched += 1
                 continue
             if columns >= container.indent:
@@ -518,6 +674,41 @@ class _Parser:
             break
         return matched, position
 
+    def _ends_admonition(self, index: int | None, depth: int) -> bool:
+        """Whether the line at ``index`` ends the admonition ``containers[depth]``: it and the
+        line before are both "empty" for it (markdown-it's admon plugin)."""
+        return index is not None and index > 0 and self._empty_for(index, depth) and self._empty_for(index - 1, depth)
+
+    def _empty_for(self, number: int, depth: int) -> bool:
+        """Whether line ``number`` is blank and indented less than the body of the admonition
+        ``containers[depth]`` (two such lines in a row end it).  Remembered per line and admonition."""
+        container = self.containers[depth]
+        known = self._empty.get((number, depth))
+        if known is not None and known[0] is container:
+            return known[1]
+        line = _with_expanded_tabs(self.lines[number])
+        position, owed, empty = 0, 0, None
+        for outer in self.containers[:depth]:
+            columns, at = _indent(line, position)
+            if outer.kind == _QUOTE:
+                if columns < 4 and at < len(line) and line[at] == ">":
+                    position = at + 1 + (at + 1 < len(line) and line[at + 1] in " \t")
+                    continue
+                empty = False  # outside the quote: not a line of the admonition at all
+                break
+            if at >= len(line):
+                owed += outer.indent
+            elif columns >= outer.indent:
+                position = _advance(line, position, outer.indent)
+            else:
+                empty = False
+                break
+        if empty is None:
+            columns, at = _indent(line, position)
+            empty = at >= len(line) and columns < owed + container.indent
+        self._empty[(number, depth)] = (container, empty)
+        return empty
+
     def _line(self, index: int, line: str, start: int) -> None:
         self.tab_prefix = None
         if "\t" in line:
@@ -525,13 +716,21 @@ class _Parser:
             if expanded is not None:
                 self.tab_prefix = (start, expanded[1])
                 line, start = expanded[0] + line[len(expanded[1]) :], start - (len(expanded[0]) - len(expanded[1]))
-        matched, position = self._matched_containers(line) if self.containers else (0, 0)
+        matched, position = self._matched_containers(line, index) if self.containers else (0, 0)
         rest_blank = not line[position:].strip()
         if matched < len(self.containers):
+            ended = self.containers[matched]
+            if ended.kind == _DIRECTIVE and _closes_fence(line, _indent(line, position)[1], ended.closer):
+                self._close_leaf()  # the directive's closing line
+                del self.containers[matched:]
+                return
             # Outside the paragraph's containers any list marker ends it (as markdown-it reads it).
             # A link reference definition is read from a paragraph, so its lines may be lazy too.
+            # Nothing continues lazily into a directive or an admonition (their ends are fixed first).
             definition = type(self.leaf) is _Swallowing and self.leaf.lines_left
             lazy = (type(self.leaf) is _Paragraph or definition) and not rest_blank
+            if lazy and any(container.kind >= _DIRECTIVE for container in self.containers[matched:]):
+                lazy = False
             if lazy and definition and not self._interrupts(index, line, position, any_list_marker=True):
                 self._swallowed()
                 return
@@ -564,7 +763,7 @@ class _Parser:
         self._open_containers_and_leaf(index, line, start, position)
 
     def _open_containers_and_leaf(self, index: int, line: str, start: int, position: int) -> None:
-        while True:
+        while len(self.containers) < MAX_NESTING:
             columns, at = _indent(line, position)
             if columns >= 4 or at >= len(line):
                 break
@@ -572,7 +771,7 @@ class _Parser:
             if character == ">":
                 self._close_leaf()
                 self._begin_block(index)
-                self.containers.append(_Container(quote=True))
+                self.containers.append(_Container(_QUOTE))
                 position = at + 1
                 if position < len(line) and line[position] in " \t":
                     position += 1
@@ -582,19 +781,27 @@ class _Parser:
                 if item is not None:
                     self._close_leaf()
                     self._begin_block(index)
-                    self.containers.append(_Container(quote=False, indent=item[0]))
+                    self.containers.append(_Container(_ITEM, indent=item[0]))
                     position = item[1]
                     continue
+            if character in "!?" and (admonition := _admonition(line, at)) is not None:
+                indent, title_at, title = admonition
+                self._close_leaf()
+                self._begin_block(index)
+                self.containers.append(_Container(_ADMONITION, indent=indent))
+                if "{" in title:  # the title is inline text; the rest of the line is its kind
+                    self._emit_run([(start + title_at, title)])
+                return
             break
         self._leaf_line(index, line, start, position)
 
     def _list_item(self, line: str, position: int, at: int, columns: int) -> tuple[int, int] | None:
         """(content column, content offset) of a list item starting at ``at``, or None."""
         marker = _LIST_MARKER.match(line, at)
-        if marker is None or _THEMATIC_BREAK.match(line, at):
+        if marker is None or _is_thematic_break(line, at):
             return None
         after = marker.end()
-        empty = not line[after:].strip()
+        empty = _BLANK_REST.match(line, after) is not None
         if type(self.leaf) is _Paragraph and (empty or (marker.group(2) is not None and int(marker.group(2)) != 1)):
             return None  # cannot interrupt a paragraph
         # Columns are absolute (tab stops count from the line's start); the content column is
@@ -619,8 +826,14 @@ class _Parser:
                 self._close_leaf()
             return
         if columns >= 4:
-            if type(leaf) is _Paragraph:
-                leaf.explicit(self).append(self._content(line, start, at))
+            if type(leaf) is _Paragraph or len(self.containers) >= MAX_NESTING:
+                # At the nesting cap, indentation may belong to containers not opened: text, not code.
+                if type(leaf) is _Paragraph:
+                    leaf.explicit(self).append(self._content(line, start, at))
+                else:
+                    self._close_leaf()
+                    self._begin_block(index)
+                    self.leaf = _Paragraph(0, 0, 0, lines=[self._content(line, start, at)])
                 return
             self._close_leaf()
             self._begin_block(index)
@@ -640,7 +853,20 @@ class _Parser:
             self._open_heading(index, line, start, heading)
             return
         if character in "`~" and (fence := _fence_opening(line, at)):
-            self._open_fence(index, fence, columns)
+            name = _DIRECTIVE_NAME.match(fence.group(2).strip())
+            if name is not None and name.group(1) in MARKDOWN_DIRECTIVES:
+                self._open_directive(index, fence.group(1), columns)
+            else:
+                self._open_fence(index, fence, columns)
+            return
+        if character == ":" and (colons := _COLON_FENCE.match(line, at)):
+            name = _DIRECTIVE_NAME.match(line[colons.end() :].strip())
+            if name is not None and name.group(1) in CODE_DIRECTIVES:
+                self._close_leaf()
+                self._begin_block(index)
+                self.leaf = _Fence(":", len(colons.group()), columns, False)
+            else:
+                self._open_directive(index, colons.group(), columns)
             return
         # Display math cannot interrupt a paragraph (as in markdown-it's dollarmath plugin).
         if character == "$" and type(leaf) is not _Paragraph and line.startswith("$$", at) and self._math_block(index, line, at):
@@ -678,7 +904,7 @@ class _Parser:
 
     def _fence_line(self, fence: _Fence, index: int, line: str, start: int, position: int) -> None:
         columns, at = _indent(line, position)
-        if columns < 4 and line.startswith(fence.character * fence.length, at):
+        if columns < 4 and line.startswith(fence.marker, at):
             run_end = at
             while run_end < len(line) and line[run_end] == fence.character:
                 run_end += 1
@@ -718,11 +944,31 @@ class _Parser:
         if found == len(self._math_closers):
             return None
         closer = self._math_closers[found]
-        depth = len(self.containers)
-        lines = range(index + 1, closer + 1)
-        if depth and any(self._matched_containers(_with_expanded_tabs(self.lines[line]))[0] < depth for line in lines):
+        if self.containers and self._first_line_outside(index, closer) is not None:
             return None  # the closing line is outside the block quote or list item the math opened in
         return closer
+
+    def _first_line_outside(self, index: int, limit: int) -> int | None:
+        """The first line after ``index`` (up to ``limit``) that does not continue every open container.
+
+        Remembered per innermost container: the lines already found inside it are not read
+        again for the next opener in it, so many "$$" openers in one list item stay linear.
+        """
+        container, depth = self.containers[-1], len(self.containers)
+        known = self._inside.get(id(container))
+        if known is not None and known[0] is container and known[1] <= index + 1 <= known[2]:
+            _, first, reached, outside = known
+            if outside:
+                return reached if reached <= limit else None
+        else:
+            first = reached = index + 1
+        while reached <= limit:
+            if self._matched_containers(_with_expanded_tabs(self.lines[reached]), reached)[0] < depth:
+                self._inside[id(container)] = (container, first, reached, True)
+                return reached
+            reached += 1
+        self._inside[id(container)] = (container, first, reached, False)
+        return None
 
     def _html_block(self, index: int, line: str, at: int) -> bool:
         for opener, end in _HTML_OPENERS:
@@ -758,7 +1004,7 @@ class _Parser:
         if index + 1 >= len(self.lines):
             return False
         following = _with_expanded_tabs(self.lines[index + 1])
-        matched, position = self._matched_containers(following) if self.containers else (0, 0)
+        matched, position = self._matched_containers(following, index + 1) if self.containers else (0, 0)
         if matched < len(self.containers) or _indent(following, position)[0] >= 4:
             return False
         columns = _delimiter_cells(following[position:])
@@ -792,6 +1038,10 @@ class _Parser:
         if character == "#" and _ATX_HEADING.match(line, at):
             return True
         if character in "`~" and _fence_opening(line, at):
+            return True
+        if character == ":" and _COLON_FENCE.match(line, at):
+            return True
+        if character in "!?" and _admonition(line, at) is not None:
             return True
         if character in "*-_" and _THEMATIC_BREAK.match(line, at):
             return True
@@ -843,7 +1093,7 @@ class _Parser:
         following = []  # the paragraph's further lines: a definition cannot run past its paragraph
         for number in range(index + 1, min(index + 1 + _DEFINITION_LOOKAHEAD, len(self.lines))):
             raw = _with_expanded_tabs(self.lines[number])
-            matched, position = self._matched_containers(raw) if self.containers else (0, 0)
+            matched, position = self._matched_containers(raw, number) if self.containers else (0, 0)
             if self._interrupts(number, raw, position, any_list_marker=matched < len(self.containers)):
                 break
             following.append(raw[position:].lstrip(" \t"))
@@ -978,6 +1228,7 @@ def _reference_labels(text: str) -> frozenset[str]:
     )
 
 
-def parse_blocks(text: str) -> ParsedBlocks:
-    """The top-level blocks of a Markdown document."""
-    return _Parser(text).parse()
+def parse_blocks(text: str, document_start: bool = True) -> ParsedBlocks:
+    """The top-level blocks of a Markdown document (``document_start``: ``text`` opens the
+    document, so front matter may start it; False for a part re-parsed after an edit)."""
+    return _Parser(text, document_start).parse()

@@ -2,20 +2,31 @@
 
 CommonMark's inline constructs that are not prose are skipped: code spans,
 ``$...$`` math, backslash escapes, autolinks, raw HTML, images whole, and a
-link's ``[`` and ``](destination "title")`` (its label stays prose).  The
+link's ``[`` and ``](destination "title")`` (its label stays prose).  So are
+struck-through text (``~~...~~``, GFM) and a wiki link's target (``[[target]]``,
+``[[target|label]]``: the label stays prose, read as plain text).  The
 constructs are tried left to right in CommonMark's order of precedence, as an
 inline parser would, but only where one of their opening characters occurs;
 runs of plain text are jumped over with one regular-expression search.
+
+Which ``~~`` runs pair up is decided as markdown-it decides it: by CommonMark's
+delimiter algorithm over the ``~~``, ``*`` and ``_`` runs together (an emphasis
+closed across a ``~~`` hides it), each link label on its own.  ``*`` and ``_``
+are only looked at in text holding ``~~``.
 """
 
 from __future__ import annotations
 
 import re
+import unicodedata
 
 Skip = tuple[int, int]  # half-open range of the inline text
 
 # A character at which a skipped construct (or a link, which holds prose) can begin.
-SKIP_START = re.compile(r"[$\\`<\[!]")
+SKIP_START = re.compile(r"[$\\`<\[!~]")
+_SKIP_OR_DELIMITER = re.compile(r"[$\\`<\[!~*_]")  # in text holding "~~": emphasis runs count too
+# A wiki link: [[target]] or [[target|label]], on one line, no brackets inside (common practice, no source).
+_WIKI_LINK = re.compile(r"\[\[([^\[\]|\r\n]+)(?:\|([^\[\]\r\n]*))?\]\]")
 _ASCII_PUNCTUATION = frozenset("!\"#$%&'()*+,-./:;<=>?@[\\]^_`{|}~")
 _BACKTICK_RUN = re.compile(r"`+")
 
@@ -37,8 +48,24 @@ _MAX_LINK_NESTING = 32  # parentheses in a bare destination, as CommonMark imple
 def inline_skips(text: str, references: frozenset[str] = frozenset()) -> tuple[Skip, ...]:
     """The skipped ranges of ``text``; ``references`` are the document's link labels, normalised."""
     skips: list[Skip] = []
-    _scan(text, 0, len(text), references, skips, in_link=False, dead_ends={})
+    delimiters: list[_Delimiter] | None = [] if "~~" in text else None
+    _scan(text, 0, len(text), references, skips, in_link=False, dead_ends={}, delimiters=delimiters)
+    if delimiters:
+        skips.extend(_struck(delimiters))
+    if delimiters is not None:
+        return _disjoint(skips)
     return tuple(skips)
+
+
+def _disjoint(skips: list[Skip]) -> tuple[Skip, ...]:
+    """The skipped ranges in order and merged: struck text holds other skipped ranges."""
+    merged: list[list[int]] = []
+    for start, end in sorted(skips):
+        if merged and start <= merged[-1][1]:
+            merged[-1][1] = max(merged[-1][1], end)
+        else:
+            merged.append([start, end])
+    return tuple((start, end) for start, end in merged)
 
 
 def normalise_label(label: str) -> str:
@@ -53,15 +80,18 @@ DeadEnds = dict[object, int]
 
 def _scan(
     text: str, position: int, end: int, references: frozenset[str], skips: list[Skip], in_link: bool,
-    dead_ends: DeadEnds,
+    dead_ends: DeadEnds, delimiters: list[_Delimiter] | None = None,
 ) -> None:
+    events = SKIP_START if delimiters is None else _SKIP_OR_DELIMITER
     while True:
-        found = SKIP_START.search(text, position, end)
+        found = events.search(text, position, end)
         if found is None:
             return
         position = found.start()
         character = text[position]
-        if character == "$":
+        if character in "~*_":
+            position = _delimiter_run(text, position, end, delimiters) if delimiters is not None else position + 1
+        elif character == "$":
             position = _math(text, position, end, skips, dead_ends)
         elif character == "\\":
             if position + 1 < end and (text[position + 1] in _ASCII_PUNCTUATION or text[position + 1] in "\r\n"):
@@ -85,13 +115,26 @@ def _scan(
                     continue
             position += 1
         else:  # '['
+            wiki = _WIKI_LINK.match(text, position, end) if text.startswith("[[", position) else None
+            if wiki is not None:  # its label is plain text: nothing in it is looked at
+                if wiki.group(2) is None:
+                    skips.append((position, wiki.end()))
+                else:
+                    skips.append((position, wiki.start(2)))
+                    skips.append((wiki.end(2), wiki.end()))
+                position = wiki.end()
+                continue
             link = None if in_link else _link(text, position, end, references, dead_ends)
             if link is None:
                 position += 1
                 continue
             label_end, link_end = link
             skips.append((position, position + 1))
-            _scan(text, position + 1, label_end, references, skips, True, dead_ends)
+            # A link's label is balanced on its own (markdown-it keeps its delimiters apart).
+            inner: list[_Delimiter] | None = None if delimiters is None else []
+            _scan(text, position + 1, label_end, references, skips, True, dead_ends, inner)
+            if inner:
+                skips.extend(_struck(inner))
             skips.append((label_end, link_end))
             position = link_end
 
@@ -109,8 +152,8 @@ def _math(text: str, position: int, end: int, skips: list[Skip], dead_ends: Dead
     search = position + 1
     while True:
         closing = -1 if search >= dead_ends.get(("$", end), end + 1) else text.find("$", search, end)
-        if closing == -1:
-            dead_ends[("$", end)] = min(search, dead_ends.get(("$", end), search))
+        if closing == -1:  # none unescaped from where this search began
+            dead_ends[("$", end)] = min(position + 1, dead_ends.get(("$", end), position + 1))
             return position + 1
         if not _is_escaped(text, closing):
             break
@@ -129,7 +172,9 @@ def _code_span(text: str, position: int, end: int, skips: list[Skip], dead_ends:
     while True:
         closing = None if search >= dead_ends.get(key, end + 1) else _BACKTICK_RUN.search(text, search, end)
         if closing is None:
-            dead_ends[key] = min(search, dead_ends.get(key, search))
+            # None from where this search began (not from where it gave up): a later opener
+            # of this width before that point would otherwise read the same runs again.
+            dead_ends[key] = min(run.end(), dead_ends.get(key, run.end()))
             return run.end()  # no closing run of the same length: the backticks are text
         if closing.end() - closing.start() == width:
             skips.append((position, closing.end()))
@@ -221,17 +266,26 @@ def _link(
             return label_end, inline_end
     if not references:
         return None
-    # Reference links: [text][label], [label][] and [label].
+    # Reference links: [text][label], [label][] and [label].  A label holds at most 999
+    # characters (CommonMark 4.7), so a longer one is not looked up: "[" nested thousands
+    # deep is not normalised once per bracket.
     if after < end and text[after] == "[":
         second = _label_end(text, after, end, dead_ends)
         if second is not None:
-            label = text[after + 1 : second] or text[opening + 1 : label_end]
-            if normalise_label(label) in references:
+            label = (after + 1, second) if second > after + 1 else (opening + 1, label_end)
+            if _is_reference(text, *label, references):
                 return label_end, second + 1
             return None
-    if normalise_label(text[opening + 1 : label_end]) in references:
+    if _is_reference(text, opening + 1, label_end, references):
         return label_end, after
     return None
+
+
+_MAX_LABEL_CHARS = 999
+
+
+def _is_reference(text: str, start: int, end: int, references: frozenset[str]) -> bool:
+    return end - start <= _MAX_LABEL_CHARS and normalise_label(text[start:end]) in references
 
 
 def _inline_destination(text: str, position: int, end: int) -> int | None:
@@ -280,3 +334,105 @@ def _inline_destination(text: str, position: int, end: int) -> int | None:
     if position < end and text[position] == ")":
         return position + 1
     return None
+
+
+# --- strikethrough: delimiter runs and their pairing ------------------------------------------
+
+
+class _Delimiter:
+    """One delimiter as markdown-it keeps it: a '~~' pair, or one '*' or '_' of a run."""
+
+    __slots__ = ("marker", "length", "run", "position", "can_open", "can_close", "end")
+
+    def __init__(self, marker: str, length: int, run: int, position: int, can_open: bool, can_close: bool) -> None:
+        self.marker, self.length, self.run, self.position = marker, length, run, position
+        self.can_open, self.can_close, self.end = can_open, can_close, -1
+
+
+# CommonMark 2.1 (as markdown-it reads it): Unicode whitespace and punctuation (P and S categories).
+_WHITESPACE = frozenset("\t\n\x0b\x0c\r \xa0\u1680\u202f\u205f\u3000") | frozenset(map(chr, range(0x2000, 0x200B)))
+
+
+def _is_punctuation(character: str) -> bool:
+    return character in _ASCII_PUNCTUATION or unicodedata.category(character)[0] in "PS"
+
+
+def _delimiter_run(text: str, position: int, end: int, delimiters: list[_Delimiter]) -> int:
+    """Record the run of one delimiter character at ``position``; the offset after it."""
+    marker = text[position]
+    run_end = position + 1
+    while run_end < end and text[run_end] == marker:
+        run_end += 1
+    length = run_end - position
+    if marker == "~" and length < 2:
+        return run_end  # a single '~' is text
+    before = text[position - 1] if position > 0 else " "
+    after = text[run_end] if run_end < end else " "
+    before_space, after_space = before in _WHITESPACE, after in _WHITESPACE
+    before_punctuation, after_punctuation = _is_punctuation(before), _is_punctuation(after)
+    left_flanking = not (after_space or (after_punctuation and not (before_space or before_punctuation)))
+    right_flanking = not (before_space or (before_punctuation and not (after_space or after_punctuation)))
+    split_word = marker != "_"  # '_' may not open or close inside a word
+    can_open = left_flanking and (split_word or not right_flanking or before_punctuation)
+    can_close = right_flanking and (split_word or not left_flanking or after_punctuation)
+    run = len(delimiters)  # delimiters of one run share the index of its first
+    if marker == "~":  # pairs of '~~', an odd one out first (markdown-it's strikethrough rule)
+        for pair in range(position + length % 2, run_end, 2):
+            delimiters.append(_Delimiter("~", 0, run, pair, can_open, can_close))
+    else:
+        for single in range(position, run_end):
+            delimiters.append(_Delimiter(marker, length, run, single, can_open, can_close))
+    return run_end
+
+
+def _struck(delimiters: list[_Delimiter]) -> list[Skip]:
+    """The struck-through ranges, '~~' to '~~' inclusive, once the delimiters are paired."""
+    _pair(delimiters)
+    return [
+        (opener.position, delimiters[opener.end].position + 2)
+        for opener in delimiters
+        if opener.marker == "~" and opener.end != -1
+    ]
+
+
+def _pair(delimiters: list[_Delimiter]) -> None:
+    """Pair openers with closers as markdown-it's balance_pairs does (CommonMark 6.2, "process
+    emphasis"), with its jumps and lower bounds, so the pairing stays linear."""
+    openers_bottom: dict[str, list[int]] = {}
+    jumps: list[int] = []
+    header, previous_run = 0, None  # previous_run: None once a pair is made (a run starts afresh)
+    for closer_index, closer in enumerate(delimiters):
+        jumps.append(0)
+        if previous_run != closer.run or delimiters[header].marker != closer.marker:
+            header = closer_index
+        previous_run = closer.run
+        if not closer.can_close:
+            continue
+        bottoms = openers_bottom.setdefault(closer.marker, [-1] * 6)
+        bottom_slot = (3 if closer.can_open else 0) + closer.length % 3
+        opener_index = header - jumps[header] - 1
+        new_bottom = opener_index
+        while opener_index > bottoms[bottom_slot]:
+            opener = delimiters[opener_index]
+            if opener.marker != closer.marker:
+                opener_index -= jumps[opener_index] + 1
+                continue
+            if opener.can_open and opener.end < 0:
+                odd_match = (
+                    (opener.can_close or closer.can_open)
+                    and (opener.length + closer.length) % 3 == 0
+                    and (opener.length % 3 != 0 or closer.length % 3 != 0)
+                )
+                if not odd_match:
+                    last_jump = jumps[opener_index - 1] + 1 if opener_index > 0 and not delimiters[opener_index - 1].can_open else 0
+                    jumps[closer_index] = closer_index - opener_index + last_jump
+                    jumps[opener_index] = last_jump
+                    closer.can_open = False
+                    opener.end = closer_index
+                    opener.can_close = False
+                    new_bottom = -1
+                    previous_run = None
+                    break
+            opener_index -= jumps[opener_index] + 1
+        if new_bottom != -1:
+            bottoms[bottom_slot] = new_bottom

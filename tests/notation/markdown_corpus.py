@@ -375,6 +375,104 @@ HAND_WRITTEN: tuple[Case, ...] = _cases(
     ("list-start-number-interrupt", "para\n2. {NH3: bent}\n"),
     ("list-empty-item-cannot-interrupt", "para\n-\n{NH3: bent}\n"),
     ("emphasis", "*emphasis {BF3: trigonal planar}* and **{SF6}**\n"),
+    # --- front matter (mdit-py-plugins front_matter; TOML '+++' read alike) -------------
+    ("front-matter-yaml", "---\ntitle: {NH3: bent}\n---\n" + PROSE),
+    ("front-matter-toml", "+++\ntitle = '{NH3: bent}'\n+++\n" + PROSE),
+    ("front-matter-yaml-dots-close", "---\ntitle: {NH3: bent}\n...\n" + PROSE),
+    ("front-matter-unclosed-is-not", "---\ntitle: {NH3: bent}\n\n" + PROSE),
+    ("front-matter-not-at-start", "\n---\ntitle: {NH3: bent}\n---\n" + PROSE),
+    ("front-matter-indented-opener-is-not", " ---\ntitle: {NH3: bent}\n---\n" + PROSE),
+    ("front-matter-shorter-closer-does-not-close", "----\ntitle: {NH3: bent}\n---\n{H2O: bent}\n----\n" + PROSE),
+    ("front-matter-closer-indented-3", "---\ntitle: {NH3: bent}\n   ---\n" + PROSE),
+    ("front-matter-closer-indented-4-does-not-close", "---\ntitle: {NH3: bent}\n    ---\n{H2O: bent}\n---\n" + PROSE),
+    ("front-matter-closer-with-text-does-not-close", "---\na: {NH3: bent}\n--- x\n{H2O: bent}\n---\n" + PROSE),
+    ("front-matter-then-heading", "---\na: 1\n---\n# Title {NH3: bent}\n"),
+    ("front-matter-crlf", "---\r\ntitle: {NH3: bent}\r\n---\r\n" + PROSE),
+    ("front-matter-empty", "---\n---\n" + PROSE),
+    # --- strikethrough (markdown-it's strikethrough rule, GFM) -----------------------
+    ("strikethrough", "~~struck {NH3: bent}~~ " + PROSE),
+    ("strikethrough-single-tilde-is-text", "about ~{NH3: bent}~ " + PROSE),
+    ("strikethrough-triple-tildes", "~~~{NH3: bent}~~~ " + PROSE),
+    ("strikethrough-unclosed", "~~{NH3: bent} " + PROSE),
+    ("strikethrough-not-left-flanking", "~~ {NH3: bent}~~ " + PROSE),
+    ("strikethrough-across-lines", "~~a\n{NH3: bent}~~\n" + PROSE),
+    ("strikethrough-code-span-inside", "~~a `~~` {NH3: bent}~~ " + PROSE),
+    ("strikethrough-in-code-span", "`~~{NH3: bent}~~` " + PROSE),
+    ("strikethrough-emphasis-closed-across", "*a ~~b* {NH3: bent}~~ " + PROSE),
+    ("strikethrough-around-emphasis", "~~a *{NH3: bent}* b~~ " + PROSE),
+    ("strikethrough-link-label-apart", "~~a [b ~~](u) {NH3: bent}~~ " + PROSE),
+    ("strikethrough-inside-link-label", "[a ~~{NH3: bent}~~](u) " + PROSE),
+    ("strikethrough-escaped", "\\~~{NH3: bent}~~ " + PROSE),
+    ("strikethrough-in-heading", "# ~~{NH3: bent}~~ title\n" + PROSE),
+    ("strikethrough-in-table-cell", "| a | b |\n|---|---|\n| ~~{NH3: bent}~~ | {H2O: bent} |\n"),
+    ("strikethrough-intraword", "a~~{NH3: bent}~~b " + PROSE),
+    # --- wiki links (the reference's own rule: no plugin reads them) -------------------
+    ("wiki-link-target", "see [[Ammonia {NH3: bent}]] " + PROSE),
+    ("wiki-link-label-is-read", "see [[Ammonia|{NH3: bent}]] " + PROSE),
+    ("wiki-link-target-with-label", "see [[{NH3: bent}|ammonia]] " + PROSE),
+    ("wiki-link-unclosed", "see [[{NH3: bent} " + PROSE),
+    ("wiki-link-across-lines-is-not", "see [[a\n{NH3: bent}]] " + PROSE),
+    ("wiki-link-embed", "![[{NH3: bent}]] " + PROSE),
+    ("wiki-link-before-link", "[[{NH3: bent}]](u) " + PROSE),
+    ("wiki-link-in-link-label", "[a [[{NH3: bent}]] b](u) " + PROSE),
+    ("wiki-link-in-code-span", "`[[x` {NH3: bent}]] " + PROSE),
+    ("wiki-link-reference-label", "[[x]]\n\n[x]: /u\n" + PROSE),
+    ("wiki-link-label-code-span-is-text", "[[a|`{NH3: bent}`]] " + PROSE),
+    # --- MyST directives and colon fences (mdit-py-plugins colon_fence; bodies as MyST reads them)
+    ("directive-note-body-is-markdown", "```{note}\nSee {NH3: bent}.\n```\n" + PROSE),
+    ("directive-body-after-blank-line", "```{note}\nFirst.\n\n    {NH3: bent} is code\n\nand {H2O: bent}\n```\n" + PROSE),
+    ("directive-code-cell-is-code", "```{python}\nx = {NH3: bent}\n```\n" + PROSE),
+    ("directive-code-block-is-code", "```{code-block} python\nx = {NH3: bent}\n```\n" + PROSE),
+    ("directive-bonding-name-is-code", "```{bonding}\n{NH3: bent}\n```\n" + PROSE),
+    ("directive-argument-not-read", "```{admonition} Title {NH3: bent}\nbody {H2O: bent}\n```\n" + PROSE),
+    ("directive-nested-fence", "````{note}\n```bonding\nNH3: bent\n```\n{H2O: bent}\n````\n" + PROSE),
+    ("directive-shorter-fence-inside-closes-nothing", "````{note}\n```\n{NH3: bent}\n````\n" + PROSE),
+    ("directive-unclosed", PROSE + "\n\n```{note}\n{NH3: bent}\n\n    code {H2O: bent}\n"),
+    ("directive-tilde-fence", "~~~{tip}\n{NH3: bent}\n~~~\n" + PROSE),
+    ("directive-in-quote", "> ```{note}\n> {NH3: bent}\n> ```\n\n" + PROSE),
+    ("directive-in-list-item", "- ```{note}\n  {NH3: bent}\n  ```\n\n" + PROSE),
+    ("directive-indented-opener", "  ```{note}\n  {NH3: bent}\n  ```\n" + PROSE),
+    ("directive-closer-indented-4-does-not-close", "```{note}\n{NH3: bent}\n    ```\n{H2O: bent}\n```\n" + PROSE),
+    ("directive-interrupts-paragraph", PROSE + "\n```{note}\n{NH3: bent}\n```\n"),
+    ("directive-nested-directive", "````{note}\n```{tip}\n{NH3: bent}\n```\n````\n" + PROSE),
+    ("colon-fence-directive", ":::{note}\n{NH3: bent}\n\n    code {H2O: bent}\n:::\n" + PROSE),
+    ("colon-fence-without-name", ":::\n{NH3: bent}\n:::\n" + PROSE),
+    ("colon-fence-plain-name", "::: warning\n{NH3: bent}\n:::\n" + PROSE),
+    ("colon-fence-code-directive-is-code", ":::{code-block}\n{NH3: bent}\n:::\n" + PROSE),
+    ("colon-fence-math-is-code", ":::{math}\n{NH3: bent}\n:::\n" + PROSE),
+    ("colon-fence-longer-closer", "::::{note}\n:::{tip}\n{NH3: bent}\n:::\n{H2O: bent}\n::::\n" + PROSE),
+    ("colon-fence-interrupts-paragraph", PROSE + "\n:::{note}\n{NH3: bent}\n:::\n"),
+    ("colon-fence-in-quote", "> :::{note}\n> {NH3: bent}\n> :::\n> " + PROSE + "\n"),
+    ("colon-fence-quote-ends-it", "> :::{note}\n> {NH3: bent}\n\n" + PROSE),
+    ("colon-fence-two-colons-is-text", "::{NH3: bent}\n" + PROSE),
+    ("colon-fence-bonding-body", ":::{note}\n```bonding\nNH3: bent\n```\n:::\n" + PROSE),
+    ("colon-fence-closer-with-text-does-not-close", ":::{note}\n{NH3: bent}\n::: x\n{H2O: bent}\n:::\n" + PROSE),
+    ("colon-fence-lazy-line-ends-it", "> :::{note}\n> a\n{NH3: bent}\n"),
+    # --- admonitions (mdit-py-plugins admon) -------------------------------------------
+    ("admonition-body", "!!! note\n    {NH3: bent}\n" + PROSE),
+    ("admonition-body-after-blank-line", "!!! note\n\n    {NH3: bent}\n\n" + PROSE),
+    ("admonition-quoted-title", '!!! note "About {NH3: bent}"\n    body\n\n' + PROSE),
+    ("admonition-plain-title", "!!! note About {NH3: bent}\n    body\n\n" + PROSE),
+    ("admonition-empty-title", '!!! note ""\n    {NH3: bent}\n\n' + PROSE),
+    ("admonition-collapsible", "??? tip\n    {NH3: bent}\n\n" + PROSE),
+    ("admonition-collapsible-open", "???+ tip\n    {NH3: bent}\n\n" + PROSE),
+    ("admonition-indented-code-inside", "!!! note\n    a\n\n        {NH3: bent}\n\n" + PROSE),
+    ("admonition-two-blank-lines-end-it", "!!! note\n    a\n\n\n    {NH3: bent}\n\n" + PROSE),
+    ("admonition-less-indented-ends-it", "!!! note\n    a\n  {NH3: bent}\n"),
+    ("admonition-no-lazy-line", "!!! note\n    a\n{NH3: bent}\n"),
+    ("admonition-interrupts-paragraph", PROSE + "\n!!! note\n    {NH3: bent}\n"),
+    ("admonition-in-list-item", "- !!! note\n      {NH3: bent}\n  " + PROSE + "\n"),
+    ("admonition-in-quote", "> !!! note\n>     {NH3: bent}\n>\n> " + PROSE + "\n"),
+    ("admonition-without-kind-is-text", "!!!\n    {NH3: bent}\n\n" + PROSE),
+    ("admonition-no-space-before-kind", "!!!note\n   {NH3: bent}\n\n" + PROSE),
+    ("admonition-wide-indent", "!!!   note\n      {NH3: bent}\n     {H2O: bent}\n"),
+    ("admonition-fence-inside", "!!! note\n    ```bonding\n    NH3: bent\n    ```\n\n" + PROSE),
+    ("admonition-spaces-line-keeps-it-open", "!!! note\n    a\n    \n\n    {NH3: bent}\n"),
+    ("admonition-indented-4-is-code", "    !!! note\n    {NH3: bent}\n\n" + PROSE),
+    ("admonition-nested", "!!! note\n    !!! tip\n        {NH3: bent}\n    {H2O: bent}\n"),
+    # --- nesting beyond the cap (32 containers): the rest is text --------------------
+    ("nesting-beyond-markdown-it-cap", "> " * 25 + "{NH3: bent}\n"),
+    ("directive-body-tab-after-indentation", " :::\n \t{NH3: bent}\n:::\n"),
 )
 
 # Edits (document before, document after) whose effect reaches past the blocks they touch.
@@ -407,7 +505,7 @@ _WORDS = ("text", "the", "Δ≈", "🧪", "三フッ化", "a*b*", "_c_", "and", 
 
 def _inline_piece(rng: random.Random) -> str:
     annotation = rng.choice(_ANNOTATIONS)
-    choice = rng.randrange(24)
+    choice = rng.randrange(31)
     ticks = "`" * rng.randint(1, 3)
     return (
         [
@@ -435,6 +533,13 @@ def _inline_piece(rng: random.Random) -> str:
             "<!-- x -->",
             f"*{annotation}*",
             rng.choice(["`", "$", "<", "[", "]", "(", ")", '"', "\\", "|"]),
+            f"~~{annotation}~~",
+            f"~~x {annotation}~~",
+            f"~{annotation}~",
+            rng.choice(["~~", "~~~", "*", "_", "[[", "]]"]),
+            f"[[{annotation}]]",
+            f"[[x|{annotation}]]",
+            f"[[{annotation}|y]]",
         ][choice]
     )
 
@@ -535,6 +640,40 @@ def _thematic_break(rng: random.Random) -> list[str]:
     return [rng.choice(["***", "---", "___", " - - -"])]
 
 
+def _directive(rng: random.Random) -> list[str]:
+    """A MyST directive or colon fence (its body Markdown, or code for a code directive)."""
+    name = rng.choice(["{note}", "{warning}", "{python}", "{code-block}", "{bonding}", "note", "", "{admonition} Title"])
+    opener = rng.choice(["```", "````", ":::", "::::", "~~~"])
+    indent = " " * rng.choice([0, 0, 0, 1, 3])
+    body = [line for _ in range(rng.randint(0, 2)) for line in [*_leaf_block(rng, nested=True), ""]]
+    if indent:  # MyST reads the body as a document of its own: tabs after the indentation count anew
+        body = [line.expandtabs(4) for line in body]  # (the hand-written cases hold that difference)
+    closer = rng.choice([opener, opener + opener[0], opener + "  ", None])
+    if closer is None:
+        indent = ""  # unclosed, it holds the blocks after it: the same holds for their tabs
+    return [indent + opener + name, *body] + ([] if closer is None else [indent + closer])
+
+
+def _admonition(rng: random.Random) -> list[str]:
+    """A Python-Markdown / MkDocs admonition: its body indented under the marker's kind."""
+    marker = rng.choice(["!!!", "???", "???+", "!!!"])
+    kind = rng.choice(["note", "warning", "tip"])
+    title = rng.choice(["", "", ' ""', f' "Title {rng.choice(_ANNOTATIONS)}"', f" {rng.choice(_ANNOTATIONS)}"])
+    pad = " " * (len(marker) + 1 - (len(marker) - 3))
+    body = []
+    for _ in range(rng.randint(1, 3)):
+        body += [pad + line if line else line for line in _leaf_block(rng, nested=True)]
+        body += [""] * rng.choice([0, 1, 1, 2])
+    return [f"{marker} {kind}{title}", *body]
+
+
+def _front_matter(rng: random.Random) -> list[str]:
+    marker = rng.choice(["---", "+++", "----"])
+    lines = [f"title: {rng.choice(_ANNOTATIONS)}", "tags: [a, b]", f"x = '{rng.choice(_ANNOTATIONS)}'"]
+    closer = rng.choice([marker, marker, "...", "---", None])
+    return [marker, *rng.sample(lines, rng.randint(0, 3))] + ([] if closer is None else [closer])
+
+
 _LEAF_BLOCKS = (
     (_paragraph, 6),
     (_fence, 5),
@@ -545,11 +684,14 @@ _LEAF_BLOCKS = (
     (_table, 1),
     (_reference_definition, 1),
     (_thematic_break, 1),
+    (_directive, 2),
+    (_admonition, 2),
 )
 
 
-def _leaf_block(rng: random.Random) -> list[str]:
-    builders, weights = zip(*_LEAF_BLOCKS)
+def _leaf_block(rng: random.Random, nested: bool = False) -> list[str]:
+    """A block; ``nested`` (a directive's or admonition's body) holds no directive or admonition."""
+    builders, weights = zip(*(_LEAF_BLOCKS[:-2] if nested else _LEAF_BLOCKS))
     return rng.choices(builders, weights)[0](rng)
 
 
@@ -602,7 +744,7 @@ def _contained(rng: random.Random, lines: list[str], awkward: bool, depth: int =
 
 def generated_document(rng: random.Random, awkward: bool = False) -> str:
     """A random document of 1-6 blocks, with random separators and line endings."""
-    lines: list[str] = []
+    lines: list[str] = _front_matter(rng) if rng.random() < 0.1 else []
     for _ in range(rng.randint(1, 6)):
         block = _contained(rng, _leaf_block(rng), awkward)
         if lines and lines[-1] and block[0][:1].isspace() and not awkward:

@@ -1,6 +1,16 @@
 """Reference Markdown structure for tests: the same interface as notelsp.notation.markdown,
 computed with markdown-it-py (CommonMark, plus its dollarmath plugin for $...$ and $$...$$).
 
+Markdown as people write it is read with markdown-it-py's own strikethrough rule
+(``~~...~~``) and mdit-py-plugins: front_matter (YAML ``---`` front matter), admon
+(``!!!`` / ``???`` admonitions) and colon_fence (``:::`` fences).  What no plugin
+reads is said where it is done: TOML ``+++`` front matter is handed to the
+front_matter plugin as ``---`` (the same characters' count, so offsets hold); a
+wiki link (``[[target|label]]``) is one small inline rule placed before
+markdown-it's link rule; and a MyST directive's body (a fence or colon fence with
+a ``{name}`` info string) is parsed again as a Markdown document of its own, as
+MyST does, and placed back at its lines.
+
 notelsp's own scanner is line-oriented and written for speed; this module keeps the
 general-purpose CommonMark parser as the reference it is compared against
 (tests/notation/test_markdown_reference.py).  Only the whole-document parse is kept.
@@ -14,16 +24,21 @@ from functools import cache
 from typing import Any
 
 from markdown_it import MarkdownIt
+from mdit_py_plugins.admon import admon_plugin
+from mdit_py_plugins.colon_fence import colon_fence_plugin
 from mdit_py_plugins.dollarmath import dollarmath_plugin
 from mdit_py_plugins.dollarmath import index as dollarmath_index
+from mdit_py_plugins.front_matter import front_matter_plugin
 
 from notelsp.notation.markdown import MarkdownStructure, Segment
+from notelsp.notation.markdown_blocks import CODE_DIRECTIVES, MARKDOWN_DIRECTIVES
 from notelsp.notation.model import Span
 
 BONDING_INFO = "bonding"
 _SKIPPED_INLINE_RULES = ("math_inline", "escape", "backticks", "autolink", "html_inline", "image")
 _SKIPS_KEY = "notelsp_skips"
-_SKIP_STARTS = frozenset("$\\`<![")  # the characters the skipped inline rules (and links) begin with
+_TILDES_KEY = "notelsp_tildes"  # id of each '~~' token -> its offset in the inline text
+_SKIP_STARTS = frozenset("$\\`<![~")  # the characters the skipped inline rules (and links) begin with
 
 
 _ASCII_PUNCTUATION = frozenset("!\"#$%&'()*+,-./:;<=>?@[\\]^_`{|}~")  # CommonMark 2.1
@@ -69,14 +84,146 @@ def _inline_with_skips(state: Any) -> None:
         if token.type == "inline":
             if token.children is None:
                 token.children = []
-            if "{" not in token.content:
-                continue  # no annotation can start here: leave its inline structure unparsed
+            if "{" not in token.content or "skips" in token.meta:
+                continue  # no annotation can start here (or a directive's body, already read)
             if _SKIP_STARTS.isdisjoint(token.content):
                 token.meta["skips"] = ()  # none of the skipped constructs can begin here
                 continue
             state.env[_SKIPS_KEY] = []
+            state.env[_TILDES_KEY] = {}
             state.md.inline.parse(token.content, state.md, state.env, token.children)
-            token.meta["skips"] = tuple(state.env.pop(_SKIPS_KEY))
+            skips = state.env.pop(_SKIPS_KEY)
+            skips.extend(_struck(token.children, state.env.pop(_TILDES_KEY)))
+            token.meta["skips"] = tuple(skips)
+
+
+def _struck(children: list[Any], offsets: dict[int, int]) -> list[tuple[int, int]]:
+    """The struck-through ranges, '~~' to '~~': markdown-it turned the paired '~~' tokens into
+    s_open and s_close, and the recording strikethrough rule noted where each one stood."""
+    ranges, open_at = [], []
+    for child in children:
+        if child.type == "s_open":
+            open_at.append(offsets[id(child)])
+        elif child.type == "s_close":
+            ranges.append((open_at.pop(), offsets[id(child)] + 2))
+    return ranges
+
+
+def _recording_tildes(rule: Any) -> Any:
+    """markdown-it's strikethrough rule, noting the offset of each '~' and '~~' token it makes."""
+
+    def run(state: Any, silent: bool) -> bool:
+        start, before = state.pos, len(state.tokens)
+        matched = rule(state, silent)
+        offsets = state.env.get(_TILDES_KEY)
+        if matched and not silent and offsets is not None:
+            length = state.pos - start
+            made = state.tokens[before:][-(length // 2 + length % 2) :]  # its own, after any pending text
+            offset = start
+            for token in made:
+                offsets[id(token)] = offset
+                offset += len(token.content)
+        return matched
+
+    return run
+
+
+# A wiki link, [[target]] or [[target|label]] (common practice, no source): no plugin reads it,
+# so this rule does, before markdown-it's link rule.  The target is skipped; the label is text.
+_WIKI_LINK = re.compile(r"\[\[([^\[\]|\r\n]+)(?:\|([^\[\]\r\n]*))?\]\]")
+
+
+def _wiki_link(state: Any, silent: bool) -> bool:
+    if not state.src.startswith("[[", state.pos):
+        return False
+    match = _WIKI_LINK.match(state.src, state.pos, state.posMax)
+    if match is None:
+        return False
+    if not silent:
+        skips = state.env.get(_SKIPS_KEY)
+        if skips is not None:
+            if match.group(2) is None:
+                skips.append((match.start(), match.end()))
+            else:
+                skips.extend([(match.start(), match.start(2)), (match.end(2), match.end())])
+        state.push("text", "", 0).content = match.group(2) or ""
+    state.pos = match.end()
+    return True
+
+
+_DIRECTIVE_NAME = re.compile(r"\{([^{}\s]+)\}")
+
+
+def _is_markdown_directive(token: Any) -> bool:
+    """A fence whose body MyST reads as Markdown: a known directive in a backtick or tilde
+    fence, any colon fence but a code one."""
+    name = _DIRECTIVE_NAME.match(token.info.strip())
+    if token.type == "colon_fence":
+        return name is None or name.group(1) not in CODE_DIRECTIVES
+    return token.type == "fence" and name is not None and name.group(1) in MARKDOWN_DIRECTIVES
+
+
+def _directive_bodies(state: Any) -> None:
+    """Parse each Markdown-bodied directive's content as a document of its own (as MyST does)
+    and put its tokens after the fence, at the fence's lines."""
+    tokens = []
+    for token in state.tokens:
+        tokens.append(token)
+        if token.type in ("fence", "colon_fence") and token.map and _is_markdown_directive(token):
+            token.type = "directive"  # not a code fence (nor a bonding one) any more
+            first_line = token.map[0] + 1
+            for inner in state.md.parse(token.content, state.env):
+                if inner.map:
+                    inner.map = [inner.map[0] + first_line, inner.map[1] + first_line]
+                inner.level += token.level + 1
+                tokens.append(inner)
+    state.tokens[:] = tokens
+
+
+class _PastTheEnd(str):
+    """The source text, reading as "" one past its end (see ``_reading_past_the_end``)."""
+
+    def __getitem__(self, key: Any) -> str:
+        if isinstance(key, int) and key == len(self):
+            return ""
+        return str.__getitem__(self, key)
+
+
+def _reading_past_the_end(rule: Any) -> Any:
+    """mdit-py-plugins 0.7's colon-fence rule reads ``src[pos]`` for a block quote's last line
+    when it is empty and ends the text ('> :::\\n>'), one past the end: an IndexError.  That
+    character is no colon, so it is read as "" there."""
+
+    def run(state: Any, start_line: int, end_line: int, silent: bool) -> bool:
+        source = state.src
+        state.src = _PastTheEnd(source)
+        try:
+            return rule(state, start_line, end_line, silent)
+        finally:
+            state.src = source
+
+    return run
+
+
+def _toml_front_matter_as_yaml(text: str) -> str:
+    """``text`` with TOML front matter's '+++' opening and closing lines written as '---',
+    for the front_matter plugin (which knows '---' only); the closing line is found by the
+    plugin's own rule (a run at least as long, at most 3 spaces in, nothing after)."""
+    if not text.startswith("+++"):
+        return text
+    lines = text.splitlines(keepends=True)
+    count = len(lines[0]) - len(lines[0].lstrip("+"))
+    for number, line in enumerate(lines[1:], start=1):
+        body = line.rstrip("\r\n")
+        if body.startswith("...") and not body[3:].strip(" \t"):  # a YAML end line closes it too
+            return "-" * count + text[count:]
+        stripped = body.lstrip(" ")
+        if len(body) - len(stripped) <= 3 and len(stripped) - len(stripped.lstrip("+")) >= count and not stripped.lstrip("+").strip(" \t"):
+            swapped = lines[:]
+            swapped[0] = "-" * count + lines[0][count:]
+            swapped[number] = line.replace("+", "-")
+            return "".join(swapped)
+    return text
 
 
 def _dollar_is_escaped(state: Any, position: int, mod: int = 0) -> bool:
@@ -114,17 +261,26 @@ def _within_container(rule: Any) -> Any:
 @cache
 def _markdown() -> MarkdownIt:
     dollarmath_index.is_escaped = _dollar_is_escaped  # looked up when the rule runs
-    md = MarkdownIt("commonmark").enable("table")
+    md = MarkdownIt("commonmark").enable(["table", "strikethrough"])
     dollarmath_plugin(md)
+    front_matter_plugin(md)
+    admon_plugin(md)
+    colon_fence_plugin(md)
+    md.inline.ruler.before("link", "wikilink", _wiki_link)
     for rule in md.block.ruler.__rules__:
         if rule.name == "math_block":
             rule.fn = _within_container(rule.fn)
+        elif rule.name == "colon_fence":
+            rule.fn = _reading_past_the_end(rule.fn)
     md.block.ruler.__cache__ = None
     for rule in md.inline.ruler.__rules__:
         if rule.name in _SKIPPED_INLINE_RULES or rule.name == "link":
             rule.fn = _recording(rule.name, rule.fn)
+        elif rule.name == "strikethrough":
+            rule.fn = _recording_tildes(rule.fn)
     md.inline.ruler.__cache__ = None
     md.core.ruler.at("inline", _inline_with_skips)
+    md.core.ruler.before("inline", "directive_bodies", _directive_bodies)
     # Only structure is wanted: skip the typographic core steps.
     md.disable(["replacements", "smartquotes", "text_join"], ignoreInvalid=True)
     return md
@@ -147,7 +303,7 @@ def _line(text: str, starts, index: int) -> tuple[int, str]:
 def markdown_structure(text: str) -> MarkdownStructure:
     """Inline segments and bonding-block lines of a Markdown document (whole parse)."""
     # markdown-it reads NUL as U+FFFD (CommonMark 2.3); the same length, so offsets hold.
-    searchable = text.replace("\0", "\ufffd")
+    searchable = _toml_front_matter_as_yaml(text.replace("\0", "\ufffd"))
     starts = tuple(line_starts(searchable))
     blocks = _parse_blocks(searchable, starts)
     return MarkdownStructure(

@@ -43,6 +43,16 @@ LINES = [
     "</pre>",
     "\t{NH3: bent}",
     "   ```",
+    "+++",
+    "title: {H2O: bent}",
+    "...",
+    "!!! note",
+    "??? tip \"About {SF6}\"",
+    "    body {NH3: bent}",
+    ":::{note}",
+    ":::",
+    "```{note}",
+    "~~struck {SF4: seesaw}~~ and [[x|{H2O: bent}]]",
 ]
 
 documents = st.lists(st.sampled_from(LINES), min_size=0, max_size=40)

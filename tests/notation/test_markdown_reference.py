@@ -70,7 +70,8 @@ class KnownDifference:
 
 
 # Case name -> why notelsp differs from the reference, and what notelsp must find instead.
-# Each is a place where markdown-it-py 4.3 departs from CommonMark 0.31 (sections named);
+# Each is a place where markdown-it-py 4.3 departs from CommonMark 0.31 (sections named), or,
+# for the nesting cap and directive bodies, where notelsp reads on where the reference stops;
 # what CommonMark says was worked out from the spec's rules and checked against the
 # Python port of its reference implementation (commonmark 0.9).
 _ONLY_PROSE = (("{SF6: octahedral}", "SF6: octahedral", "inline"),)  # markdown_corpus.PROSE
@@ -122,6 +123,19 @@ KNOWN_DIFFERENCES: dict[str, KnownDifference] = {
         "'1.', a tab and a space put the item's content at column 5; the next line, indented 4, is "
         "not in the item and cannot start a block: a lazy continuation line (5.2); markdown-it makes "
         "it indented code",
+        (("{NH3: bent}", "NH3: bent", "inline"),),
+    ),
+    "nesting-beyond-markdown-it-cap": KnownDifference(
+        "markdown-it stops reading a document nested deeper than its maxNesting (20 levels in the "
+        "commonmark preset) and drops the rest; notelsp opens up to 32 block quotes and list items "
+        "and reads deeper markers as text, so nothing is lost",
+        (("{NH3: bent}", "NH3: bent", "inline"),),
+    ),
+    "directive-body-tab-after-indentation": KnownDifference(
+        "MyST parses a directive's body as a document of its own, the fence's indentation (here 1 "
+        "column) removed, so the tab left counts 4 columns from the body's start: indented code; "
+        "notelsp counts columns from the line's start, as CommonMark does in a container (2.2): "
+        "3 columns, a paragraph",
         (("{NH3: bent}", "NH3: bent", "inline"),),
     ),
     "list-item-line-is-not-a-table-header": KnownDifference(
@@ -284,3 +298,24 @@ def test_whole_blocks_agree_with_the_line_by_line_reading(seed, count):
     tried("Markdown documents read both ways (whole blocks, line by line)", compared)
     assert compared > count // 2
     assert not differing, f"{len(differing)} of {compared} differ; the smallest:\n{min(differing, key=len)!r}"
+
+
+@pytest.mark.parametrize("depth", [5, 20, 31, 32, 33, 60])
+@pytest.mark.parametrize("marker", ["> ", "- ", "1. "])
+def test_deep_nesting_agrees_with_an_uncapped_reference(marker, depth):
+    """Nested up to notelsp's cap (32 containers) and past it, annotations in prose are found
+    where markdown-it-py finds them once its own cap (maxNesting) is raised past the depth:
+    past the cap notelsp reads the markers as text, and loses nothing."""
+    tried("Markdown documents compared with markdown-it-py: deep nesting")
+    under = "> " if marker == "> " else " " * len(marker)
+    text = marker * depth + "a {NH3: bent}\n" + under * depth + "b {H2O: bent}\n\n" + under * depth + "c {SF6}\n"
+    md = reference_markdown._markdown()
+    capped = md.options["maxNesting"]
+    md.options["maxNesting"] = 4 * depth + 10
+    try:
+        theirs = reference_found(text)
+    finally:
+        md.options["maxNesting"] = capped
+    ours = notelsp_found(text)
+    assert ours == theirs, _agreement_message(text, ours, theirs)
+    assert len(ours) == 3
