@@ -162,6 +162,18 @@ def _arrangements(centre: CentreAnalysis) -> list[tuple[str, int, list[Placement
                      for site in sites[: len(centre.ligands)]])]
 
 
+def failure(structure: Structure, reason: str) -> ComputedGeometry:
+    """A result for ``structure`` that says why it has none."""
+    return geometry_from_dict({
+        "species": structure.species, "charge": structure.charge, "isomer": structure.isomer,
+        "rank": structure.rank, "method": METHOD, "versions": [list(v) for v in versions()],
+        "symbols": list(structure.symbols), "labels": list(structure.labels), "sites": list(structure.sites),
+        "unpaired": structure.unpaired, "spin": structure.spin,
+        "start": [list(p) for p in structure.positions], "positions": [list(p) for p in structure.positions],
+        "energy_ev": None, "converged": False, "steps": 0, "wall_time_s": 0.0, "failed": reason, "notes": [],
+    })
+
+
 # --- optimisation (in a worker process) -------------------------------------------
 
 

@@ -26,7 +26,7 @@ from ..chem.analysis import SpeciesAnalysis
 from ..notation import parse_formula
 from ..notation.model import Formula
 from . import cache, worker
-from .geometry import Skipped, Structure, start_structures
+from .geometry import Skipped, Structure, failure, start_structures
 from .method import METHOD, Limits, missing_packages, versions
 from .result import BadResult, ComputedGeometry, ComputedSpecies, geometry_from_dict, ordered
 
@@ -128,7 +128,7 @@ class GeometryPool:
             if self._cancelled.is_set():
                 while pending:
                     job = pending.popleft()
-                    slots[job.species][job.slot] = _failure(job.structure, "cancelled before it started")
+                    slots[job.species][job.slot] = failure(job.structure, "cancelled before it started")
                 finish_ready()
             while pending and len(running) < self.workers:
                 job = pending.popleft()
@@ -150,7 +150,7 @@ class GeometryPool:
                     if job.attempts < 2:
                         pending.appendleft(job)
                         continue
-                    answer = _failure(job.structure, "its worker process ended twice (the memory or CPU-time bound, "
+                    answer = failure(job.structure, "its worker process ended twice (the memory or CPU-time bound, "
                                                      "or a crash in the library)")
                 slots[job.species][job.slot] = answer
                 if self.use_cache:
@@ -162,7 +162,7 @@ class GeometryPool:
             if late or broken:
                 for future in late:
                     job, _ = running.pop(future)
-                    slots[job.species][job.slot] = _failure(
+                    slots[job.species][job.slot] = failure(
                         job.structure, f"ran out of time (no answer within {self.limits.wall_time_s:g} s "
                                        f"plus {STARTUP_GRACE_S:g} s to start a worker); its worker was stopped")
                 # A stuck or dead worker takes the pool with it: the others' jobs go back in line.
@@ -180,14 +180,14 @@ class GeometryPool:
         except BrokenProcessPool:
             return None
         except Exception as error:  # anything the worker let through (it should not): a failure, not a crash
-            return _failure(job.structure, f"the worker raised {type(error).__name__}: {str(error)[:300]}")
+            return failure(job.structure, f"the worker raised {type(error).__name__}: {str(error)[:300]}")
         try:
             found = geometry_from_dict(raw)
         except BadResult as error:
-            return _failure(job.structure, f"the worker's answer is unusable ({error})")
+            return failure(job.structure, f"the worker's answer is unusable ({error})")
         if (found.species, found.isomer, found.symbols, found.labels) != (
                 job.structure.species, job.structure.isomer, job.structure.symbols, job.structure.labels):
-            return _failure(job.structure, "the worker answered for another structure")
+            return failure(job.structure, "the worker answered for another structure")
         return found
 
     def _pool(self) -> ProcessPoolExecutor:
@@ -258,17 +258,6 @@ def _species(request: Request, start: tuple[SpeciesAnalysis, tuple[Structure, ..
         notes = (f"only the first {len(built)} of {listed} isomers (by the analysis's rank) were computed",)
     return ComputedSpecies(analysis.formula, analysis.charge, METHOD, versions(), ordered(structures),
                            None, notes, cached)
-
-
-def _failure(structure: Structure, reason: str) -> ComputedGeometry:
-    return geometry_from_dict({
-        "species": structure.species, "charge": structure.charge, "isomer": structure.isomer,
-        "rank": structure.rank, "method": METHOD, "versions": [list(v) for v in versions()],
-        "symbols": list(structure.symbols), "labels": list(structure.labels), "sites": list(structure.sites),
-        "unpaired": structure.unpaired, "spin": structure.spin,
-        "start": [list(p) for p in structure.positions], "positions": [list(p) for p in structure.positions],
-        "energy_ev": None, "converged": False, "steps": 0, "wall_time_s": 0.0, "failed": reason, "notes": [],
-    })
 
 
 def _limits_dict(limits: Limits) -> dict[str, float | int]:

@@ -16,6 +16,7 @@ from typing import Any
 # of that only fight over the same cores.  Set before tblite (and its OpenMP runtime) loads.
 THREAD_VARIABLES = ("OMP_NUM_THREADS", "OPENBLAS_NUM_THREADS", "MKL_NUM_THREADS", "OMP_STACKSIZE")
 CPU_SECONDS_PER_WALL_SECOND = 3  # the CPU-time backstop: generous, it only stops a runaway
+_load_error: str | None = None  # why this worker cannot compute, when it cannot
 
 
 def initialise(memory_bytes: int) -> None:
@@ -29,11 +30,13 @@ def initialise(memory_bytes: int) -> None:
     except (ValueError, OSError):  # a platform without the limit: the wall-time bound still holds
         pass
     signal.signal(signal.SIGALRM, _out_of_time)
+    global _load_error
     try:  # load the libraries now, so a job's wall-time bound is spent on the job
         import ase.optimize  # noqa: F401
         import tblite.ase  # noqa: F401
-    except ImportError:  # each job then fails with the reason
-        pass
+    except (ImportError, MemoryError, OSError) as error:  # each job then fails with the reason
+        _load_error = (f"the worker could not load tblite and ASE within its memory bound "
+                       f"({memory_bytes >> 20} MB of address space): {type(error).__name__}: {str(error)[:200]}")
 
 
 def _out_of_time(signum: int, frame: Any) -> None:
@@ -50,6 +53,10 @@ def run(job: dict[str, Any]) -> dict[str, Any]:
 
     structure = Structure.from_dict(job["structure"])
     limits = Limits(**job["limits"])
+    if _load_error is not None:
+        from .geometry import failure
+
+        return geometry_to_dict(failure(structure, _load_error))
     _cap_cpu_time(limits.wall_time_s)
     # The optimiser checks the clock every step; the alarm (a little later) stops a single step that hangs.
     signal.setitimer(signal.ITIMER_REAL, limits.wall_time_s + 2.0)

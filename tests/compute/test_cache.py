@@ -14,7 +14,7 @@ from notelsp.compute import cache
 from notelsp.compute.geometry import start_structures
 from notelsp.compute.result import geometry_to_dict
 from notelsp.notation import parse_formula
-from notelsp.compute.pool import _failure
+from notelsp.compute.geometry import failure
 
 
 def structure(text: str = "NH3"):
@@ -24,7 +24,7 @@ def structure(text: str = "NH3"):
 def fake_result(text: str = "NH3"):
     """A plausible result without computing: the starting structure itself, marked converged."""
     start = structure(text)
-    failed = _failure(start, "x")
+    failed = failure(start, "x")
     raw = geometry_to_dict(failed)
     raw.update(failed=None, converged=True, energy_ev=-100.0, steps=3, wall_time_s=0.1)
     from notelsp.compute.result import geometry_from_dict
@@ -43,9 +43,9 @@ def test_a_stored_result_comes_back_equal():
     assert [p.suffix for p in cache.cache_root().iterdir()] == [".json"]
 
 
-def test_failures_are_not_stored():
+def testfailures_are_not_stored():
     start = structure()
-    cache.store(_failure(start, "ran out of time"))
+    cache.store(failure(start, "ran out of time"))
     assert cache.load(start) is None
 
 
