@@ -107,9 +107,12 @@ def load_cached_parser(path: Path, fingerprint: str) -> Lark | None:
 
 
 def _trusted(status: os.stat_result) -> bool:
-    """A regular file owned by this user that no one else may write."""
-    owner_is_us = not hasattr(os, "getuid") or status.st_uid == os.getuid()
-    return stat.S_ISREG(status.st_mode) and owner_is_us and not status.st_mode & (stat.S_IWGRP | stat.S_IWOTH)
+    """A regular file owned by this user that no one else may write (where the system has owners and modes)."""
+    if not stat.S_ISREG(status.st_mode):
+        return False
+    if not hasattr(os, "getuid"):  # Windows: no POSIX owner or group bits; the user's profile folder guards it
+        return True
+    return status.st_uid == os.getuid() and not status.st_mode & (stat.S_IWGRP | stat.S_IWOTH)
 
 
 def save_cached_parser(built: Lark, path: Path, fingerprint: str) -> None:
