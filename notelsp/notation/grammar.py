@@ -117,7 +117,7 @@ def _trusted(status: os.stat_result) -> bool:
 
 def save_cached_parser(built: Lark, path: Path, fingerprint: str) -> None:
     """Write the cache file whole or not at all (a temporary file renamed); never raises."""
-    import tempfile  # only when writing: it imports shutil and the compression modules
+    import tempfile  # only needed when writing
 
     temporary = None
     try:
