@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import asyncio
 import json
+import os
 import sys
 from collections.abc import Callable
 from dataclasses import dataclass
@@ -27,9 +28,11 @@ from ..notation.model import Formula
 Status = Literal["done", "unsupported", "missing-extra", "timeout", "failed"]
 WORKER = ("-m", "notelsp.crosscheck.worker")
 # Address space each worker may take (set in the worker with RLIMIT_AS): a calculation that would need
-# more fails there with MemoryError instead of pressing on the editor's machine.  PySCF at the levels
-# offered needs well under 1 GiB for the species allowed (max_atoms); BLAS reserves some more per thread.
-WORKER_MEMORY_BYTES = 4 * 1024**3
+# more fails there (MemoryError, or PySCF's own allocation error) instead of pressing on the editor's
+# machine.  Address space, not resident memory: measured here, PySCF reserves 3.6 GiB of it for water
+# at HF/STO-3G with one thread and 6.9 GiB with two while touching ~140 MB, so the cap is generous and
+# grows with the threads the libraries may start (one per CPU).
+WORKER_MEMORY_BYTES = (8 + 4 * (os.cpu_count() or 1)) * 1024**3
 # A worker killed from outside (the out-of-memory killer, a signal) is started again once for the same
 # isomer; a second kill fails the cross-check.  Every isomer has a fresh worker, so none is reused.
 WORKER_RETRIES = 1
