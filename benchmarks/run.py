@@ -18,6 +18,7 @@ import analysis  # noqa: E402
 import cli_start  # noqa: E402
 import compute  # noqa: E402
 import server  # noqa: E402
+import soak  # noqa: E402
 
 
 def python_loop_ms() -> float:
@@ -40,6 +41,8 @@ def main() -> None:
     for name, value in cli_start.measure().items():  # processes too, before the in-process figures
         print(f"{name}: {value}", flush=True)
     for name, value in compute.measure().items():  # GFN2-xTB worker processes, one per core
+        print(f"{name}: {value}", flush=True)
+    for name, value in soak.measure().items():  # a long server session (a few minutes): memory only, no time
         print(f"{name}: {value}", flush=True)
     analysis.main()
 
