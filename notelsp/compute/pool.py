@@ -62,6 +62,7 @@ class GeometryPool:
         self._executor: ProcessPoolExecutor | None = None
         self._cancelled = threading.Event()
         self._lock = threading.Lock()
+        self._computing = threading.Lock()  # one compute() at a time; cancel() may come from any thread
 
     def __enter__(self) -> GeometryPool:
         return self
@@ -86,7 +87,15 @@ class GeometryPool:
 
     def compute(self, requests: Sequence[Request | str | Formula | SpeciesAnalysis],
                 on_species: Callable[[ComputedSpecies], None] | None = None) -> list[ComputedSpecies]:
-        """Every request's computed species, in the order asked; ``on_species`` hears each as it completes."""
+        """Every request's computed species, in the order asked; ``on_species`` hears each as it completes.
+
+        One call at a time per pool (a second waits for the first).
+        """
+        with self._computing:
+            return self._compute(requests, on_species)
+
+    def _compute(self, requests: Sequence[Request | str | Formula | SpeciesAnalysis],
+                 on_species: Callable[[ComputedSpecies], None] | None) -> list[ComputedSpecies]:
         self._cancelled.clear()
         asked = [r if isinstance(r, Request) else Request(r) for r in requests]
         missing = missing_packages()
