@@ -85,3 +85,16 @@ def test_a_second_computation_comes_from_the_cache(private_cache):
     assert first.cached == 0 and second.cached == 1
     assert second.lowest == first.lowest
     assert any(private_cache.iterdir())
+
+
+def test_a_worker_that_does_not_answer_in_time_is_stopped_and_the_pool_goes_on(monkeypatch):
+    import notelsp.compute.pool as pool_module
+
+    # No grace to start a worker: the parent's deadline passes while the worker is still loading tblite.
+    monkeypatch.setattr(pool_module, "STARTUP_GRACE_S", -2.0)
+    with GeometryPool(Limits(wall_time_s=0.5), use_cache=False, workers=1) as pool:
+        (late,) = pool.compute(["NH3"])
+        assert "its worker was stopped" in late.failed
+        monkeypatch.setattr(pool_module, "STARTUP_GRACE_S", 30.0)
+        (later,) = pool.compute(["H2O"])
+    assert later.failed is None
