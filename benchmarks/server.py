@@ -8,6 +8,9 @@ edit_ms: one-line edit in the middle of the note -> the publishDiagnostics for
 that version, any pause for a burst of edits included.
 hover_ratio_p50: median hover round trip on notelsp ÷ the same on a bare
 pygls server answering a constant (bare_server.py, same transport).
+first_publication_s / whole_publication_s: didOpen -> the first publication (partial, with
+review-continues, when the review ran past the server's 200 ms budget) and -> the whole one;
+first_diagnostics_right compares the whole one.
 rss_mb: server resident memory once the note has been analysed
 (rss_mb_after_edits: the same after the edits).
 """
@@ -43,10 +46,15 @@ def _open(client: StdioClient, uri: str, text: str) -> None:
     )
 
 
-def _diagnostics_for(client: StdioClient, uri: str, version: int, timeout: float = 120.0):
+def _is_whole(params) -> bool:
+    """A publication of the whole review (not the part sent first when a review runs past its budget)."""
+    return not any(d.get("code") == "review-continues" for d in params["diagnostics"])
+
+
+def _diagnostics_for(client: StdioClient, uri: str, version: int, timeout: float = 120.0, whole: bool = True):
     return client.wait_notification(
         "textDocument/publishDiagnostics",
-        lambda params: params["uri"] == uri and params.get("version") == version,
+        lambda params: params["uri"] == uri and params.get("version") == version and (_is_whole(params) or not whole),
         timeout,
     )
 
@@ -127,7 +135,12 @@ def measure() -> dict[str, str]:
         try:
             client.initialize(root.as_uri())
             _open(client, uri, text)
-            first = _diagnostics_for(client, uri, 1)
+            opened = time.perf_counter()
+            first_part = _diagnostics_for(client, uri, 1, whole=False)
+            figures["first_publication_s"] = f"{first_part.at - opened:.2f}"
+            figures["first_publication_partial"] = "no" if _is_whole(first_part.message["params"]) else "yes"
+            first = first_part if _is_whole(first_part.message["params"]) else _diagnostics_for(client, uri, 1)
+            figures["whole_publication_s"] = f"{first.at - opened:.2f}"
             published = len(first.message["params"]["diagnostics"])
             figures["first_diagnostics_right"] = "yes" if published == expected else f"no ({published} != {expected})"
             figures["rss_mb"] = f"{client.rss_mb():.0f}"
