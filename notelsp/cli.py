@@ -204,58 +204,61 @@ def _read_stdin() -> str:
         raise UsageError(f"not UTF-8 text (byte {error.start})") from None
 
 
+POOL_MIN_NOTES = 200  # below this, starting worker processes costs more CPU than it saves in waiting
+NOTES_PER_TASK = 16  # small enough to spread the work evenly, large enough that sending it is cheap
+WORKERS_VARIABLE = "NOTELSP_WORKERS"  # 1: one process; N >= 2: N workers whatever the number of notes
+# A batch run makes many objects that live until its end (parses and analyses, cached by text):
+# collecting the youngest generation every 700 allocations walked them again and again.
+BATCH_GC_THRESHOLD = (50_000, 20, 20)
+
+
 def _check(paths: Sequence[str], options: CheckOptions, out: TextIO) -> int:
-    from .formats import CheckedRun, ReviewedFile, Unreadable, terminal_safe
-    from .review.document import kind_of_path, review_text
+    import gc
+
+    from .formats import Unreadable, terminal_safe
 
     found = _note_files(paths, options.config)  # every settings file is read first: a bad one stops the run
     settings = found.settings  # standard input's and the cross-check's
-    reviewed: list[ReviewedFile] = []
+    writer = _report_writer(options, out)
     on_disk: list[str] = []  # what the cross-check can read again (not standard input)
     unreadable: list[Unreadable] = []
     notebooks_left_out = False
+    reviewed = 0
 
-    def cannot_read(name: str, problem: UsageError) -> None:
+    def cannot_read(name: str, problem: str) -> None:
         # the reading functions say "cannot read PATH: reason"; the report keeps path and reason apart
-        reason = str(problem).removeprefix(f"cannot read {name}: ")
+        reason = problem.removeprefix(f"cannot read {name}: ")
         print(f"notelsp: cannot read {terminal_safe(name)}: {terminal_safe(reason)}", file=sys.stderr)
         unreadable.append(Unreadable(name, reason))
 
+    items: list[Any] = []  # in the order reports list them: None for standard input, else a note
     for name in paths:
-        if name == STDIN:
-            stdin_name = options.stdin_name or STDIN_NAME
-            try:
-                text = _read_stdin()
-            except UsageError as problem:
-                cannot_read(stdin_name, problem)
-                continue
-            if stdin_name.lower().endswith(".ipynb"):  # --stdin-name says it is a notebook
-                try:
-                    reviewed.extend(_notebook_reviews(stdin_name, text, settings))
-                except UsageError as problem:
-                    cannot_read(stdin_name, problem)
-                continue
-            reviewed.append(ReviewedFile(stdin_name, review_text(text, kind_of_path(stdin_name), settings)))
-            continue
-        for note in found.named[name]:
-            try:
-                text = _read_note(note)
-            except UsageError as problem:
-                cannot_read(str(note.path), problem)
-                continue
-            if note.kind == "notebook":  # one review per Markdown cell, each report naming its cell
-                try:
-                    reviewed.extend(_notebook_reviews(str(note.path), text, note.settings))
-                except UsageError as problem:
-                    cannot_read(str(note.path), problem)
-                notebooks_left_out = True  # the cross-check reads notes as text, not a notebook's cells
-                continue
-            reviewed.append(ReviewedFile(str(note.path), review_text(text, note.kind, note.settings)))
-            on_disk.append(str(note.path))
-    run = CheckedRun(reviewed, unreadable, options.cautions)  # type: ignore[arg-type]
-    _write_report(run, options, out)
+        items.extend([None] if name == STDIN else found.named[name])
+    notes = sum(item is not None for item in items)
+    workers = 1 if options.output == "html" else _workers_for(notes)  # the page needs whole reviews
+    thresholds = gc.get_threshold()
+    gc.freeze()  # what the imports made is kept to the end: no collection need walk it
+    gc.set_threshold(*BATCH_GC_THRESHOLD)
+    try:
+        for item, outcome in _reviewed_items(items, workers, writer, options, settings):
+            files, problem, notebook, messages = outcome
+            if messages:
+                sys.stderr.write(messages)  # what reading the note said, in a worker, in its place
+            name = (options.stdin_name or STDIN_NAME) if item is None else str(item.path)
+            if problem is not None:
+                cannot_read(name, problem)
+            elif item is not None and not notebook:
+                on_disk.append(name)
+            notebooks_left_out = notebooks_left_out or (notebook and item is not None)
+            for reported in files:
+                writer.add(reported)
+                reviewed += 1
+        writer.finish(unreadable)
+    finally:
+        gc.set_threshold(*thresholds)
+        gc.unfreeze()
     threshold = FAIL_LEVELS.index(options.fail_level)
-    failing = any(FAIL_LEVELS.index(f.severity.value) <= threshold for r in reviewed for f in r.review.findings)
+    failing = any(writer.tally.findings[level] for level in FAIL_LEVELS[: threshold + 1])
     cannot_run = bool(unreadable)
     unfinished = False  # a cross-check calculation failed or ran out of time
     if options.cross_check:
@@ -289,23 +292,191 @@ def _check(paths: Sequence[str], options: CheckOptions, out: TextIO) -> int:
     return EXIT_CLEAN
 
 
-def _write_report(run: Any, options: CheckOptions, out: TextIO) -> None:
+def _report_writer(options: CheckOptions, out: TextIO) -> Any:
+    """The report, written as files are reviewed (see ``ReportWriter`` in notelsp/formats)."""
     if options.output == "html":
+        return _PageWriter(out)
+    if options.output == "json":
+        from .formats.json_report import JsonWriter
+
+        return JsonWriter(out, options.cautions, options.indent)  # type: ignore[arg-type]
+    if options.output == "sarif":
+        from .formats.sarif import SarifWriter
+
+        return SarifWriter(out, options.source_root, options.indent)
+    from .formats.text import TextWriter
+
+    return TextWriter(out, options.cautions)  # type: ignore[arg-type]
+
+
+class _PageWriter:
+    """The reviewer's page shows each annotation beside its findings: it keeps the whole reviews."""
+
+    wants_cautions = wants_annotation_texts = False
+
+    def __init__(self, out: TextIO):
+        from .formats import RunTally
+
+        self.out, self.tally, self.files = out, RunTally(), []
+
+    def add(self, reviewed: Any) -> None:
+        self.tally.add(reviewed.reported(cautions=False, annotation_texts=False))
+        self.files.append(reviewed)
+
+    def finish(self, unreadable: list) -> None:
         from .formats.html_report import write_html
 
-        write_html(run.files, out)
-    elif options.output == "json":
-        from .formats.json_report import write_json
+        write_html(self.files, self.out)
 
-        write_json(run, out, options.indent)
-    elif options.output == "sarif":
-        from .formats.sarif import write_sarif
 
-        write_sarif(run, out, options.source_root, options.indent)
+# One note's outcome: (what the report gets of each file, why it could not be read or None,
+# whether it was a notebook, what reading it wrote on standard error). Picklable: workers send it back.
+_Outcome = tuple[list, "str | None", bool, str]
+
+
+def _workers_for(notes: int) -> int:
+    """How many processes review: one for a few notes, one per core for many (or NOTELSP_WORKERS)."""
+    asked = os.environ.get(WORKERS_VARIABLE, "").strip()
+    if asked:
+        if not asked.isdigit() or int(asked) < 1:
+            raise UsageError(f"{WORKERS_VARIABLE} must be a whole number of processes, 1 or more (got {asked!r})")
+        return min(int(asked), max(notes, 1))
+    cores = len(os.sched_getaffinity(0)) if hasattr(os, "sched_getaffinity") else (os.cpu_count() or 1)
+    return min(cores, 8) if notes >= POOL_MIN_NOTES else 1
+
+
+def _review_note(note: Any, reported: Any) -> _Outcome:
+    from .formats import ReviewedFile
+    from .review.document import review_text
+
+    try:
+        text = _read_note(note)
+    except UsageError as problem:
+        return [], str(problem), False, ""
+    if note.kind == "notebook":  # one review per Markdown cell, each report naming its cell
+        try:
+            return [reported(cell) for cell in _notebook_reviews(str(note.path), text, note.settings)], None, True, ""
+        except UsageError as problem:
+            return [], str(problem), True, ""
+    return [reported(ReviewedFile(str(note.path), review_text(text, note.kind, note.settings)))], None, False, ""
+
+
+def _review_stdin(options: CheckOptions, settings: Any, reported: Any) -> _Outcome:
+    from .formats import ReviewedFile
+    from .review.document import kind_of_path, review_text
+
+    stdin_name = options.stdin_name or STDIN_NAME
+    try:
+        text = _read_stdin()
+    except UsageError as problem:
+        return [], str(problem), False, ""
+    if stdin_name.lower().endswith(".ipynb"):  # --stdin-name says it is a notebook
+        try:
+            return [reported(cell) for cell in _notebook_reviews(stdin_name, text, settings)], None, True, ""
+        except UsageError as problem:
+            return [], str(problem), True, ""
+    return [reported(ReviewedFile(stdin_name, review_text(text, kind_of_path(stdin_name), settings)))], None, False, ""
+
+
+def _review_notes_in_worker(notes: list, wants_cautions: bool, wants_annotation_texts: bool) -> list[_Outcome]:
+    """A worker's task: review these notes, return what the report needs of each (no review objects)."""
+    import contextlib
+    import io
+
+    def reported(reviewed: Any) -> Any:
+        return reviewed.reported(wants_cautions, wants_annotation_texts)
+
+    outcomes = []
+    for note in notes:
+        said = io.StringIO()
+        with contextlib.redirect_stderr(said):  # e.g. "only its beginning was read": printed by the parent
+            files, problem, notebook, _ = _review_note(note, reported)
+        outcomes.append((files, problem, notebook, said.getvalue()))
+    return outcomes
+
+
+def _worker_started() -> None:
+    import gc
+    import signal
+
+    signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl-C is the parent's to handle: it ends the workers
+    gc.freeze()
+    gc.set_threshold(*BATCH_GC_THRESHOLD)
+
+
+def _reviewed_items(items: list, workers: int, writer: Any, options: CheckOptions, settings: Any):
+    """Each item with its outcome, in order; notes reviewed by ``workers`` processes when more than one."""
+    if options.output == "html":
+        def reported(reviewed: Any) -> Any:
+            return reviewed
     else:
-        from .formats.text import write_text
+        def reported(reviewed: Any) -> Any:
+            return reviewed.reported(writer.wants_cautions, writer.wants_annotation_texts)
 
-        write_text(run, out)
+    if workers <= 1:
+        for item in items:
+            yield item, (_review_stdin(options, settings, reported) if item is None else _review_note(item, reported))
+        return
+    yield from _pooled(items, workers, writer, options, settings, reported)
+
+
+def _pooled(items: list, workers: int, writer: Any, options: CheckOptions, settings: Any, reported: Any):
+    """Notes in tasks of a few to a pool of processes; standard input in this one; outcomes in order."""
+    import multiprocessing
+    from collections import deque
+    from concurrent.futures import ProcessPoolExecutor
+
+    methods = multiprocessing.get_all_start_methods()
+    # a fork server imports notelsp once and forks each worker from it; spawn imports it in each worker
+    context = multiprocessing.get_context("forkserver" if "forkserver" in methods else "spawn")
+    if context.get_start_method() == "forkserver":
+        context.set_forkserver_preload(["notelsp.cli", "notelsp.formats", "notelsp.review.document"])
+    pool = ProcessPoolExecutor(workers, mp_context=context, initializer=_worker_started)
+    tasks: list[tuple[Any, list]] = []  # (None, []) for standard input, (None, notes) for a task of notes
+    for item in items:
+        if item is None:
+            tasks.append((None, []))
+        elif tasks and tasks[-1][1] and len(tasks[-1][1]) < NOTES_PER_TASK:
+            tasks[-1][1].append(item)
+        else:
+            tasks.append((None, [item]))
+    wanted = (writer.wants_cautions, writer.wants_annotation_texts)
+    pending: deque = deque()
+    window = 4 * workers  # tasks sent ahead: workers never wait, and results waiting to be written stay few
+    finished = False
+    try:
+        for _, notes in tasks:
+            pending.append((notes, pool.submit(_review_notes_in_worker, notes, *wanted) if notes else None))
+            while len(pending) > window:
+                yield from _task_outcomes(*pending.popleft(), options, settings, reported)
+        while pending:
+            yield from _task_outcomes(*pending.popleft(), options, settings, reported)
+        finished = True
+    finally:
+        if not finished:  # Ctrl-C, a closed pipe, an error: the workers' tasks are no longer wanted
+            for process in list(getattr(pool, "_processes", {}).values()):
+                process.terminate()
+        pool.shutdown(wait=True, cancel_futures=True)
+        _stop_fork_server(context)
+
+
+def _task_outcomes(notes: list, future: Any, options: CheckOptions, settings: Any, reported: Any):
+    if future is None:
+        yield None, _review_stdin(options, settings, reported)
+        return
+    yield from zip(notes, future.result())
+
+
+def _stop_fork_server(context: Any) -> None:
+    """Ends the fork server now and waits for it, so its CPU time and its workers' count as this process's
+    children's (resource.getrusage), rather than it ending on its own after this process."""
+    if context.get_start_method() != "forkserver":
+        return
+    from multiprocessing import forkserver
+
+    stop = getattr(getattr(forkserver, "_forkserver", None), "_stop", None)
+    if stop is not None:
+        stop()
 
 
 @dataclass(frozen=True)

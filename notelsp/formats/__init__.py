@@ -10,7 +10,7 @@ import re
 from bisect import bisect_right
 from dataclasses import dataclass, field
 from functools import cached_property
-from typing import Literal
+from typing import Literal, NamedTuple, Protocol
 
 from ..notation.model import Span
 from ..review.document import DocumentReview
@@ -23,6 +23,45 @@ README_URL = f"{PROJECT_URL}/blob/main/README.md"
 
 CautionMode = Literal["summary", "per-file", "none"]
 SEVERITY_ORDER = (Severity.ERROR, Severity.WARNING, Severity.INFORMATION, Severity.HINT)
+
+Region = tuple[int, int, int, int]  # 1-based (line, column, end_line, end_column) in code points; end exclusive
+
+
+class ReportedFix(NamedTuple):
+    title: str
+    replacement: str
+    region: Region
+
+
+class ReportedFinding(NamedTuple):
+    """One finding as every report shows it: positions already counted, no reference to the note's text."""
+
+    region: Region
+    severity: str  # Severity's value
+    code: str
+    message: str
+    formula: str | None
+    claim: str | None
+    fixes: tuple[ReportedFix, ...]
+    annotation: str  # the text of the annotation it is about (SARIF fingerprints; "" when not asked for)
+
+
+class ReportedFile(NamedTuple):
+    """What the reports need of one reviewed file (or notebook cell), small and picklable.
+
+    A report is written from these as each file is done, so a run keeps no whole review
+    (text, parses, line index) after its file is written, and worker processes send these back.
+    """
+
+    path: str
+    cell: int | None
+    annotations: int
+    findings: tuple[ReportedFinding, ...]
+    cautions: tuple[tuple[str, str], ...]  # (formula, caution), once each, in document order; () when not asked
+
+    @property
+    def shown_path(self) -> str:
+        return self.path if self.cell is None else f"{self.path}#cell={self.cell}"
 
 
 @dataclass(frozen=True)
@@ -72,6 +111,25 @@ class ReviewedFile:
     def annotation_count(self) -> int:
         return len(self.review.scanned.found)
 
+    def reported(self, cautions: bool = True, annotation_texts: bool = True) -> ReportedFile:
+        """This file as the reports need it; cautions and annotation texts only when the report shows them."""
+        text_of = self.annotation_text if annotation_texts else None
+        findings = tuple(
+            ReportedFinding(
+                self.location(finding.span),
+                finding.severity.value,
+                finding.code,
+                finding.message,
+                finding.formula,
+                finding.claim,
+                tuple(ReportedFix(fix.title, fix.replacement, self.location(fix.span)) for fix in finding.fixes),
+                text_of(finding.span) if text_of else "",
+            )
+            for finding in self.review.findings
+        )
+        return ReportedFile(self.path, self.cell, self.annotation_count(), findings,
+                            self._cautions if cautions else ())
+
     def annotation_text(self, span: Span) -> str:
         """The text of the annotation holding ``span`` ("" for a finding about the note as a whole)."""
         scanned = self.review.scanned
@@ -89,36 +147,85 @@ class Unreadable:
     reason: str  # e.g. "not UTF-8 text (byte 0)", "Permission denied"
 
 
+class RunTally:
+    """What the end of a report needs, counted as files are written: totals and the caution summary.
+
+    Its size grows with the hazardous species and notebooks met, not with the number of files.
+    """
+
+    def __init__(self) -> None:
+        self.findings = {severity.value: 0 for severity in SEVERITY_ORDER}
+        self.annotations = 0
+        self.notes = 0  # files that are not notebook cells
+        self.notebooks: set[str] = set()  # a notebook's cells are one file
+        self._caution_counts: dict[tuple[str, str], int] = {}
+        self._counted_in_notebooks: set[tuple[str, str, str]] = set()
+
+    def add(self, reported: ReportedFile) -> None:
+        self.annotations += reported.annotations
+        for finding in reported.findings:
+            self.findings[finding.severity] += 1
+        if reported.cell is None:
+            self.notes += 1
+        else:
+            self.notebooks.add(reported.path)
+        for pair in reported.cautions:
+            if reported.cell is not None:  # a notebook's cells count as one file
+                if (*pair, reported.path) in self._counted_in_notebooks:
+                    continue
+                self._counted_in_notebooks.add((*pair, reported.path))
+            self._caution_counts[pair] = self._caution_counts.get(pair, 0) + 1
+
+    @property
+    def files(self) -> int:
+        return self.notes + len(self.notebooks)
+
+    def totals(self, unreadable: int) -> dict:
+        return {"files": self.files, "annotations": self.annotations, "findings": dict(self.findings),
+                "unreadable": unreadable}
+
+    def caution_summary(self) -> list[tuple[str, str, int]]:
+        """(formula, caution, number of files) over the run, in order of first appearance."""
+        return [(formula, caution, n) for (formula, caution), n in self._caution_counts.items()]
+
+
+class ReportWriter(Protocol):
+    """A report written as the run goes: each file when it is done, the run's summary at the end."""
+
+    tally: RunTally
+    wants_cautions: bool  # whether files must carry their cautions
+    wants_annotation_texts: bool  # whether findings must carry their annotation's text
+
+    def add(self, reported: ReportedFile) -> None: ...
+
+    def finish(self, unreadable: list[Unreadable]) -> None: ...
+
+
 @dataclass(frozen=True)
 class CheckedRun:
-    """Everything one ``check`` run reports."""
+    """Everything one ``check`` run reports, held whole (for callers that have their reviews at hand)."""
 
     files: list[ReviewedFile]
     unreadable: list[Unreadable] = field(default_factory=list)
     cautions: CautionMode = "summary"
 
-    def totals(self) -> dict:
-        findings = {severity.value: 0 for severity in SEVERITY_ORDER}
-        annotations = 0
+    def _tally(self) -> RunTally:
+        tally = RunTally()
         for reviewed in self.files:
-            annotations += reviewed.annotation_count()
-            for finding in reviewed.review.findings:
-                findings[finding.severity.value] += 1
-        notebooks = {reviewed.path for reviewed in self.files if reviewed.cell is not None}  # one file, many cells
-        files = sum(reviewed.cell is None for reviewed in self.files) + len(notebooks)
-        return {"files": files, "annotations": annotations, "findings": findings,
-                "unreadable": len(self.unreadable)}
+            tally.add(reviewed.reported(annotation_texts=False))
+        return tally
+
+    def totals(self) -> dict:
+        return self._tally().totals(len(self.unreadable))
 
     def caution_summary(self) -> list[tuple[str, str, int]]:
         """(formula, caution, number of files) over the run, in order of first appearance."""
-        counts: dict[tuple[str, str], int] = {}
-        counted: set[tuple[str, str, str]] = set()  # a notebook's cells count as one file
+        return self._tally().caution_summary()
+
+    def write(self, writer: ReportWriter) -> None:
         for reviewed in self.files:
-            for pair in reviewed.cautions():
-                if reviewed.cell is None or (*pair, reviewed.path) not in counted:
-                    counted.add((*pair, reviewed.path))
-                    counts[pair] = counts.get(pair, 0) + 1
-        return [(formula, caution, n) for (formula, caution), n in counts.items()]
+            writer.add(reviewed.reported(writer.wants_cautions, writer.wants_annotation_texts))
+        writer.finish(self.unreadable)
 
 
 # --- names and text that are safe to print ----------------------------------------------------

@@ -13,16 +13,17 @@ from __future__ import annotations
 import hashlib
 import os
 import re
+import shutil
+import tempfile
 from pathlib import Path
 from typing import Any, TextIO
 from urllib.parse import quote
 
 from .. import __version__
-from ..notation.model import Span
 from ..review.document import kind_of_path
 from ..review.findings import Severity
 from ..review.rules import RULES, Rule
-from . import PROJECT_URL, README_URL, CheckedRun, ReviewedFile, json_text
+from . import PROJECT_URL, README_URL, CheckedRun, Region, ReportedFile, RunTally, Unreadable, json_text
 
 SCHEMA_URI = "https://json.schemastore.org/sarif-2.1.0.json"
 SOURCE_ROOT = "%SRCROOT%"
@@ -34,6 +35,8 @@ _LEVELS = {
     Severity.INFORMATION: "note",
     Severity.HINT: "note",
 }
+
+_LEVELS_BY_VALUE = {severity.value: level for severity, level in _LEVELS.items()}
 
 # How each kind of note was read, as SARIF's sourceLanguage (lower-case names, as the standard suggests)
 _LANGUAGES = {"markdown": "markdown", "text": "plaintext"}
@@ -90,8 +93,8 @@ class _Locations:
         return {"uri": quote(os.fsencode(posix), safe="/"), "uriBaseId": SOURCE_ROOT}
 
 
-def _region(reviewed: ReviewedFile, span: Span) -> dict[str, int]:
-    line, column, end_line, end_column = reviewed.location(span)
+def _region(region: Region) -> dict[str, int]:
+    line, column, end_line, end_column = region
     return {"startLine": line, "startColumn": column, "endLine": end_line, "endColumn": end_column}
 
 
@@ -101,39 +104,39 @@ def _fingerprint(parts: tuple[str, ...], occurrence: int) -> str:
     return f"{digest}:{occurrence}"
 
 
-def _cell_location(reviewed: ReviewedFile) -> dict[str, Any]:
+def _cell_location(reported: ReportedFile) -> dict[str, Any]:
     """What names a notebook's cell beside the physical location, whose region counts within the cell."""
     return {
-        "logicalLocations": [{"name": f"cell {reviewed.cell}", "kind": "element"}],
-        "properties": {"cell": reviewed.cell},
+        "logicalLocations": [{"name": f"cell {reported.cell}", "kind": "element"}],
+        "properties": {"cell": reported.cell},
     }
 
 
 def _results(
-    reviewed: ReviewedFile,
+    reported: ReportedFile,
     location: dict[str, Any],
     rule_index: dict[str, int],
     occurrences: dict[tuple[str, ...], int],  # per artifact: a notebook's cells count on from each other
 ) -> list[dict[str, Any]]:
     results: list[dict[str, Any]] = []
-    for finding in reviewed.review.findings:
-        key = (finding.code, location["uri"], reviewed.annotation_text(finding.span), finding.claim or "")
+    for finding in reported.findings:
+        key = (finding.code, location["uri"], finding.annotation, finding.claim or "")
         occurrence = occurrences[key] = occurrences.get(key, 0) + 1
         result: dict[str, Any] = {
             "ruleId": finding.code,
             "ruleIndex": rule_index[finding.code],
-            "level": _LEVELS[finding.severity],
+            "level": _LEVELS_BY_VALUE[finding.severity],
             "message": {"text": finding.message},
             "locations": [
-                {"physicalLocation": {"artifactLocation": location, "region": _region(reviewed, finding.span)}}
+                {"physicalLocation": {"artifactLocation": location, "region": _region(finding.region)}}
             ],
             "partialFingerprints": {FINGERPRINT: _fingerprint(key, occurrence)},
         }
-        if reviewed.cell is not None:
-            result["locations"][0].update(_cell_location(reviewed))
+        if reported.cell is not None:
+            result["locations"][0].update(_cell_location(reported))
         # A replacement addresses the artifact's own text; in a notebook that is the JSON, not the cell,
         # so fixes in cells are left out rather than offered where applying them would break the file.
-        if finding.fixes and reviewed.cell is None:
+        if finding.fixes and reported.cell is None:
             result["fixes"] = [
                 {
                     "description": {"text": fix.title},
@@ -142,7 +145,7 @@ def _results(
                             "artifactLocation": location,
                             "replacements": [
                                 {
-                                    "deletedRegion": _region(reviewed, fix.span),
+                                    "deletedRegion": _region(fix.region),
                                     "insertedContent": {"text": fix.replacement},
                                 }
                             ],
@@ -155,34 +158,85 @@ def _results(
     return results
 
 
-def sarif_dict(run: CheckedRun, source_root: str = ".") -> dict[str, Any]:
-    locations = _Locations(source_root)
-    rule_index = {code: index for index, code in enumerate(RULES)}
-    artifacts: list[dict[str, Any]] = []
-    results: list[dict[str, Any]] = []
-    previous: ReviewedFile | None = None
-    for reviewed in run.files:
-        if not (reviewed.cell is not None and previous is not None and previous.path == reviewed.path):
-            location = {**locations.of(reviewed.path), "index": len(artifacts)}  # a notebook's cells share one
+_RESULTS_PLACE = "notelsp: the results go here"  # a string value no other part of the log can end with
+_RESULTS_DEPTH = 4  # the log, "runs", the run, "results": each result sits this many levels in
+
+
+class SarifWriter:
+    """Collects artifacts (one small dict per file) and results as JSON text, spooled to a temporary
+    file past a few megabytes; writes the log when finished, the same bytes as dumping it whole."""
+
+    wants_cautions = False  # SARIF carries no cautions
+    wants_annotation_texts = True  # fingerprints hash the annotation's text
+
+    def __init__(self, out: TextIO, source_root: str = ".", indent: int | None = None):
+        self.out = out
+        self.indent = indent
+        self.tally = RunTally()
+        self.locations = _Locations(source_root)
+        self.rule_index = {code: index for index, code in enumerate(RULES)}
+        self.artifacts: list[dict[str, Any]] = []
+        self._results = tempfile.SpooledTemporaryFile(max_size=8 << 20, mode="w+", encoding="utf-8",
+                                                      newline="")
+        self._result_count = 0
+        self._result_start = "" if indent is None else "\n" + " " * (_RESULTS_DEPTH * indent)
+        self._previous: ReportedFile | None = None
+        self._location: dict[str, Any] = {}
+        self._occurrences: dict[tuple[str, ...], int] = {}
+
+    def add(self, reported: ReportedFile) -> None:
+        self.tally.add(reported)
+        previous = self._previous
+        if not (reported.cell is not None and previous is not None and previous.path == reported.path):
+            location = {**self.locations.of(reported.path), "index": len(self.artifacts)}  # a notebook's cells share one
             artifact: dict[str, Any] = {"location": {key: value for key, value in location.items() if key != "index"}}
-            notebook = reviewed.cell is not None or reviewed.path.lower().endswith(".ipynb")  # JSON, not a note
-            language = None if notebook else _LANGUAGES.get(kind_of_path(reviewed.path))
+            notebook = reported.cell is not None or reported.path.lower().endswith(".ipynb")  # JSON, not a note
+            language = None if notebook else _LANGUAGES.get(kind_of_path(reported.path))
             if language:
                 artifact["sourceLanguage"] = language
-            artifacts.append(artifact)
-            occurrences: dict[tuple[str, ...], int] = {}
-        results.extend(_results(reviewed, location, rule_index, occurrences))
-        previous = reviewed
+            self.artifacts.append(artifact)
+            self._location, self._occurrences = location, {}
+        self._previous = reported._replace(findings=())  # only its path and cell are looked at again
+        for result in _results(reported, self._location, self.rule_index, self._occurrences):
+            text = json_text(result, self.indent)
+            if self.indent is not None:
+                text = text.replace("\n", self._result_start)  # strings hold no raw line breaks
+            self._results.write(("," if self._result_count else "") + self._result_start + text)
+            self._result_count += 1
+
+    def finish(self, unreadable: list[Unreadable]) -> None:
+        log = sarif_log(self.artifacts, _RESULTS_PLACE, unreadable, self.locations, reviewed_any=self.tally.files > 0)
+        text = json_text(log, self.indent)
+        head, tail = text.rsplit(json_text(_RESULTS_PLACE), 1)  # the last string of the log: the results
+        self.out.write(head)
+        if self._result_count:
+            self.out.write("[")
+            self._results.seek(0)
+            shutil.copyfileobj(self._results, self.out)
+            self.out.write(("" if self.indent is None else "\n" + " " * ((_RESULTS_DEPTH - 1) * self.indent)) + "]")
+        else:
+            self.out.write("[]")
+        self.out.write(tail + "\n")
+        self._results.close()
+
+
+def sarif_log(
+    artifacts: list[dict[str, Any]],
+    results: Any,
+    unreadable: list[Unreadable],
+    locations: _Locations,
+    reviewed_any: bool,
+) -> dict[str, Any]:
     notifications: list[dict[str, Any]] = []
-    for unreadable in run.unreadable:
+    for problem in unreadable:
         notifications.append({
             "level": "error",
-            "message": {"text": f"cannot read this file: {unreadable.reason}"},
-            "locations": [{"physicalLocation": {"artifactLocation": locations.of(unreadable.path)}}],
+            "message": {"text": f"cannot read this file: {problem.reason}"},
+            "locations": [{"physicalLocation": {"artifactLocation": locations.of(problem.path)}}],
         })
-    if not run.files:
+    if not reviewed_any:
         notifications.append({"level": "warning", "message": {"text": "no notes were reviewed"}})
-    invocation: dict[str, Any] = {"executionSuccessful": not run.unreadable}
+    invocation: dict[str, Any] = {"executionSuccessful": not unreadable}
     if notifications:
         invocation["toolExecutionNotifications"] = notifications
     return {
@@ -208,5 +262,15 @@ def sarif_dict(run: CheckedRun, source_root: str = ".") -> dict[str, Any]:
     }
 
 
+def sarif_dict(run: CheckedRun, source_root: str = ".") -> dict[str, Any]:
+    """The whole log as a dict (for callers that hold their reviews)."""
+    import io
+    import json
+
+    out = io.StringIO()
+    write_sarif(run, out, source_root)
+    return json.loads(out.getvalue())
+
+
 def write_sarif(run: CheckedRun, out: TextIO, source_root: str = ".", indent: int | None = None) -> None:
-    out.write(json_text(sarif_dict(run, source_root), indent) + "\n")
+    run.write(SarifWriter(out, source_root, indent))
