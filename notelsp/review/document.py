@@ -91,13 +91,13 @@ def review_text(
     text: str,
     kind: DocumentKind = "markdown",
     settings: Settings | None = None,
-    more_time: Callable[[], bool] | None = None,
+    more_time: Callable[[int], bool] | None = None,
 ) -> DocumentReview:
     """Every finding of ``text``.
 
     With ``more_time`` the review may stop early: it is asked before each further line
-    holding annotations, and when it answers False the review ends at the start of that
-    line (``DocumentReview.stopped_at``).  Everything above is complete, and the
+    holding annotations, with the offset of that line's start, and when it answers False
+    the review ends there (``DocumentReview.stopped_at``).  Everything above is complete, and the
     whole-note rule ``review-continues`` marks the first line left out.  Whoever asks
     keeps the clock: the review itself stays a function of its arguments and the answers.
     """
@@ -118,9 +118,10 @@ def review_text(
     else:
         found: list[Found] = []
         for piece in scan_pieces(scanned_text, kind):
-            if found and not more_time():
+            if found:
                 line_start = text.rfind("\n", 0, piece[0][0]) + 1
-                if line_start >= found[-1][1]:  # nothing reviewed lies on the line: stop at its start
+                # Stop only where nothing reviewed lies on the line: at its start.
+                if line_start >= found[-1][1] and not more_time(line_start):
                     stopped_at = reviewed = line_start
                     break
             _review_found(piece, text, settings, reviews, placed, findings)

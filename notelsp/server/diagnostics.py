@@ -133,12 +133,16 @@ def schedule(ls: NoteServer, uri: str, delay: float | None = None) -> None:
     ls.pending[uri] = asyncio.get_running_loop().create_task(_publish_later(ls, uri, delay))
 
 
-def _reviewed_slice(text: str, kind, settings, encoding: str) -> tuple[list[dict[str, Any]], bool]:
-    """One slice of the review (at most about REVIEW_BUDGET_SECONDS of new work) as JSON, and whether it
-    was the whole note.  Each slice finds what earlier ones computed in the review's caches."""
+def _reviewed_slice(text: str, kind, settings, encoding: str, done_before: int) -> tuple[list[dict[str, Any]], int | None]:
+    """One slice of the review as JSON, and where it stopped (None: the whole note).
+
+    It goes on past ``done_before`` (where the previous slice stopped: those lines are found in the
+    review's caches) whatever the clock says, then for about REVIEW_BUDGET_SECONDS more, so every
+    slice gets further than the last."""
     deadline = time.monotonic() + REVIEW_BUDGET_SECONDS
-    review = review_text(text, kind, settings, more_time=lambda: time.monotonic() < deadline)
-    return diagnostics_json(review.findings, line_index(text, encoding)), review.stopped_at is None
+    review = review_text(text, kind, settings,
+                         more_time=lambda line_start: line_start <= done_before or time.monotonic() < deadline)
+    return diagnostics_json(review.findings, line_index(text, encoding)), review.stopped_at
 
 
 async def _publish_later(ls: NoteServer, uri: str, delay: float) -> None:
@@ -152,13 +156,15 @@ async def _publish_later(ls: NoteServer, uri: str, delay: float) -> None:
     whole = True
     if ls.is_reviewed(uri):
         kind, settings, encoding = ls.review_kind(uri), ls.settings, ls.encoding()
-        first = True
+        first, stopped_at = True, 0
         while first or not whole:  # a review past its budget: what it has first, then the rest slice by slice
             try:
-                diagnostics, whole = await asyncio.to_thread(_reviewed_slice, text, kind, settings, encoding)
+                diagnostics, stopped_at = await asyncio.to_thread(_reviewed_slice, text, kind, settings, encoding,
+                                                                   stopped_at or 0)
             except Exception:
                 log.exception("review of %s failed", uri)
-                diagnostics, whole = [], True
+                diagnostics, stopped_at = [], None
+            whole = stopped_at is None
             current = ls.open_document(uri)
             if current is None or current.version != version:
                 return  # stale: a newer change has its own publication scheduled (or the document closed)

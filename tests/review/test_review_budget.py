@@ -23,7 +23,7 @@ def _answers(count: int):
     """A budget that allows ``count`` questions, then says stop."""
     asked = [0]
 
-    def more_time() -> bool:
+    def more_time(line_start: int) -> bool:
         asked[0] += 1
         return asked[0] <= count
 
@@ -55,7 +55,7 @@ def test_a_stopped_review_is_the_whole_reviews_beginning_and_says_where_it_stopp
 def test_a_review_with_time_to_spare_is_the_whole_review():
     whole = review_text(NOTE)
     document.forget_cached_results()
-    assert review_text(NOTE, more_time=lambda: True) == whole
+    assert review_text(NOTE, more_time=lambda line_start: True) == whole
 
 
 def test_the_whole_review_after_a_stopped_one_has_no_mark():
@@ -70,6 +70,18 @@ def test_a_review_is_never_stopped_between_annotations_of_one_line():
     part = review_text(line * 3, more_time=_answers(0))
     assert part.stopped_at == len(line)  # the whole first line, then stop
     assert len(part.annotations) == 30
+
+
+def test_the_review_is_asked_with_each_further_line_start_and_goes_on_while_told_to():
+    asked: list[int] = []
+    whole = review_text(NOTE, more_time=lambda line_start: asked.append(line_start) or True)
+    assert whole.stopped_at is None
+    assert asked == sorted(set(asked)) and all(NOTE[start - 1] == "\n" for start in asked)
+    document.forget_cached_results()
+    # A caller that lets it run to a given line (as the server does past its last stop) gets at least that far.
+    middle = asked[len(asked) // 2]
+    part = review_text(NOTE, more_time=lambda line_start: line_start <= middle)
+    assert part.stopped_at is not None and part.stopped_at > middle
 
 
 def test_around_a_position_only_the_annotations_there_are_reviewed():
