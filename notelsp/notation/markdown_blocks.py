@@ -122,8 +122,9 @@ CODE_DIRECTIVES = frozenset({
     "code", "code-block", "code-cell", "sourcecode", "literalinclude", "math", "raw", "eval-rst", "mermaid",
     "graphviz", "csv-table",
 })  # whitespace to the end: what str.strip() would leave empty
-# Containers (block quotes, list items) nested deeper than this are not opened: their
-# markers are read as text, as CommonMark parsers cap nesting (markdown-it's maxNesting).
+# Containers (block quotes, list items, admonitions, directives) nested deeper than this are
+# not opened: their markers are read as text, as CommonMark parsers cap nesting (markdown-it's
+# maxNesting).
 # It bounds the work per line, so a line of a hundred thousand "- " stays linear.
 MAX_NESTING = 32
 _SETEXT_UNDERLINE = re.compile(r"(?:=+|-+)[ \t]*$")
@@ -852,14 +853,17 @@ class _Parser:
         if character == "#" and (heading := _ATX_HEADING.match(line, at)):
             self._open_heading(index, line, start, heading)
             return
+        # A directive is a container too: past the nesting cap its opening line is text.
+        nestable = len(self.containers) < MAX_NESTING
         if character in "`~" and (fence := _fence_opening(line, at)):
             name = _DIRECTIVE_NAME.match(fence.group(2).strip())
-            if name is not None and name.group(1) in MARKDOWN_DIRECTIVES:
-                self._open_directive(index, fence.group(1), columns)
-            else:
+            if name is None or name.group(1) not in MARKDOWN_DIRECTIVES:
                 self._open_fence(index, fence, columns)
-            return
-        if character == ":" and (colons := _COLON_FENCE.match(line, at)):
+                return
+            if nestable:
+                self._open_directive(index, fence.group(1), columns)
+                return
+        if character == ":" and nestable and (colons := _COLON_FENCE.match(line, at)):
             name = _DIRECTIVE_NAME.match(line[colons.end() :].strip())
             if name is not None and name.group(1) in CODE_DIRECTIVES:
                 self._close_leaf()

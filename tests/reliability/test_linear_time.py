@@ -62,6 +62,9 @@ CONSTRUCTS: dict[str, Callable[[int], str]] = {
     "directives nested, then lines": (
         lambda n: ":::{note}\n" * 40 + "a " + ANNOTATION + "\n" + "b\n" * (n // 2)
     ),
+    # Directives were not under the nesting cap: each unclosed opener nested in the one before.
+    "directive openers repeated": lambda n: ":::{note}\n" * (n // 10) + ANNOTATION + "\n",
+    "backtick directive openers repeated": lambda n: "```{note} a\n" * (n // 12) + ANNOTATION + "\n",
 }
 
 
