@@ -19,7 +19,7 @@ from collections import deque
 from collections.abc import Callable, Sequence
 from concurrent.futures import FIRST_COMPLETED, Future, ProcessPoolExecutor, wait
 from concurrent.futures.process import BrokenProcessPool
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 from ..chem import analyse
 from ..chem.analysis import SpeciesAnalysis
@@ -27,6 +27,7 @@ from ..notation import parse_formula
 from ..notation.model import Formula
 from . import cache, worker
 from .geometry import Skipped, Structure, failure, start_structures
+from .identity import closest_start
 from .method import METHOD, Limits, missing_packages, versions
 from .result import BadResult, ComputedGeometry, ComputedSpecies, geometry_from_dict, ordered
 
@@ -265,8 +266,23 @@ def _species(request: Request, start: tuple[SpeciesAnalysis, tuple[Structure, ..
                                        if iso.enantiomer is not None and iso.enantiomer < i)
     if listed > len(built):
         notes = (f"only the first {len(built)} of {listed} isomers (by the analysis's rank) were computed",)
-    return ComputedSpecies(analysis.formula, analysis.charge, METHOD, versions(), ordered(structures),
-                           None, notes, cached)
+    return ComputedSpecies(analysis.formula, analysis.charge, METHOD, versions(),
+                           ordered(_identified(structures, built)), None, notes, cached)
+
+
+def _identified(structures: list[ComputedGeometry], built: tuple[Structure, ...]) -> list[ComputedGeometry]:
+    """Each structure, marked with the isomer it became where the optimisation carried it into another."""
+    if len(built) < 2:
+        return structures
+    starts = [(s.positions, s.labels) for s in built]
+    out = []
+    for own, geometry in enumerate(structures):
+        if geometry.failed is None:
+            closest = closest_start(geometry.positions, geometry.labels, starts, own)
+            if closest != own:
+                geometry = replace(geometry, became=built[closest].isomer)
+        out.append(geometry)
+    return out
 
 
 def _limits_dict(limits: Limits) -> dict[str, float | int]:

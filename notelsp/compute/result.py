@@ -16,7 +16,6 @@ from typing import Any
 Vector = tuple[float, float, float]
 
 EV_PER_KJ_MOL = 0.010364269656262174  # 1 kJ/mol in eV (CODATA 2018 via 1 eV = 96.485 kJ/mol)
-REARRANGED_DEG = 30.0  # an angle that moved this far from the start means the isomer became another one
 
 MAX_ATOMS = 64  # above Limits.max_atoms, so a bound change does not make every entry unreadable
 MAX_TEXT = 400
@@ -68,10 +67,12 @@ class ComputedGeometry:
     steps: int
     angles: tuple[Angle, ...]  # every bond angle at the centre
     bonds: tuple[Bond, ...]  # every bond to the centre
-    largest_angle_change_deg: float  # how far any angle moved from the start
+    largest_angle_change_deg: float  # how far any angle moved from the start (information)
     wall_time_s: float
     failed: str | None = None  # why this structure has no usable result; None when it has one
     notes: tuple[str, ...] = ()
+    # the other isomer this one turned into during the optimisation (identity.closest_start); derived, not stored
+    became: str | None = None
 
     @property
     def usable(self) -> bool:
@@ -80,7 +81,7 @@ class ComputedGeometry:
 
     @property
     def rearranged(self) -> bool:
-        return self.largest_angle_change_deg > REARRANGED_DEG
+        return self.became is not None
 
     def angles_between(self, a: str, b: str) -> tuple[float, ...]:
         """Every computed a-centre-b angle (ligand labels, either order), smallest first."""
@@ -130,8 +131,7 @@ class ComputedSpecies:
 def _unusable_reason(structure: ComputedGeometry) -> str:
     if not structure.converged:
         return f"not converged in {structure.steps} steps"
-    return (f"rearranged into another arrangement (an angle moved {structure.largest_angle_change_deg:.0f}° "
-            "from the start)")
+    return f"turned into another isomer ({structure.became}) while it was optimised"
 
 
 def ordered(structures: list[ComputedGeometry]) -> tuple[ComputedGeometry, ...]:
