@@ -23,6 +23,7 @@ from __future__ import annotations
 import hashlib
 import json
 import os
+import re
 import stat
 import tempfile
 import time
@@ -42,6 +43,8 @@ EVICT_EVERY = 32  # stores between size checks in one process
 STALE_TEMPORARY_S = 3600.0  # a temporary file this old belongs to a writer that died
 
 _stores = 0
+_STRING = re.compile(r'"(?:[^"\\]|\\.)*"')
+_BRACKET = re.compile(r"[\[\]{}]")
 
 
 def cache_root() -> Path:
@@ -86,23 +89,17 @@ def read_entry(path: Path) -> bytes | None:
 
 
 def nesting_depth(text: str) -> int:
-    """How deeply ``text``'s JSON arrays and objects nest, counted without parsing (strings skipped)."""
+    """How deeply ``text``'s JSON arrays and objects nest, counted without parsing (strings skipped).
+
+    An unterminated string leaves its brackets counted: the depth can only come out larger, and such
+    text is no JSON anyway.
+    """
     depth = deepest = 0
-    in_string = escaped = False
-    for char in text:
-        if in_string:
-            if escaped:
-                escaped = False
-            elif char == "\\":
-                escaped = True
-            elif char == '"':
-                in_string = False
-        elif char == '"':
-            in_string = True
-        elif char in "[{":
+    for bracket in _BRACKET.findall(_STRING.sub("", text)):
+        if bracket in "[{":
             depth += 1
             deepest = max(deepest, depth)
-        elif char in "]}":
+        else:
             depth -= 1
     return deepest
 
