@@ -98,3 +98,14 @@ def test_a_worker_that_does_not_answer_in_time_is_stopped_and_the_pool_goes_on(m
         monkeypatch.setattr(pool_module, "STARTUP_GRACE_S", 30.0)
         (later,) = pool.compute(["H2O"])
     assert later.failed is None
+
+
+def test_unreadable_formulas_and_missing_packages_are_reasons_not_exceptions(monkeypatch):
+    import notelsp.compute.pool as pool_module
+
+    with GeometryPool(use_cache=False, workers=1) as pool:
+        (bad,) = pool.compute(["N((H3"])
+        assert "is not a formula the notation reads" in bad.skipped
+        monkeypatch.setattr(pool_module, "missing_packages", lambda: ("tblite",))
+        (without,) = pool.compute(["NH3"])
+    assert "tblite not installed" in without.skipped and without.lowest is None
