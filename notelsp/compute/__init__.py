@@ -9,7 +9,7 @@ it runs processes and writes files; nothing below it imports it.
 """
 
 from .method import ANGLE_UNCERTAINTY_DEG, METHOD, Limits, versions
-from .pool import GeometryPool, compute_species
+from .pool import GeometryPool, Request, compute_species
 from .result import Angle, Bond, ComputedGeometry, ComputedSpecies
 
 __all__ = [
@@ -21,6 +21,7 @@ __all__ = [
     "ComputedSpecies",
     "GeometryPool",
     "Limits",
+    "Request",
     "compute_species",
     "versions",
 ]
