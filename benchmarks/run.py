@@ -17,6 +17,7 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 import analysis  # noqa: E402
 import cli_start  # noqa: E402
 import compute  # noqa: E402
+import repo  # noqa: E402
 import server  # noqa: E402
 import soak  # noqa: E402
 
@@ -39,6 +40,8 @@ def main() -> None:
     for name, value in server.measure().items():  # first: its fresh processes should not share the CPU with us
         print(f"{name}: {value}", flush=True)
     for name, value in cli_start.measure().items():  # processes too, before the in-process figures
+        print(f"{name}: {value}", flush=True)
+    for name, value in repo.measure().items():  # notelsp check over 3,000 notes, then 1,000: CPU and memory
         print(f"{name}: {value}", flush=True)
     for name, value in compute.measure().items():  # GFN2-xTB worker processes, one per core
         print(f"{name}: {value}", flush=True)
