@@ -23,6 +23,7 @@ from html import escape
 from typing import Any
 
 from ..chem.model import LONE_PAIR
+from ..review.predictions import written_shape
 
 # Okabe and Ito's palette (Color Universal Design, 2002); each element kind gets one entry,
 # with a dark or light symbol chosen for contrast.
@@ -72,10 +73,6 @@ class Model:
         v = [b - c for b, c in zip(self.atoms[second].position, centre)]
         cosine = sum(a * b for a, b in zip(u, v)) / (math.hypot(*u) * math.hypot(*v))
         return math.degrees(math.acos(max(-1.0, min(1.0, cosine))))
-
-
-def _words(name: str) -> str:
-    return "T-shaped" if name == "t-shaped" else name.replace("-", " ")
 
 
 def models_of(analysis: Any, mentioned: tuple[tuple[str, str, str], ...] = (), limit: int = 6) -> list[Model]:
@@ -202,7 +199,7 @@ def _description(formula: str, centre: Any, isomer: Any, atoms: list[ModelAtom],
                       + (f" {atom_site}" if atom_site not in ("vertex",) else "")
                       for (what, atom_site), n in placed.items())
     marked = "; ".join(f"{atoms[i].label}-{centre.central}-{atoms[j].label} {value:g}°" for i, j, value in angles)
-    return (f"{formula}: {_words(centre.shape)} at {centre.central} ({where}); {isomer.point_group}, "
+    return (f"{formula}: {written_shape(centre.shape)} at {centre.central} ({where}); {isomer.point_group}, "
             f"{'polar' if isomer.polar else 'nonpolar'}" + (f"; marked: {marked}" if marked else ""))
 
 

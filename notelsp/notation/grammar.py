@@ -159,7 +159,7 @@ CLAIM_WORDS = frozenset(
 # Whole claims as commonly written, the targets of "did you mean" for one-word slips.
 CLAIM_PHRASES = (
     "linear", "bent", "trigonal planar", "trigonal pyramidal", "tetrahedral", "seesaw",
-    "t-shaped", "trigonal bipyramidal", "square pyramidal", "square planar", "octahedral",
+    "T-shaped", "trigonal bipyramidal", "square pyramidal", "square planar", "octahedral",
     "pentagonal bipyramidal", "pentagonal planar", "pentagonal pyramidal",
     "sp", "sp2", "sp3", "sp3d", "sp3d2", "sp3d3", "unhybridized",
     "polar", "nonpolar", "axial", "equatorial", "apical", "basal", "cis", "trans", "fac", "mer",

@@ -11,6 +11,7 @@ from typing import Any
 
 from ..notation.model import Annotation
 from .document import DocumentReview
+from .predictions import written_shape
 from .rules import RULES
 
 # Where each rule is explained to people: the README's rule list (written by rules_markdown below).
@@ -33,8 +34,8 @@ def centre_markdown(centre: Any) -> str:
         f"{centre.lone_pairs} lone pair{'s' if centre.lone_pairs != 1 else ''}"
         + (f", {centre.odd_electrons} odd electron" if getattr(centre, "odd_electrons", 0) else "")
         + ")",
-        f"- electron geometry: {centre.electron_geometry}",
-        f"- shape: {centre.shape}",
+        f"- electron geometry: {written_shape(centre.electron_geometry)}",
+        f"- shape: {written_shape(centre.shape)}",
         f"- hybridization: {centre.hybridization}" + _coulson_suffix(centre),
         f"- ideal angles: {_angles(getattr(centre, 'ideal_angles', None))}",
     ]

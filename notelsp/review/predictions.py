@@ -25,8 +25,12 @@ def predicted_shape(analysis: Any) -> str | None:
 
 
 def written_shape(shape: str) -> str:
-    """A hyphenated shape name as a note writes it ("trigonal-pyramidal" -> "trigonal pyramidal")."""
-    return shape if shape in ("t-shaped", "see-saw") else shape.replace("-", " ")
+    """A shape as chemists spell it ("trigonal-pyramidal" -> "trigonal pyramidal", "t-shaped" -> "T-shaped").
+
+    The one spelling people see, in messages, fixes, hover, hints and drawings; JSON keeps the
+    machine name ("t-shaped").
+    """
+    return "T-shaped" if shape == "t-shaped" else shape.replace("-", " ")
 
 
 def predicted_description_fix(annotation: Annotation, analysis: Any) -> Fix | None:

@@ -23,7 +23,7 @@ DETAILS: dict[str, str] = {
     "bent": "two bonds with one or two lone pairs, angle below 120° or 109.5°",
     "trigonal planar": "three bonds in a plane at 120°, no lone pair",
     "trigonal pyramidal": "three bonds and one lone pair, a flattened tetrahedron",
-    "t-shaped": "three bonds and two equatorial lone pairs, near 90°",
+    "T-shaped": "three bonds and two equatorial lone pairs, near 90°",
     "tetrahedral": "four bonds at 109.5°, no lone pair",
     "seesaw": "four bonds and one equatorial lone pair in a trigonal bipyramid",
     "square planar": "four bonds in a plane at 90°, two trans lone pairs",

@@ -22,7 +22,7 @@ def test_wrong_claim_is_reported_with_position_and_exit_1(notes):
     assert first["code"] == "wrong-shape" and first["severity"] == "error"
     # "trigonal planar" starts on line 3, column 33 (1-based, code points)
     assert (first["line"], first["col"]) == ("3", str("The trifluoride {ClF3: ".__len__() + 1))
-    assert "t-shaped" in first["message"]
+    assert "T-shaped" in first["message"]
     assert "fix:" in result.stdout
 
 
@@ -78,7 +78,7 @@ def test_json_report_shape_and_code_point_columns(tmp_path):
     assert finding["end_column"] == finding["column"] + len("trigonal planar")
     assert finding["formula"] == "ClF3" and finding["claim"] == "trigonal planar"
     assert {"title", "replacement"} <= set(finding["fixes"][0])
-    assert finding["fixes"][0]["replacement"] == "t-shaped"
+    assert finding["fixes"][0]["replacement"] == "T-shaped"
 
 
 def test_settings_file_disables_a_rule_and_reports_bad_values(notes):

@@ -31,7 +31,7 @@ def test_sarif_output_is_valid_and_carries_findings_and_fixes(notes):
     region = result_entry["locations"][0]["physicalLocation"]["region"]
     assert region["startLine"] == 3
     replacement = result_entry["fixes"][0]["artifactChanges"][0]["replacements"][0]
-    assert replacement["insertedContent"]["text"] == "t-shaped"
+    assert replacement["insertedContent"]["text"] == "T-shaped"
 
 
 def _sarif(*args: str, cwd=None) -> dict:

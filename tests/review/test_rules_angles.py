@@ -45,7 +45,7 @@ def test_measured_angle_passes_and_a_far_one_is_flagged(formula, g2_name, centre
 
 def test_nh3_at_120_degrees_is_implausible():
     note = "Ammonia {NH3: H-N-H 120°} is flat?"
-    finding = assert_flagged(note, "H-N-H 120°", "implausible-angle", "H-N-H 120°", "trigonal-pyramidal", "lone pairs")
+    finding = assert_flagged(note, "H-N-H 120°", "implausible-angle", "H-N-H 120°", "trigonal pyramidal", "lone pairs")
     expected = g2_angle("NH3", "N", ("H", "H"))
     assert finding.fixes[0].replacement == f"H-N-H ~{expected:.1f}°"  # the fix suggests the G2 angle
 

@@ -14,7 +14,7 @@ from .helpers import assert_clean, assert_flagged, review, with_code
 @pytest.mark.parametrize(
     "formula, wrong, right",
     [
-        ("ClF3", "trigonal planar", "t-shaped"),
+        ("ClF3", "trigonal planar", "T-shaped"),
         ("SF4", "tetrahedral", "seesaw"),
         ("NH3", "trigonal planar", "trigonal pyramidal"),
         ("XeF4", "tetrahedral", "square planar"),

@@ -20,7 +20,7 @@ def test_shape_words_parse_as_shape_claims_and_the_rest_do_not():
 def test_every_word_has_a_description():
     assert all(w.detail for w in claim_words())
     # VSEPR name for AX3E2, standard VSEPR (from memory)
-    assert "lone pairs" in {w.label: w.detail for w in claim_words()}["t-shaped"]
+    assert "lone pairs" in {w.label: w.detail for w in claim_words()}["T-shaped"]
 
 
 def test_cursor_place_inside_and_outside_an_annotation():

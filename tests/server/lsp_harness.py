@@ -22,8 +22,8 @@ def apply_edits(text: str, edits: list[types.TextEdit], encoding: str = "utf-16"
     return text
 
 
-async def wait_for(predicate, timeout: float = 10.0, step: float = 0.05):
-    """Poll ``predicate`` until it returns something truthy (bounded)."""
+async def wait_for(predicate, timeout: float = 30.0, step: float = 0.05):
+    """Poll ``predicate`` until it returns something truthy (bounded; generous, as CI machines may be busy)."""
     deadline = asyncio.get_running_loop().time() + timeout
     while True:
         value = predicate()

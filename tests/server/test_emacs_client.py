@@ -65,8 +65,8 @@ def test_emacs_eglot_diagnoses_hovers_fixes_and_honours_settings(emacs, tmp_path
     shape = by_code["wrong-shape"]
     assert (shape["line"], shape["text"], shape["source"]) == (2, "trigonal planar", "notelsp")
     assert shape["href"] == rule_doc_url("wrong-shape")
-    assert "ClF3" in result["hover"] and "t-shaped" in result["hover"]
-    assert result["after_fix"] == NOTE.replace("trigonal planar", "t-shaped")
+    assert "ClF3" in result["hover"] and "T-shaped" in result["hover"]
+    assert result["after_fix"] == NOTE.replace("trigonal planar", "T-shaped")
     assert result["fix_cleared"] is True  # the server saw eglot's change and dropped the finding
     assert result["before_settings"] is True
     assert result["settings_cleared"] is True  # eglot-workspace-configuration disabled the rule

@@ -47,7 +47,7 @@ async def test_diagnostic_and_fix_columns_in_the_negotiated_encoding(client: Lan
     )
     fix = next(a for a in actions if isinstance(a, types.CodeAction) and a.kind == types.CodeActionKind.QuickFix)
     fixed = apply_edits(NOTE, fix.edit.changes[uri], chosen)
-    assert fixed == NOTE.replace("trigonal planar", "t-shaped")
+    assert fixed == NOTE.replace("trigonal planar", "T-shaped")
 
     # The client sends the edit back in the same encoding; the server's copy must match.
     client.text_document_did_change(

@@ -59,7 +59,7 @@ def test_neovim_shows_diagnostics_hover_and_applies_the_fix(nvim, tmp_path):
     assert (shape[0]["lnum"], shape[0]["col"]) == (2, len("Chlorine trifluoride {ClF3: "))
     assert shape[0]["source"] == "notelsp"
     assert "ClF3" in result["hover"]["value"]
-    assert result["after_fix"][2] == "Chlorine trifluoride {ClF3: t-shaped}."
+    assert result["after_fix"][2] == "Chlorine trifluoride {ClF3: T-shaped}."
     assert result["cleared"] is True
 
 

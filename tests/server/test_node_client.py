@@ -58,16 +58,16 @@ def test_node_client_gets_diagnostics_hover_and_a_fix(node, tmp_path):
         "end": {"line": 2, "character": line.index(WRONG) + len(WRONG)},
     }
     assert shape[0]["source"] == "notelsp"
-    assert "t-shaped" in shape[0]["message"]
+    assert "T-shaped" in shape[0]["message"]
 
     hover = result["hover"]["contents"]
     assert hover["kind"] == "markdown"
-    assert "ClF3" in hover["value"] and "t-shaped" in hover["value"]
+    assert "ClF3" in hover["value"] and "T-shaped" in hover["value"]
 
     fixes = [a for a in result["actions"] if a.get("kind") == "quickfix"]
     assert fixes, result["actions"]
     edits = [e for changes in fixes[0]["edit"]["changes"].values() for e in changes]
-    assert [e["newText"] for e in edits] == ["t-shaped"]
+    assert [e["newText"] for e in edits] == ["T-shaped"]
     assert edits[0]["range"] == shape[0]["range"]
 
     assert result["steps"][-1] == "exited"

@@ -76,7 +76,7 @@ async def test_open_diagnose_hover_fix_change_close(client: LanguageClient, tmp_
     edits = quickfixes[0].edit.changes[uri]
     assert [e.range for e in edits] == [shape[0].range]  # replaces exactly the wrong claim
     fixed = apply_edits(NOTE, edits)
-    assert "{ClF3: t-shaped}" in fixed
+    assert "{ClF3: T-shaped}" in fixed
 
     # Apply the fix as an incremental change; the finding must go away.
     client.text_document_did_change(
@@ -204,11 +204,11 @@ async def test_inlay_hint_symbols_and_predicted_description(client: LanguageClie
     document = types.TextDocumentIdentifier(uri)
     whole = types.Range(types.Position(0, 0), types.Position(1, 0))
     hints = await client.text_document_inlay_hint_async(types.InlayHintParams(document, whole))
-    assert [h.label for h in hints] == ["→ t-shaped"]
+    assert [h.label for h in hints] == ["→ T-shaped"]
     assert hints[0].position == position_of(text, "}", 1)
 
     symbols = await client.text_document_document_symbol_async(types.DocumentSymbolParams(document))
-    assert [(s.name, s.detail) for s in symbols] == [("ClF3", "t-shaped")]
+    assert [(s.name, s.detail) for s in symbols] == [("ClF3", "T-shaped")]
 
     actions = await client.text_document_code_action_async(
         types.CodeActionParams(document, types.Range(position_of(text, "ClF3"), position_of(text, "ClF3")),
@@ -217,7 +217,7 @@ async def test_inlay_hint_symbols_and_predicted_description(client: LanguageClie
     describe = [a for a in actions if a.title.startswith("Add the predicted description")]
     assert describe, [a.title for a in actions]
     described = apply_edits(text, describe[0].edit.changes[uri])
-    assert described == "Bare species: {ClF3: t-shaped}\n"
+    assert described == "Bare species: {ClF3: T-shaped}\n"
     subscripts = [a for a in actions if a.title == "Convert counts to subscripts"]
     assert apply_edits(text, subscripts[0].edit.changes[uri]) == "Bare species: {ClF₃}\n"
 
@@ -251,10 +251,10 @@ async def test_completion_inside_an_annotation(client: LanguageClient, tmp_path)
     )
     claims = await client.text_document_completion_async(types.CompletionParams(document, types.Position(0, 12)))
     described = {item.label: item.detail for item in claims.items}
-    assert "t-shaped" in described and described["t-shaped"]
-    t_shaped = next(item for item in claims.items if item.label == "t-shaped")
+    assert "T-shaped" in described and described["T-shaped"]
+    t_shaped = next(item for item in claims.items if item.label == "T-shaped")
     assert t_shaped.text_edit.range == types.Range(types.Position(0, 11), types.Position(0, 12))  # replaces the typed "t"
-    assert t_shaped.text_edit.new_text == "t-shaped"
+    assert t_shaped.text_edit.new_text == "T-shaped"
     outside = await client.text_document_completion_async(types.CompletionParams(document, types.Position(0, 2)))
     assert outside is None
 

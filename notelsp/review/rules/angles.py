@@ -10,6 +10,7 @@ from ...chem.coulson import TYPICAL_ANGLES
 from ...chem.isomers import expected
 from ...notation.model import AngleClaim, AngleOrderClaim, BondLengthClaim
 from ..findings import Finding, Severity
+from ..predictions import written_shape
 from . import RuleContext, rule
 
 
@@ -86,7 +87,7 @@ def implausible_angle(context: RuleContext) -> Iterator[Finding]:
     prefix = f"{name} " if claim.atoms else ""
     yield context.finding(
         f"{context.analysis.formula}: {claim.text} is implausible; {name} is expected {expected} "
-        f"({centre.shape}: {nearest.reason})",
+        f"({written_shape(centre.shape)}: {nearest.reason})",
         fixes=[context.replace_claim(f"{prefix}~{_degrees(value)}°")],
     )
 

@@ -7,6 +7,7 @@ from collections.abc import Iterator
 from ...notation.model import ElectronGeometryClaim, HybridizationClaim, LonePairClaim, ShapeClaim
 from ...chem.ions import likely_ion, written_charge
 from ...chem.vsepr import HYBRIDIZATION
+from ..predictions import written_shape
 from ..findings import Finding, Fix, Severity
 from . import RuleContext, rule
 
@@ -19,8 +20,6 @@ def first_centre(context: RuleContext):
     return analysis.centres[0]
 
 
-def words(name: str) -> str:
-    return name.replace("-", " ") if name != "t-shaped" else name
 
 
 def _domains(centre) -> str:
@@ -44,8 +43,8 @@ def wrong_shape(context: RuleContext) -> Iterator[Finding]:
         return
     source = f"expected as a {centre.exception.name}:" if centre.exception else "VSEPR predicts"
     yield context.finding(
-        f"{context.analysis.formula} is claimed {words(claim.shape)}; {source} {words(centre.shape)} ({_domains(centre)})",
-        fixes=[context.replace_claim(words(centre.shape))],  # written as the README writes shapes
+        f"{context.analysis.formula} is claimed {written_shape(claim.shape)}; {source} {written_shape(centre.shape)} ({_domains(centre)})",
+        fixes=[context.replace_claim(written_shape(centre.shape))],  # written as the README writes shapes
     )
 
 
@@ -61,9 +60,9 @@ def wrong_electron_geometry(context: RuleContext) -> Iterator[Finding]:
     if centre is None or not isinstance(claim, ElectronGeometryClaim) or claim.geometry == centre.electron_geometry:
         return
     yield context.finding(
-        f"{context.analysis.formula} is claimed to have {words(claim.geometry)} electron geometry; "
-        f"VSEPR predicts {words(centre.electron_geometry)} ({_domains(centre)})",
-        fixes=[context.replace_claim(f"electron geometry {words(centre.electron_geometry)}")],
+        f"{context.analysis.formula} is claimed to have {written_shape(claim.geometry)} electron geometry; "
+        f"VSEPR predicts {written_shape(centre.electron_geometry)} ({_domains(centre)})",
+        fixes=[context.replace_claim(f"electron geometry {written_shape(centre.electron_geometry)}")],
     )
 
 
