@@ -33,50 +33,24 @@ demo: $(RUNTIME_STAMP)
 test: $(STAMP) node-client neovim sarif-validator emacs chromium
 	$(PY) -m pytest -q -ra
 
-# The Node.js LSP client test's one dependency (vscode-jsonrpc, pinned by the lock file).
-# Without npm, or offline, that test skips and says why; the rest still runs.
+# npm packages for two tests, pinned by their lock files: the Node.js LSP client's vscode-jsonrpc
+# and the SARIF multitool (a self-contained binary per platform, no .NET needed), which validates
+# --format sarif with GitHub's rules. Without npm, or offline, those tests skip and say why.
+# $(call npm-packages,FOLDER,TEST)
+define npm-packages
+	@if command -v npm >/dev/null 2>&1; then \
+		(cd $(1) && npm install --no-audit --no-fund --silent) \
+			|| echo "npm install failed in $(1): the $(2) will skip"; \
+	else \
+		echo "npm not found: the $(2) will skip"; \
+	fi
+endef
+
 node-client:
-	@if command -v npm >/dev/null 2>&1; then \
-		(cd $(NODE_CLIENT) && npm install --no-audit --no-fund --silent) \
-			|| echo "npm install failed in $(NODE_CLIENT): the Node.js client test will skip"; \
-	else \
-		echo "npm not found: the Node.js client test will skip"; \
-	fi
+	$(call npm-packages,$(NODE_CLIENT),Node.js client test)
 
-# The SARIF multitool (npm package @microsoft/sarif-multitool, pinned by the lock file; it ships a
-# self-contained binary per platform, no .NET needed) validates --format sarif with GitHub's rules.
-# Without npm, or offline, that test skips and says why; the rest still runs.
 sarif-validator:
-	@if command -v npm >/dev/null 2>&1; then \
-		(cd $(SARIF_VALIDATOR) && npm install --no-audit --no-fund --silent) \
-			|| echo "npm install failed in $(SARIF_VALIDATOR): the SARIF multitool test will skip"; \
-	else \
-		echo "npm not found: the SARIF multitool test will skip"; \
-	fi
-
-# Headless Neovim for the Neovim client test: Debian's package, as root, when nvim is missing.
-# Best effort: without apt-get or root, or offline, that test skips and says why.
-neovim:
-	@if ! command -v nvim >/dev/null 2>&1; then \
-		if command -v apt-get >/dev/null 2>&1 && [ "$$(id -u)" = 0 ]; then \
-			{ apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq neovim; } >/dev/null 2>&1 \
-				|| echo "apt-get could not install neovim: the Neovim client test will skip"; \
-		else \
-			echo "nvim missing and apt-get unavailable (or not root): the Neovim client test will skip"; \
-		fi; \
-	fi
-
-# Emacs with eglot for the Emacs client test: Debian's packages (Emacs 28 needs elpa-eglot; 29+ has it
-# built in), as root, when emacs or its eglot is missing. Best effort, like neovim above.
-emacs:
-	@if ! { command -v emacs >/dev/null 2>&1 && emacs --batch --eval "(require 'eglot)" >/dev/null 2>&1; }; then \
-		if command -v apt-get >/dev/null 2>&1 && [ "$$(id -u)" = 0 ]; then \
-			{ apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq emacs-nox elpa-eglot; } >/dev/null 2>&1 \
-				|| echo "apt-get could not install emacs-nox elpa-eglot: the Emacs client test will skip"; \
-		else \
-			echo "emacs with eglot missing and apt-get unavailable (or not root): the Emacs client test will skip"; \
-		fi; \
-	fi
+	$(call npm-packages,$(SARIF_VALIDATOR),SARIF multitool test)
 
 bench: $(STAMP)
 	$(PY) benchmarks/run.py
@@ -88,13 +62,28 @@ fuzz: $(STAMP)
 clean:
 	rm -rf $(VENV) build dist *.egg-info
 
-# Headless Chromium for the review page's browser test: Debian's package, as root, when missing.
-chromium:
-	@if ! command -v chromium >/dev/null 2>&1; then \
+# Debian packages for the end-to-end client tests, as root, when the tool is missing. Best effort:
+# without apt-get or root, or offline, the test that needs the tool skips and says why.
+# $(call debian,CHECK,PACKAGES,TEST): install PACKAGES unless the shell command CHECK succeeds.
+define debian
+	@if ! { $(1); } >/dev/null 2>&1; then \
 		if command -v apt-get >/dev/null 2>&1 && [ "$$(id -u)" = 0 ]; then \
-			{ apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq chromium; } >/dev/null 2>&1 \
-				|| echo "apt-get could not install chromium: the review page's browser test will skip"; \
+			{ apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq $(2); } >/dev/null 2>&1 \
+				|| echo "apt-get could not install $(2): the $(3) will skip"; \
 		else \
-			echo "chromium missing and apt-get unavailable (or not root): the review page's browser test will skip"; \
+			echo "$(2) missing and apt-get unavailable (or not root): the $(3) will skip"; \
 		fi; \
 	fi
+endef
+
+# Headless Neovim for the Neovim client test.
+neovim:
+	$(call debian,command -v nvim,neovim,Neovim client test)
+
+# Emacs with eglot for the Emacs client test (Emacs 28 needs elpa-eglot; 29+ has it built in).
+emacs:
+	$(call debian,command -v emacs && emacs --batch --eval "(require 'eglot)",emacs-nox elpa-eglot,Emacs client test)
+
+# Headless Chromium for the review page's browser test.
+chromium:
+	$(call debian,command -v chromium,chromium,review page's browser test)
