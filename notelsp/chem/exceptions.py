@@ -69,7 +69,7 @@ def _divalent_group_14(atom, ligands, symbols, bonded, lone_pairs, odd, charge):
             UNCERTAIN,
             "CH2 has a triplet ground state (H-C-H about 132°) and a singlet close above it (about 102°); "
             "the formula does not say which one is meant",
-            "ASE G2 set (Curtiss et al. 1997): CH2 singlet 102.1°, triplet 131.6°")
+            "ASE G2 set (Curtiss et al. 1997): CH2 singlet 102.1°, triplet 131.6°", lone_pair_sites=1)
     if atom.period == 2:
         window = SiteAngle("any", 120.0, 100.0, 112.0, "smaller", reason)
         hybrid = "sp2"

@@ -20,7 +20,7 @@ from typing import Iterator, Literal
 from .. import elements
 from .markdown import MarkdownStructure, Segment, line_starts, markdown_structure
 from .model import Found, ParsedBody, ScannedDocument, Span
-from .transform import MAX_BODY_CHARS, parse_body
+from .transform import MAX_BODY_CHARS, NEAR_MISS_CHARS, near_miss_body, parse_body
 
 DocumentKind = Literal["markdown", "text"]
 _START = itemgetter(0)
@@ -170,6 +170,11 @@ def _find_inline_groups(text: str, skips: tuple[tuple[int, int], ...]) -> Groups
                 break
         inner = text.find("{", opening + 1, closing)
         if inner != -1:  # nested braces: only the innermost group can be an annotation
+            meant = _latex_charge_group(text, skips, skip_starts, opening, inner, closing)
+            if meant is not None:  # {SO4^{2-}: ...}: an annotation written with a LaTeX charge
+                found.append(meant)
+                opening, closing = text.find("{", meant[1] + 1), meant[1]
+                continue
             opening = inner
             continue
         if text.find("\n", opening, closing) != -1:  # a segment of several lines: no group spans two
@@ -193,11 +198,26 @@ def _inline_candidate(
         return None
     body = text[opening + 1 : closing]
     if not _begins_with_element(body[:8]):
-        return None
+        return near_miss_body(body) if body[:1].isalpha() else None
     parsed = parse_body(body[: MAX_BODY_CHARS + 1] if len(body) > MAX_BODY_CHARS else body)
     if not parsed.has_colon and parsed.errors and len(body) <= MAX_BODY_CHARS:
-        return None  # not a formula on its own: some other use of braces
+        return near_miss_body(body)  # some other use of braces, unless clearly meant as an annotation
     return parsed
+
+
+def _latex_charge_group(
+    text: str, skips: tuple[tuple[int, int], ...], skip_starts: list[int], opening: int, inner: int, closing: int
+) -> tuple[int, int, ParsedBody] | None:
+    """(opening, outer closing, parse) when ``{...^{2-}...}`` is an annotation meant with a LaTeX charge."""
+    if text[inner - 1] != "^" or (opening > 0 and text[opening - 1] in _NOT_BEFORE_ANNOTATION):
+        return None
+    outer = text.find("}", closing + 1, closing + 1 + NEAR_MISS_CHARS)  # bounded: linear on any line
+    if outer == -1 or text.find("{", closing + 1, outer) != -1 or text.find("\n", opening, outer) != -1:
+        return None
+    if skips and _overlaps_skip(opening, outer, skips, skip_starts):
+        return None
+    parsed = near_miss_body(text[opening + 1 : outer])
+    return (opening, outer, parsed) if parsed is not None else None
 
 
 def _block_found(text: str, line: Span) -> Found | None:

@@ -675,3 +675,89 @@ def split_claims(text: str) -> list[str]:
             start = index + 1
     pieces.append(text[start:])
     return pieces
+
+
+# --- brace groups meant as annotations but not written as one --------------------------
+
+NOT_READ = "annotation-not-read"
+NEAR_MISS_CHARS = MAX_FORMULA_CHARS * 2  # a longer brace group is not looked at as a slip
+_MAX_REPAIRED_LETTERS = 12  # letters re-cased at most: ≤ 233 readings of a run, each a cached parse
+
+
+@lru_cache(maxsize=4096)
+def near_miss_body(body: str) -> ParsedBody | None:
+    """A parse for a brace group that is clearly meant as an annotation but is not one, else None.
+
+    Two slips are recognised: element symbols in the wrong case (``{CLF3}``, ``{sf4: linear}``)
+    and a LaTeX charge (``{SO4^{2-}: octahedral}``).  The group counts as meant only when the
+    repaired text reads cleanly, with claims that read cleanly too, or, without claims, a formula
+    with a count in it (so ``{no}`` or ``{x: 1}`` in prose are left alone).  The parse carries one
+    error, ``annotation-not-read``, over the whole body, with the repaired text as its fix when
+    there is exactly one reading.
+    """
+    if len(body) > NEAR_MISS_CHARS:
+        return None
+    formula_text, colon, claims_text = body.partition(":")
+    if colon:
+        claims = parse_body("H:" + claims_text) if claims_text.strip() else None  # the claims alone
+        if claims is None or not claims.claims or claims.errors:
+            return None
+    elif not any(char.isdigit() for char in formula_text):
+        return None
+    if sum(char.isalpha() for char in formula_text) < 2 and not any(char.isdigit() for char in formula_text):
+        return None  # one letter ({c: polar}) is too little to say a species was meant
+    readings = []
+    for formula in _formula_readings(formula_text.strip()):
+        repaired = body.replace(formula_text.strip(), formula, 1)
+        parsed = parse_body(repaired)
+        if parsed.formulas and not parsed.errors and repaired != body:
+            readings.append(repaired)
+    if not readings:
+        return None
+    # nh3 is NH3 and co2 CO2, not nihonium or cobalt: prefer readings of main-group elements up to Rn
+    common = [reading for reading in readings if all(_common(symbol) for symbol in re.findall(r"[A-Z][a-z]?", reading))]
+    readings = common if len(common) == 1 else readings
+    span = Span(0, len(body))
+    if len(readings) == 1:
+        message = (f"'{{{body}}}' is not read as an annotation (element symbols are case-sensitive, charges are "
+                   f"written ^2-); did you mean '{{{readings[0]}}}'?")
+        error = NotationError(NOT_READ, message, span, readings[0])
+    else:
+        shown = ", ".join(f"'{{{reading}}}'" for reading in readings[:3])
+        error = NotationError(NOT_READ, f"'{{{body}}}' is not read as an annotation; did you mean one of {shown}?", span)
+    return ParsedBody((), (), (error,), bool(colon))
+
+
+def _common(symbol: str) -> bool:
+    element = elements.element(symbol)
+    return element.is_main_group and element.number <= 86
+
+
+def _formula_readings(text: str) -> list[str]:
+    """The ways of writing ``text`` with element symbols cased right and a LaTeX charge plain."""
+    text = re.sub(r"\^\{([0-9]*[+\-−])\}", r"^\1", text)  # SO4^{2-} -> SO4^2-
+    letters = sum(char.isalpha() for char in text)
+    if letters > _MAX_REPAIRED_LETTERS:
+        return []
+    pieces = re.split(r"([A-Za-z]+)", text)
+    readings = [""]
+    for index, piece in enumerate(pieces):
+        if index % 2 == 0:  # between letter runs: digits, brackets, charges as written
+            readings = [reading + piece for reading in readings]
+        else:
+            readings = [reading + run for reading in readings for run in _symbol_runs(piece)]
+    return readings
+
+
+def _symbol_runs(letters: str) -> list[str]:
+    """Every split of a run of letters into element symbols (one or two letters, cased as symbols)."""
+    if not letters:
+        return [""]
+    found = []
+    for size in (1, 2):
+        head = letters[:size]
+        if len(head) == size:
+            symbol = head[0].upper() + head[1:].lower()
+            if elements.is_symbol(symbol):
+                found.extend(symbol + rest for rest in _symbol_runs(letters[size:]))
+    return found

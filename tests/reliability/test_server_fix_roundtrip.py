@@ -34,6 +34,7 @@ FIXABLE_NOTES = {
     "wrong-axe-class": "{ClF3: AX3E}",
     "wrong-unpaired-electrons": "{NO2: diamagnetic}",
     "charge-missing": "{ClO4}",
+    "annotation-not-read": "{sf4: seesaw}",
 }
 # Put each note in a line of prose with a wide character before it, so the edit's columns matter.
 PROSE = "Line one.\r\nWe write \N{TEST TUBE} {note} in the log; ok\r\n"

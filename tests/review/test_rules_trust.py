@@ -82,3 +82,19 @@ def test_unknown_claim_suggestions_read_as_claims():
     (error,) = parse_body("H2O: trigonal planr").errors
     claim, errors = parse_claim(error.suggestion)
     assert claim is not None and not errors
+
+
+@pytest.mark.parametrize("note, fixed", [
+    ("{CLF3}", "ClF3"), ("{sf4: seesaw}", "SF4: seesaw"), ("{SO4^{2-}: tetrahedral}", "SO4^2-: tetrahedral"),
+    ("{nh3: trigonal pyramidal}", "NH3: trigonal pyramidal"), ("{co2: linear}", "CO2: linear"),
+])
+def test_a_brace_group_clearly_meant_as_an_annotation_is_named(note, fixed):
+    (finding,) = with_code(note, "annotation-not-read")
+    assert [fix.replacement for fix in finding.fixes] == [fixed]
+
+
+@pytest.mark.parametrize("note", [
+    "{a, b}", "{#id .class}", "{x: 1}", "{no}", "{c: polar}", "$x^{2}$", "\\frac{a}{b}", "{\"k\": 1}", "{If you}",
+])
+def test_other_braces_stay_unread_and_unremarked(note):
+    assert not review(f"Text {note} here.").findings

@@ -42,6 +42,19 @@ def unknown_element(context: RuleContext) -> Iterator[Finding]:
     yield from _errors_with_code(context)
 
 
+@rule("annotation-not-read", severity=Severity.WARNING)
+def annotation_not_read(context: RuleContext) -> Iterator[Finding]:
+    """A brace group clearly meant as an annotation is not read as one, so nothing in it is checked.
+
+    Element symbols are case-sensitive and a charge is written ``^2-``: ``{CLF3}``,
+    ``{sf4: linear}`` and ``{SO4^{2-}: octahedral}`` would otherwise be skipped without a
+    word.  A group counts as meant only when the corrected text reads cleanly (with
+    claims that read too, or a formula with a count); the fix writes the correction
+    when there is exactly one.
+    """
+    yield from _errors_with_code(context)
+
+
 @rule("malformed-formula", severity=Severity.ERROR)
 def malformed_formula(context: RuleContext) -> Iterator[Finding]:
     """A formula that cannot be read: a stray character, an unclosed bracket, a zero count.
