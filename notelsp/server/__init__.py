@@ -28,6 +28,17 @@ def parse_tcp(address: str) -> tuple[str, int]:
     return host, int(port_text)
 
 
+def _one_client(host: str, port: int):
+    """Listen on the loopback address and take one client's connection (as stdio serves one client)."""
+    import socket
+
+    family, _, _, _, where = socket.getaddrinfo(host, port, type=socket.SOCK_STREAM)[0]
+    with socket.create_server(where, family=family) as listener:
+        print(f"notelsp serve: listening on {host}:{port}", file=sys.stderr, flush=True)
+        connection, _ = listener.accept()
+    return connection
+
+
 def run(tcp: str | None = None) -> int:
     """Serve the language server on stdio (default) or on ``tcp`` = ``HOST:PORT`` (loopback)."""
     address = None
@@ -44,7 +55,9 @@ def run(tcp: str | None = None) -> int:
 
         server = build_server()
         settle_long_lived_objects()
-        server.start_tcp(*address)
+        connection = _one_client(*address)
+        # the same bounded frame reader and writer as stdio (pygls's own TCP reader has no bounds)
+        server.start_io(stdin=connection.makefile("rb"), stdout=connection.makefile("wb"))
         return 0
     from .exiting import leave_now
     from .quickstart import ClientInput, answer_initialize
