@@ -32,6 +32,7 @@ from .framing import FrameInput
 from .protocol import NoteProtocol, report_wire_fault
 
 log = logging.getLogger("notelsp.server")
+SETTINGS_FILE = ".notelsp.toml"
 
 # Registered in this order; optional modules are skipped when they cannot be imported.
 FEATURES = (
@@ -69,6 +70,8 @@ class NoteServer(LanguageServer):
         self.settings = Settings()
         self.file_settings: Settings | None = None  # from .notelsp.toml, the base editor settings apply over
         self.pushed_settings: dict | None = None  # the "notelsp" section of the last didChangeConfiguration
+        self.editor_values: dict | None = None  # the editor's section in force (pulled, else pushed)
+        self.folder_settings: dict[Path, tuple[Settings, list[str]]] = {}  # nested .notelsp.toml files, read once
         self.root: Path | None = None
         self.pending: dict[str, asyncio.Task] = {}  # uri -> its scheduled diagnostics publication
 
@@ -96,13 +99,46 @@ class NoteServer(LanguageServer):
         """The document's path relative to the workspace root (or its name), None for non-file URIs."""
         return _relative_path(uri, self.root)
 
+    def settings_for(self, uri: str) -> tuple[Settings, str | None]:
+        """The settings that govern a document and its path relative to their file's folder.
+
+        As on the command line, the nearest ``.notelsp.toml`` between the document's folder and
+        the workspace root governs it, with the editor's section over it; the root's own (or
+        none) is ``self.settings``.  Nested files are read once, until settings are reloaded.
+        """
+        relative = self.relative_path(uri)
+        if relative is None or self.root is None or "/" not in relative or urlparse(uri).scheme not in ("file", ""):
+            return self.settings, relative
+        parts = relative.split("/")
+        for depth in range(len(parts) - 1, 0, -1):
+            folder = self.root.joinpath(*parts[:depth])
+            if (folder / SETTINGS_FILE).is_file():
+                return self._folder_settings(folder), "/".join(parts[depth:])
+        return self.settings, relative
+
+    def _folder_settings(self, folder: Path) -> Settings:
+        from ..notefiles import read_settings_file
+        from ..review.settings import settings_from_mapping
+
+        if folder not in self.folder_settings:
+            settings, problems = read_settings_file(folder / SETTINGS_FILE)
+            messages = [f"{folder / SETTINGS_FILE}: {problem}" for problem in problems]
+            if self.editor_values:
+                settings, more = settings_from_mapping(self.editor_values, settings)
+                messages += [f"editor setting: {problem}" for problem in more]
+            self.folder_settings[folder] = (settings, messages)
+            if messages:
+                self.show("notelsp settings problem (defaults kept for these): " + "; ".join(messages),
+                          types.MessageType.Error)
+        return self.folder_settings[folder][0]
+
     def is_reviewed(self, uri: str) -> bool:
         from .notebooks import reviewed_cell  # a notebook's cell is judged by its notebook, not its URI
 
         if (cell := reviewed_cell(self, uri)) is not None:
             return cell
-        relative = self.relative_path(uri)
-        return relative is not None and is_reviewed(relative, self.settings)
+        settings, relative = self.settings_for(uri)
+        return relative is not None and is_reviewed(relative, settings)
 
     def review_kind(self, uri: str):
         """How a reviewed document is read: a notebook's cell as Markdown, a file by its name."""
@@ -128,11 +164,12 @@ class NoteServer(LanguageServer):
         review = None
         if self.is_reviewed(uri):
             try:
+                settings = self.settings_for(uri)[0]
                 if around is None:
-                    review = cached_review(text, self.review_kind(uri), self.settings)
+                    review = cached_review(text, self.review_kind(uri), settings)
                 else:
                     span = index.span(around) if isinstance(around, types.Range) else Span(*[index.offset(around)] * 2)
-                    review = review_around(text, self.review_kind(uri), self.settings, span)
+                    review = review_around(text, self.review_kind(uri), settings, span)
             except Exception:
                 log.exception("review of %s failed", uri)
         return HeldDocument(uri, document.version, text, index, review)

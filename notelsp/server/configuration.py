@@ -1,5 +1,8 @@
 """Settings: ``.notelsp.toml`` at the workspace root, then the editor's "notelsp" section over it.
 
+A document below a folder with a ``.notelsp.toml`` of its own is governed by that nearest file
+instead, as on the command line (``NoteServer.settings_for``).
+
 The editor's section comes two ways.  Clients that answer
 ``workspace/configuration`` are asked for it (pulled) at start-up and on every
 ``workspace/didChangeConfiguration``.  Clients that only push (Kate 22.12,
@@ -81,7 +84,8 @@ async def reload_settings(ls: NoteServer) -> None:
     if values:
         settings, more = settings_from_mapping(values, settings)
         problems += [f"editor setting {SECTION}: {p}" for p in more]
-    ls.settings = settings
+    ls.settings, ls.editor_values = settings, dict(values) if values else None
+    ls.folder_settings.clear()  # nested settings files are read again, with the editor's section over them
     if problems:
         ls.show("notelsp settings problem (defaults kept for these): " + "; ".join(problems), types.MessageType.Error)
     from .diagnostics import refresh_all

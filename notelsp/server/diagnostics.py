@@ -155,7 +155,7 @@ async def _publish_later(ls: NoteServer, uri: str, delay: float) -> None:
     diagnostics: list[dict[str, Any]] = []
     whole = True
     if ls.is_reviewed(uri):
-        kind, settings, encoding = ls.review_kind(uri), ls.settings, ls.encoding()
+        kind, settings, encoding = ls.review_kind(uri), ls.settings_for(uri)[0], ls.encoding()
         first, stopped_at = True, 0
         while first or not whole:  # a review past its budget: what it has first, then the rest slice by slice
             try:

@@ -38,7 +38,7 @@ def register(server: NoteServer) -> None:
         markdown = hover_markdown(held.review, annotation, offset)
         if not markdown:
             return None
-        if ls.settings.hover_pictures and renders_images(ls):
+        if ls.settings_for(params.text_document.uri)[0].hover_pictures and renders_images(ls):
             pictures = [picture_markdown(analysis, angles_claimed(annotation))
                         for analysis in held.review.analyses_of(annotation)]
             markdown = "\n\n".join([p for p in pictures if p] + [markdown])

@@ -12,7 +12,7 @@ def register(server: NoteServer) -> None:
     @server.feature(types.TEXT_DOCUMENT_INLAY_HINT)
     def inlay_hints(ls: NoteServer, params: types.InlayHintParams) -> list[types.InlayHint]:
         held = ls.held(params.text_document.uri)
-        if held is None or held.review is None or not ls.settings.inlay_hints:
+        if held is None or held.review is None or not ls.settings_for(params.text_document.uri)[0].inlay_hints:
             return []
         wanted = held.index.span(params.range)
         hints = []
