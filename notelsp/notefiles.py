@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import codecs
 import os
+import re
 import stat
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -43,7 +44,7 @@ class ReadText:
 
 def read_text(path: str | os.PathLike[str], limit: int) -> ReadText:
     """The UTF-8 text of a regular file (a leading byte-order mark dropped, line breaks kept), at most ``limit`` bytes."""
-    data, truncated = _read_bytes(path, limit)
+    data, truncated = read_bytes(path, limit)
     decoder = codecs.getincrementaldecoder("utf-8-sig")()
     try:
         # Not final when truncated: a character cut by the cap is left out, not an error.
@@ -53,11 +54,15 @@ def read_text(path: str | os.PathLike[str], limit: int) -> ReadText:
     return ReadText(text, truncated)
 
 
-def _read_bytes(path: str | os.PathLike[str], limit: int) -> tuple[bytes, bool]:
+def read_bytes(path: str | os.PathLike[str], limit: int, follow_links: bool = True) -> tuple[bytes, bool]:
+    """(at most ``limit`` bytes of a regular file, whether it held more); raises :class:`FileProblem`.
+
+    ``follow_links=False`` refuses a symbolic link (cache entries: a link could point anywhere).
+    """
     try:
-        before = os.stat(path)
+        before = os.stat(path) if follow_links else os.lstat(path)
         _must_be_regular(before.st_mode)
-        descriptor = os.open(path, os.O_RDONLY | _NONBLOCKING)
+        descriptor = os.open(path, os.O_RDONLY | _NONBLOCKING | (0 if follow_links else getattr(os, "O_NOFOLLOW", 0)))
     except OSError as error:
         raise FileProblem(error.strerror or str(error)) from None
     try:
@@ -234,3 +239,33 @@ def _shown_path(path: Path) -> str:
     except ValueError:  # another drive
         return str(path)
     return str(path) if relative.startswith("..") else relative
+
+
+def json_nesting_depth(text: str) -> int:
+    """How deeply ``text``'s JSON arrays and objects nest, counted without parsing (strings skipped).
+
+    Checked before ``json.loads``, whose recursion a deeply nested file would exhaust.  An
+    unterminated string leaves its brackets counted: the depth can only come out larger, and
+    such text is no JSON anyway.
+    """
+    depth = deepest = 0
+    for bracket in _JSON_BRACKET.findall(_JSON_STRING.sub("", text)):
+        if bracket in "[{":
+            depth += 1
+            deepest = max(deepest, depth)
+        else:
+            depth -= 1
+    return deepest
+
+
+_JSON_STRING = re.compile(r'"(?:[^"\\]|\\.)*"')
+_JSON_BRACKET = re.compile(r"[\[\]{}]")
+
+
+def read_cache_entry(path: str | os.PathLike[str], limit: int) -> bytes | None:
+    """The bytes of a cache entry: a regular file (no link) of at most ``limit`` bytes; else None. Never blocks."""
+    try:
+        data, truncated = read_bytes(path, limit, follow_links=False)
+    except FileProblem:
+        return None
+    return None if truncated else data

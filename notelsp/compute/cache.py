@@ -23,13 +23,13 @@ from __future__ import annotations
 import hashlib
 import json
 import os
-import re
 import stat
 import tempfile
 import time
 from pathlib import Path
 from typing import Any
 
+from ..notefiles import json_nesting_depth, read_cache_entry
 from .geometry import Structure
 from .method import METHOD, versions
 from .result import BadResult, ComputedGeometry, geometry_from_dict, geometry_to_dict
@@ -43,8 +43,6 @@ EVICT_EVERY = 32  # stores between size checks in one process
 STALE_TEMPORARY_S = 3600.0  # a temporary file this old belongs to a writer that died
 
 _stores = 0
-_STRING = re.compile(r'"(?:[^"\\]|\\.)*"')
-_BRACKET = re.compile(r"[\[\]{}]")
 
 
 def cache_root() -> Path:
@@ -68,49 +66,13 @@ def entry_path(structure: Structure) -> Path:
     return cache_root() / f"{digest}.json"
 
 
-def read_entry(path: Path) -> bytes | None:
-    """The bytes of ``path`` if it is a regular file of at most MAX_ENTRY_BYTES; else None. Never blocks."""
-    try:
-        if not stat.S_ISREG(os.lstat(path).st_mode):
-            return None
-        descriptor = os.open(path, os.O_RDONLY | os.O_NONBLOCK | getattr(os, "O_NOFOLLOW", 0))
-    except OSError:
-        return None
-    try:
-        status = os.fstat(descriptor)
-        if not stat.S_ISREG(status.st_mode) or status.st_size > MAX_ENTRY_BYTES:
-            return None
-        data = os.read(descriptor, MAX_ENTRY_BYTES + 1)
-        return data if len(data) <= MAX_ENTRY_BYTES else None
-    except OSError:
-        return None
-    finally:
-        os.close(descriptor)
-
-
-def nesting_depth(text: str) -> int:
-    """How deeply ``text``'s JSON arrays and objects nest, counted without parsing (strings skipped).
-
-    An unterminated string leaves its brackets counted: the depth can only come out larger, and such
-    text is no JSON anyway.
-    """
-    depth = deepest = 0
-    for bracket in _BRACKET.findall(_STRING.sub("", text)):
-        if bracket in "[{":
-            depth += 1
-            deepest = max(deepest, depth)
-        else:
-            depth -= 1
-    return deepest
-
-
 def parse_entry(data: bytes, structure: Structure) -> ComputedGeometry:
     """The entry's geometry if it is well formed and is the result for ``structure``; BadResult otherwise."""
     try:
         text = data.decode("utf-8")
     except UnicodeDecodeError as error:
         raise BadResult("not UTF-8") from error
-    if nesting_depth(text) > MAX_NESTING:
+    if json_nesting_depth(text) > MAX_NESTING:
         raise BadResult(f"nested deeper than {MAX_NESTING}")
     try:
         payload = json.loads(text)
@@ -132,7 +94,7 @@ def parse_entry(data: bytes, structure: Structure) -> ComputedGeometry:
 def load(structure: Structure) -> ComputedGeometry | None:
     """The stored result for ``structure``, or None when absent or unusable (then it is recomputed)."""
     path = entry_path(structure)
-    data = read_entry(path)
+    data = read_cache_entry(path, MAX_ENTRY_BYTES)
     if data is None:
         return None
     try:

@@ -16,11 +16,11 @@ import hashlib
 import json
 import math
 import os
-import stat
 import tempfile
 from pathlib import Path
 from typing import Any
 
+from ..notefiles import json_nesting_depth, read_cache_entry
 from .protocol import OptimisedIsomer, isomer_to_dict
 from .start import StartingGeometry
 
@@ -51,53 +51,6 @@ def cache_path(species: str, isomer: str, level: str) -> Path:
     key = json.dumps([FORMAT, species, isomer, level])
     digest = hashlib.sha256(key.encode()).hexdigest()[:24]
     return cache_root() / "crosscheck" / f"{digest}.json"
-
-
-def read_entry(path: Path) -> bytes | None:
-    """The bytes of ``path`` if it is a regular file of at most MAX_ENTRY_BYTES; else None.
-
-    Checked before opening (a FIFO would block the open or the read, a device
-    could do anything) and again on the open file (the name may have changed
-    in between); never follows a symlink, never blocks.
-    """
-    try:
-        if not stat.S_ISREG(os.lstat(path).st_mode):
-            return None
-        descriptor = os.open(path, os.O_RDONLY | os.O_NONBLOCK | getattr(os, "O_NOFOLLOW", 0))
-    except OSError:
-        return None
-    try:
-        status = os.fstat(descriptor)
-        if not stat.S_ISREG(status.st_mode) or status.st_size > MAX_ENTRY_BYTES:
-            return None
-        data = os.read(descriptor, MAX_ENTRY_BYTES + 1)
-        return data if len(data) <= MAX_ENTRY_BYTES else None
-    except OSError:
-        return None
-    finally:
-        os.close(descriptor)
-
-
-def nesting_depth(text: str) -> int:
-    """How deeply ``text``'s JSON arrays and objects nest, counted without parsing (strings skipped)."""
-    depth = deepest = 0
-    in_string = escaped = False
-    for char in text:
-        if in_string:
-            if escaped:
-                escaped = False
-            elif char == "\\":
-                escaped = True
-            elif char == '"':
-                in_string = False
-        elif char == '"':
-            in_string = True
-        elif char in "[{":
-            depth += 1
-            deepest = max(deepest, depth)
-        elif char in "]}":
-            depth -= 1
-    return deepest
 
 
 def _text(value: Any, what: str) -> str:
@@ -169,7 +122,7 @@ def parse_entry(data: bytes, key: list[Any], expected: StartingGeometry | None =
         text = data.decode("utf-8")
     except UnicodeDecodeError as error:
         raise BadEntry("not UTF-8") from error
-    if nesting_depth(text) > MAX_NESTING:
+    if json_nesting_depth(text) > MAX_NESTING:
         raise BadEntry(f"nested deeper than {MAX_NESTING}")
     try:
         payload = json.loads(text)
@@ -182,7 +135,7 @@ def parse_entry(data: bytes, key: list[Any], expected: StartingGeometry | None =
 
 def load(species: str, isomer: str, level: str, expected: StartingGeometry | None = None) -> OptimisedIsomer | None:
     """The stored result, or None when absent or not usable (then it is simply recomputed)."""
-    data = read_entry(cache_path(species, isomer, level))
+    data = read_cache_entry(cache_path(species, isomer, level), MAX_ENTRY_BYTES)
     if data is None:
         return None
     try:
