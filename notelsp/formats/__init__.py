@@ -16,11 +16,6 @@ from ..notation.model import Span
 from ..review.document import DocumentReview
 from ..review.findings import Severity
 
-# Where the project's documentation lives: the SARIF log's informationUri and each rule's helpUri
-# (the README's rule list) are made from it, and only from here.
-PROJECT_URL = "https://github.com/notelsp/notelsp"
-README_URL = f"{PROJECT_URL}/blob/main/README.md"
-
 CautionMode = Literal["summary", "per-file", "none"]
 SEVERITY_ORDER = (Severity.ERROR, Severity.WARNING, Severity.INFORMATION, Severity.HINT)
 

@@ -23,7 +23,8 @@ from .. import __version__
 from ..review.document import kind_of_path
 from ..review.findings import Severity
 from ..review.rules import RULES, Rule
-from . import PROJECT_URL, README_URL, CheckedRun, Region, ReportedFile, RunTally, Unreadable, json_text
+from ..review.describe import PROJECT_URL, rule_doc_url  # the project's address, in one place
+from . import CheckedRun, Region, ReportedFile, RunTally, Unreadable, json_text
 
 SCHEMA_URI = "https://json.schemastore.org/sarif-2.1.0.json"
 SOURCE_ROOT = "%SRCROOT%"
@@ -49,12 +50,6 @@ def plain_text(doc: str) -> str:
     return _LITERAL.sub(r"\1", doc)
 
 
-def readme_anchor(rule: Rule) -> str:
-    """The anchor GitHub gives the rule's README heading "`code` (severity)": lower case,
-    punctuation other than hyphens dropped, spaces made hyphens (common practice, no source)."""
-    return f"{rule.code}-{rule.severity.value}"
-
-
 def rule_descriptor(rule: Rule) -> dict[str, Any]:
     plain = plain_text(rule.doc)
     return {
@@ -65,7 +60,7 @@ def rule_descriptor(rule: Rule) -> dict[str, Any]:
             "text": f"{rule.title}\n\n{plain}" if plain else rule.title,
             "markdown": f"**{rule.title}**\n\n{rule.doc}" if rule.doc else f"**{rule.title}**",
         },
-        "helpUri": f"{README_URL}#{readme_anchor(rule)}",
+        "helpUri": rule_doc_url(rule.code),
         "defaultConfiguration": {"level": _LEVELS[rule.severity]},
     }
 

@@ -16,7 +16,8 @@ from .rules import RULES
 
 # Where each rule is explained to people: the README's rule list (written by rules_markdown below).
 # One base for every consumer (LSP codeDescription, SARIF helpUri), one anchor per rule.
-RULES_DOC_URL = "https://github.com/notelsp/notelsp/blob/main/README.md"
+PROJECT_URL = "https://github.com/notelsp/notelsp"
+RULES_DOC_URL = f"{PROJECT_URL}/blob/main/README.md"
 
 def _angles(values: Any) -> str:
     if not values:
