@@ -14,6 +14,7 @@ cap, so a FIFO, a device or an endless file never hangs or exhausts a run.
 from __future__ import annotations
 
 import codecs
+import json
 import os
 import re
 import stat
@@ -269,3 +270,17 @@ def read_cache_entry(path: str | os.PathLike[str], limit: int) -> bytes | None:
     except FileProblem:
         return None
     return None if truncated else data
+
+
+def bounded_json(data: bytes, max_nesting: int):
+    """JSON from ``data``, refused (ValueError with the reason) unless UTF-8 and nested at most ``max_nesting``."""
+    try:
+        text = data.decode("utf-8")
+    except UnicodeDecodeError as error:
+        raise ValueError("not UTF-8") from error
+    if json_nesting_depth(text) > max_nesting:
+        raise ValueError(f"nested deeper than {max_nesting}")
+    try:
+        return json.loads(text)
+    except (ValueError, RecursionError) as error:
+        raise ValueError(f"not JSON: {error}") from error

@@ -29,7 +29,7 @@ import time
 from pathlib import Path
 from typing import Any
 
-from ..notefiles import json_nesting_depth, read_cache_entry
+from ..notefiles import bounded_json, read_cache_entry
 from .geometry import Structure
 from .method import METHOD, versions
 from .result import BadResult, ComputedGeometry, geometry_from_dict, geometry_to_dict
@@ -69,15 +69,9 @@ def entry_path(structure: Structure) -> Path:
 def parse_entry(data: bytes, structure: Structure) -> ComputedGeometry:
     """The entry's geometry if it is well formed and is the result for ``structure``; BadResult otherwise."""
     try:
-        text = data.decode("utf-8")
-    except UnicodeDecodeError as error:
-        raise BadResult("not UTF-8") from error
-    if json_nesting_depth(text) > MAX_NESTING:
-        raise BadResult(f"nested deeper than {MAX_NESTING}")
-    try:
-        payload = json.loads(text)
-    except (ValueError, RecursionError) as error:
-        raise BadResult(f"not JSON: {error}") from error
+        payload = bounded_json(data, MAX_NESTING)
+    except ValueError as error:
+        raise BadResult(str(error)) from error
     if not isinstance(payload, dict) or payload.get("key") != entry_key(structure):
         raise BadResult("not an entry for this structure, method and versions")
     found = geometry_from_dict(payload.get("geometry"))

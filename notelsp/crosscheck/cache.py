@@ -20,7 +20,7 @@ import tempfile
 from pathlib import Path
 from typing import Any
 
-from ..notefiles import json_nesting_depth, read_cache_entry
+from ..notefiles import bounded_json, read_cache_entry
 from .protocol import OptimisedIsomer, isomer_to_dict
 from .start import StartingGeometry
 
@@ -119,15 +119,9 @@ def checked_isomer(raw: Any, expected: StartingGeometry | None = None) -> Optimi
 def parse_entry(data: bytes, key: list[Any], expected: StartingGeometry | None = None) -> OptimisedIsomer:
     """A stored entry's isomer, checked (BadEntry for anything else)."""
     try:
-        text = data.decode("utf-8")
-    except UnicodeDecodeError as error:
-        raise BadEntry("not UTF-8") from error
-    if json_nesting_depth(text) > MAX_NESTING:
-        raise BadEntry(f"nested deeper than {MAX_NESTING}")
-    try:
-        payload = json.loads(text)
-    except (ValueError, RecursionError) as error:
-        raise BadEntry(f"not JSON: {error}") from error
+        payload = bounded_json(data, MAX_NESTING)
+    except ValueError as error:
+        raise BadEntry(str(error)) from error
     if not isinstance(payload, dict) or payload.get("key") != key:
         raise BadEntry("not an entry for this species, isomer and level")
     return checked_isomer(payload.get("isomer"), expected)
