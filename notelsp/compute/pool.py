@@ -160,8 +160,9 @@ class GeometryPool:
                     if job.attempts < 2:
                         pending.appendleft(job)
                         continue
-                    answer = failure(job.structure, "its worker process ended twice (the memory or CPU-time bound, "
-                                                     "or a crash in the library)")
+                    answer = failure(job.structure, f"its worker process ended twice (the memory bound of "
+                                                     f"{self.limits.memory_bytes >> 20} MB of address space, the "
+                                                     f"CPU-time bound, or a crash in the library)")
                 slots[job.species][job.slot] = answer
                 if self.use_cache:
                     cache.store(answer)
@@ -189,6 +190,9 @@ class GeometryPool:
             raw = future.result()
         except BrokenProcessPool:
             return None
+        except MemoryError:  # wherever in the worker the bound was reached (loading, unpickling, the job)
+            return failure(job.structure, f"the worker ran out of its memory bound "
+                                          f"({self.limits.memory_bytes >> 20} MB of address space)")
         except Exception as error:  # anything the worker let through (it should not): a failure, not a crash
             return failure(job.structure, f"the worker raised {type(error).__name__}: {str(error)[:300]}")
         try:

@@ -51,7 +51,8 @@ def test_a_wall_time_too_short_is_a_failure_with_the_reason():
 def test_a_worker_that_cannot_live_within_its_memory_is_a_failure_not_a_hang():
     found = compute_species("NH3", Limits(memory_bytes=64 << 20), use_cache=False)
     (only,) = found.structures
-    assert "memory bound (64 MB" in only.failed and found.lowest is None
+    # the bound is reached while loading, unpickling or computing, or the kernel ends the worker: each a failure
+    assert "memory bound" in only.failed and "64 MB" in only.failed and found.lowest is None
 
 
 def test_cancel_stops_the_structures_not_yet_started():
