@@ -9,7 +9,6 @@ warm-up.  tests/reliability/test_soak.py holds the same session to under 10 %.
 
 from __future__ import annotations
 
-import string
 import sys
 import tempfile
 import time
@@ -17,33 +16,13 @@ from pathlib import Path
 
 from lsp_client import StdioClient
 
+sys.path.insert(0, str(Path(__file__).resolve().parent.parent))  # the session the soak test drives
+from tests.reliability.soak_notes import EDITED_LINE, SEED, new_annotation  # noqa: E402
+
 NOTELSP = [sys.executable, "-m", "notelsp.server"]
 EDITS = 20_000
 PER_EDIT = 3
 WARM_UP = 12_000
-FORMULAS = ("ClF3", "SF4", "H2O", "NH3", "XeF4", "PCl5", "BF3", "CH4", "SF6", "IF5", "PCl3F2", "BrF5")
-SHAPES = ("bent", "linear", "tetrahedral", "t-shaped", "seesaw", "octahedral", "trigonal planar")
-SEED = "# Day of notes\n\nFirst {ClF3: t-shaped}.\n\nTyped here\n\nLast {SF4: seesaw}.\n"
-EDITED_LINE = 4
-
-
-def _word(number: int) -> str:
-    letters, number = "", number + 26 * 26
-    while number:
-        number, digit = divmod(number, 26)
-        letters += string.ascii_lowercase[digit]
-    return letters
-
-
-def new_annotation(number: int) -> str:
-    formula = FORMULAS[number % len(FORMULAS)]
-    if number % 3 == 0:
-        return f"{{{formula}: {SHAPES[number % len(SHAPES)]}, angle {90 + number % 60}.{number // 60}°}}"
-    if number % 3 == 1:
-        return f"{{{formula}: {_word(number)}}}"
-    return f"{{{formula}: F-X-F {100 + number % 70}.{number // 70}°, {number % 3} lone pairs}}"
-
-
 def measure() -> dict[str, str]:
     with tempfile.TemporaryDirectory() as folder:
         root = Path(folder)

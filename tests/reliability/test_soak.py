@@ -11,42 +11,15 @@ each, 50,000 of them warm-up.
 
 from __future__ import annotations
 
-import string
 import sys
 
 import pytest
 
-from .scale import FUZZ, scaled, tried
+from .scale import scaled, tried
+from .soak_notes import EDITED_LINE, SEED, new_annotation
 from .stdio_wire import start_server
 
 pytestmark = pytest.mark.skipif(not sys.platform.startswith("linux"), reason="reads /proc/<pid>/status")
-
-FORMULAS = ("ClF3", "SF4", "H2O", "NH3", "XeF4", "PCl5", "BF3", "CH4", "SF6", "IF5", "PCl3F2", "BrF5")
-SHAPES = ("bent", "linear", "tetrahedral", "t-shaped", "seesaw", "octahedral", "trigonal planar")
-SEED = "# Day of notes\n\nFirst {ClF3: t-shaped}.\n\nTyped here\n\nLast {SF4: seesaw}.\n"
-EDITED_LINE = 4  # "Typed here": each edit replaces this line
-
-
-def _word(number: int) -> str:
-    """A distinct letters-only word per number (an unknown claim word: looked up, suggested, never kept)."""
-    letters = ""
-    number += 26 * 26
-    while number:
-        number, digit = divmod(number, 26)
-        letters += string.ascii_lowercase[digit]
-    return letters
-
-
-def new_annotation(number: int) -> str:
-    """An annotation text no earlier number gives: claims right and wrong, angles, unknown words."""
-    formula = FORMULAS[number % len(FORMULAS)]
-    kind = number % 3
-    if kind == 0:
-        return f"{{{formula}: {SHAPES[number % len(SHAPES)]}, angle {90 + number % 60}.{number // 60}°}}"
-    if kind == 1:
-        return f"{{{formula}: {_word(number)}}}"
-    return f"{{{formula}: F-X-F {100 + number % 70}.{number // 70}°, {number % 3} lone pairs}}"
-
 
 def rss_kib(pid: int) -> int:
     with open(f"/proc/{pid}/status", encoding="ascii") as status:
