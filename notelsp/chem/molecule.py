@@ -1,0 +1,91 @@
+"""The molecule as a graph: atoms with formal charges and unpaired electrons,
+bonds with orders.  Every reader (today's formulas, condensed structural
+formulas, SMILES) builds one of these, and every centre's analysis reads it.
+
+Atoms are named the way a chemist reads them back: the element with its place
+among that element's atoms as written (``C1``, ``C2``), or the bare symbol when
+the element occurs once (``N`` in CH3CN).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from functools import cached_property
+
+from .. import elements
+
+@dataclass(frozen=True, slots=True)
+class MoleculeAtom:
+    element: str
+    label: str  # "C2", or "N" when the element occurs once
+    charge: int = 0  # formal charge
+    unpaired: int = 0  # radical electrons
+
+
+@dataclass(frozen=True, slots=True)
+class MoleculeBond:
+    first: int  # atom indices, first < second
+    second: int
+    order: int  # 1, 2 or 3; an aromatic or delocalised bond carries one Kekulé order here
+    delocalised: bool = False  # part of an aromatic ring or a delocalised group (carboxylate, nitro)
+
+
+@dataclass(frozen=True)
+class Molecule:
+    atoms: tuple[MoleculeAtom, ...]
+    bonds: tuple[MoleculeBond, ...]
+    source: str = ""  # the text it was read from
+
+    @property
+    def charge(self) -> int:
+        return sum(atom.charge for atom in self.atoms)
+
+    @cached_property
+    def _adjacency(self) -> tuple[tuple[tuple[int, int], ...], ...]:
+        around: list[list[tuple[int, int]]] = [[] for _ in self.atoms]
+        for bond in self.bonds:
+            around[bond.first].append((bond.second, bond.order))
+            around[bond.second].append((bond.first, bond.order))
+        return tuple(tuple(a) for a in around)
+
+    def neighbours(self, index: int) -> tuple[int, ...]:
+        return tuple(other for other, _ in self._adjacency[index])
+
+    def bonds_of(self, index: int) -> tuple[tuple[int, int], ...]:
+        """(neighbour index, bond order) for every bond of atom ``index``."""
+        return self._adjacency[index]
+
+    def bond_order_sum(self, index: int) -> int:
+        return sum(order for _, order in self._adjacency[index])
+
+    def nonbonding_electrons(self, index: int) -> int | None:
+        """Valence electrons left on the atom after its charge and bonds; None outside the main group."""
+        atom = self.atoms[index]
+        valence = elements.element(atom.element).valence_electrons
+        if valence is None:
+            return None
+        return valence - atom.charge - self.bond_order_sum(index)
+
+    def index_of(self, label: str) -> int | None:
+        for index, atom in enumerate(self.atoms):
+            if atom.label == label:
+                return index
+        return None
+
+    @property
+    def centres(self) -> tuple[int, ...]:
+        """Every atom with two or more neighbours: each has a shape and bond angles."""
+        return tuple(i for i in range(len(self.atoms)) if len(self._adjacency[i]) >= 2)
+
+
+def label_atoms(symbols: list[str] | tuple[str, ...]) -> tuple[str, ...]:
+    """Labels in the order written: an element that occurs once keeps its bare symbol."""
+    totals: dict[str, int] = {}
+    for symbol in symbols:
+        totals[symbol] = totals.get(symbol, 0) + 1
+    seen: dict[str, int] = {}
+    labels = []
+    for symbol in symbols:
+        seen[symbol] = seen.get(symbol, 0) + 1
+        labels.append(symbol if totals[symbol] == 1 else f"{symbol}{seen[symbol]}")
+    return tuple(labels)
