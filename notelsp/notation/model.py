@@ -48,7 +48,15 @@ class Group:
     span: Span
 
 
-Part = Atom | Group
+@dataclass(frozen=True, slots=True)
+class BondMark:
+    """An explicit bond written between two atoms of a formula: ``=`` in CH2=CH2, ``≡`` or ``#`` in HC≡CH."""
+
+    order: int  # 2 or 3 (a written single bond, "-", is 1)
+    span: Span
+
+
+Part = Atom | Group | BondMark
 
 
 @dataclass(frozen=True, slots=True)
@@ -61,6 +69,7 @@ class Formula:
     span: Span
     centre: str | None = None  # explicit centre from ``@X``
     bracketed: bool = False
+    smiles: str | None = None  # set when the species was given as SMILES (then ``parts`` is empty)
 
     def composition(self) -> dict[str, int]:
         """Element symbol -> total count, in order of first appearance."""
@@ -70,7 +79,7 @@ class Formula:
             for part in parts:
                 if isinstance(part, Atom):
                     counts[part.symbol] = counts.get(part.symbol, 0) + part.count * times
-                else:
+                elif isinstance(part, Group):
                     add(part.parts, part.count * times)
 
         add(self.parts, 1)
