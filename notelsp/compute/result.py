@@ -104,6 +104,13 @@ class ComputedSpecies:
     cached: int = 0  # structures that came from the disk cache
 
     @property
+    def angle_uncertainty_deg(self) -> float:
+        """The method's measured half-width for bond angles (see method.ANGLE_UNCERTAINTY_DEG)."""
+        from .method import ANGLE_UNCERTAINTY_DEG, METHOD
+
+        return ANGLE_UNCERTAINTY_DEG if self.method == METHOD else float("inf")
+
+    @property
     def lowest(self) -> ComputedGeometry | None:
         """The usable structure of lowest energy, None when none is usable."""
         usable = [s for s in self.structures if s.usable]

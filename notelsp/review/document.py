@@ -11,7 +11,8 @@ from __future__ import annotations
 from bisect import bisect_left, bisect_right
 from dataclasses import dataclass
 from functools import cache, cached_property
-from typing import Any, Callable, Literal
+from collections.abc import Mapping
+from typing import TYPE_CHECKING, Any, Callable, Literal
 
 from ..notation import scan
 from ..notation.scanner import scan_pieces, scan_pieces_around
@@ -19,6 +20,9 @@ from ..notation.model import Annotation, Found, ScannedDocument, Span, annotatio
 from ..positions import LineIndex
 from .findings import Finding
 from .settings import Settings
+
+if TYPE_CHECKING:  # only the type: the review reads computed results, it never computes
+    from ..compute.result import ComputedSpecies
 
 DocumentKind = Literal["markdown", "text"]
 
@@ -87,13 +91,37 @@ def analyses_of(annotation: Annotation) -> tuple[Any, ...]:
     return tuple(analyse(formula) for formula in annotation.formulas)
 
 
+def species_to_compute(scanned: ScannedDocument | DocumentReview) -> tuple[str, ...]:
+    """Every species the annotations name, as written (``Formula.text``), each once, in document order.
+
+    These are the keys of ``review_text``'s ``computed``: compute each (``GeometryPool.compute``
+    takes the text as it is) and pass the results keyed by the same text.
+    """
+    found = scanned.scanned.found if isinstance(scanned, DocumentReview) else scanned.found
+    seen: dict[str, None] = {}
+    for entry in found:
+        for formula in entry[4].formulas:
+            seen.setdefault(formula.text, None)
+    return tuple(seen)
+
+
+Computed = Mapping[str, "ComputedSpecies"]
+
+
 def review_text(
     text: str,
     kind: DocumentKind = "markdown",
     settings: Settings | None = None,
     more_time: Callable[[int], bool] | None = None,
+    computed: Computed | None = None,
 ) -> DocumentReview:
     """Every finding of ``text``.
+
+    ``computed`` holds computed geometries (``notelsp.compute.ComputedSpecies``) keyed by the
+    species as written in the annotations (``Formula.text``; :func:`species_to_compute` lists
+    them).  Claims about species found there are also judged against the calculation; a species
+    missing from it is judged by the rules alone.  The review never computes: results are an
+    input, and the findings stay a function of the arguments (caches key on them).
 
     With ``more_time`` the review may stop early: it is asked before each further line
     holding annotations, with the offset of that line's start, and when it answers False
@@ -102,7 +130,8 @@ def review_text(
     keeps the clock: the review itself stays a function of its arguments and the answers.
     """
     settings = settings or Settings()
-    key = (text, kind, settings)
+    computed = computed or {}
+    key = (text, kind, settings, _computed_key(computed))
     finished = _finished.get(key)
     if finished is not None:
         return finished
@@ -114,7 +143,7 @@ def review_text(
     stopped_at = None
     if more_time is None:
         scanned = scan(scanned_text, kind)
-        _review_found(scanned.found, text, settings, reviews, placed, findings)
+        _review_found(scanned.found, text, settings, reviews, placed, findings, computed)
     else:
         found: list[Found] = []
         for piece in scan_pieces(scanned_text, kind):
@@ -124,7 +153,7 @@ def review_text(
                 if line_start >= found[-1][1] and not more_time(line_start):
                     stopped_at = reviewed = line_start
                     break
-            _review_found(piece, text, settings, reviews, placed, findings)
+            _review_found(piece, text, settings, reviews, placed, findings, computed)
             found.extend(piece)
         scanned = ScannedDocument(tuple(found))
     # Each annotation's findings are sorted and lie inside it, and annotations neither overlap
@@ -141,14 +170,17 @@ def review_text(
     return review
 
 
-def review_around(text: str, kind: DocumentKind, settings: Settings, span: Span) -> DocumentReview:
+def review_around(text: str, kind: DocumentKind, settings: Settings, span: Span,
+                  computed: Computed | None = None) -> DocumentReview:
     """The review of only the annotations ``span`` touches (for hover and code actions).
 
     The complete review when one of this text is at hand; otherwise only the pieces
     (segments, bonding-block lines) holding the span are scanned and reviewed, so asking
-    about one annotation never waits for a whole large note.
+    about one annotation never waits for a whole large note.  ``computed``: as for
+    :func:`review_text`.
     """
-    finished = _finished.get((text, kind, settings))
+    computed = computed or {}
+    finished = _finished.get((text, kind, settings, _computed_key(computed)))
     if finished is not None:
         return finished
     rules = _chemistry()[1]
@@ -158,23 +190,33 @@ def review_around(text: str, kind: DocumentKind, settings: Settings, span: Span)
     for piece in scan_pieces_around(scanned_text, kind, span.start, span.end):
         found.extend(f for f in piece if f[0] <= span.end and span.start <= f[1])
     findings: list[Finding] = []
-    _review_found(found, text, settings, reviews, placed, findings)
+    _review_found(found, text, settings, reviews, placed, findings, computed)
     return DocumentReview(text, ScannedDocument(tuple(found)), tuple(findings), None)
 
 
+def _computed_key(computed: Computed) -> tuple:
+    """``computed`` as a hashable value (results are frozen values, compared by content)."""
+    return tuple(sorted(computed.items(), key=lambda item: item[0])) if computed else ()
+
+
 def _review_found(found_in_order, text: str, settings: Settings, reviews: "Relative", placed: "Placed",
-                  findings: list[Finding]) -> None:
+                  findings: list[Finding], computed: Computed) -> None:
     """Append the placed findings of each annotation (in document order) to ``findings``."""
     for found in found_in_order:
-        start, end, _, _, _, form = found
+        start, end, _, _, parsed, form = found
         source = text[start:end]
-        relative = reviews.get((source, form))
+        # An annotation's findings depend on its text, form and settings, and on the computed
+        # results of its own species: those join the cache key (nothing when none is computed).
+        own = tuple(computed.get(f.text) for f in parsed.formulas) if computed else ()
+        if not any(own):
+            own = ()
+        relative = reviews.get((source, form, own))
         if relative is None:
             if len(reviews) >= _REVIEWS_LIMIT:  # full: the oldest goes (see _evict_oldest)
                 _evict_oldest(reviews)
-            relative = reviews[(source, form)] = _review_relative(_relative_annotation(found), settings)
+            relative = reviews[(source, form, own)] = _review_relative(_relative_annotation(found), settings, own)
         if relative:  # most annotations have no findings: nothing to place
-            key = (source, form, start)
+            key = (source, form, start, own)
             here = placed.get(key)
             if here is None:
                 if len(placed) >= _REVIEWS_LIMIT:
@@ -200,7 +242,7 @@ def _ORDER(finding: Finding) -> tuple[int, int, str]:
 # The last few complete reviews, oldest first: a review finished in slices (see ``more_time``)
 # is found here by whoever asks next (the server's hover, actions, pulled diagnostics).
 _FINISHED_LIMIT = 8
-_finished: dict[tuple[str, str, Settings], DocumentReview] = {}
+_finished: dict[tuple[str, str, Settings, tuple], DocumentReview] = {}
 
 
 # The findings of each annotation text (offsets from the annotation's start), per settings.
@@ -208,8 +250,10 @@ _finished: dict[tuple[str, str, Settings], DocumentReview] = {}
 # them, the same findings placed at an offset: after an edit, the annotations before it are
 # where they were, and their findings are taken as they are.
 _REVIEWS_LIMIT = 20_000
-Relative = dict[tuple[str, str], tuple[Finding, ...]]
-Placed = dict[tuple[str, str, int], tuple[Finding, ...]]
+# Keys end with the annotation's computed results (one per formula, None where not computed; ()
+# when none is), so a review with computed results never reuses findings made without them.
+Relative = dict[tuple[str, str, tuple], tuple[Finding, ...]]
+Placed = dict[tuple[str, str, int, tuple], tuple[Finding, ...]]
 _reviews: dict[Settings, tuple[Relative, Placed]] = {}
 
 
@@ -254,13 +298,17 @@ def _relative_annotation(found: Found) -> Annotation:
     return annotation_of((0, end - start, body_start - start, body_end - start, parsed, form))
 
 
-def _review_relative(annotation: Annotation, settings: Settings) -> tuple[Finding, ...]:
-    """Run every enabled rule on one annotation (placed as if it were the whole text)."""
+def _review_relative(annotation: Annotation, settings: Settings,
+                     computed: tuple["ComputedSpecies | None", ...] = ()) -> tuple[Finding, ...]:
+    """Run every enabled rule on one annotation (placed as if it were the whole text).
+
+    ``computed``: one computed result (or None) per formula of the annotation, or () for none.
+    """
     rules = _chemistry()[1]
     analyses = analyses_of(annotation)
     found: list[Finding] = []
     for claim in (None, *annotation.claims):
         for rule in rules.rules_for(claim):
             if settings.enabled(rule.code):
-                found.extend(rule.check(rules.RuleContext(rule, annotation, claim, analyses, settings)))
+                found.extend(rule.check(rules.RuleContext(rule, annotation, claim, analyses, settings, computed)))
     return tuple(sorted(found, key=_ORDER))

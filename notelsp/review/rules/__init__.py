@@ -71,10 +71,17 @@ class RuleContext:
     claim: Claim | None
     analyses: tuple[Any, ...]  # one SpeciesAnalysis per formula of the annotation
     settings: Any  # notelsp.review.settings.Settings
+    # One notelsp.compute.ComputedSpecies (or None: not computed) per formula; () when none is.
+    # An input like the text: rules read it, nothing here computes.
+    computed: tuple[Any, ...] = ()
 
     @property
     def analysis(self) -> Any:
         return self.analyses[0] if self.analyses else None
+
+    def computed_of(self, index: int = 0) -> Any:
+        """The computed result of the annotation's ``index``-th formula, None where there is none."""
+        return self.computed[index] if index < len(self.computed) else None
 
     def finding(
         self,
