@@ -1,0 +1,115 @@
+"""The architecture's invariants, as DEVELOPERS.md states them, checked on the source itself.
+
+Imports are read with ``ast`` (nothing is imported to check them), so a rule that is broken
+fails here with the module and the import that breaks it.
+"""
+
+from __future__ import annotations
+
+import ast
+from pathlib import Path
+
+import pytest
+
+PACKAGE = Path(__file__).resolve().parent.parent / "notelsp"
+
+# What each analysis layer may not import: the layers above it, the protocol and the processes.
+EDGE = ("notelsp.server", "notelsp.cli", "notelsp.formats", "notelsp.crosscheck", "pygls", "lsprotocol",
+        "subprocess", "socket", "multiprocessing", "concurrent", "asyncio", "threading.Thread")
+FORBIDDEN = {
+    "notation": EDGE + ("notelsp.chem", "notelsp.review", "notelsp.compute"),
+    "chem": EDGE + ("notelsp.review", "notelsp.compute"),
+    "review": EDGE + ("notelsp.compute.pool", "notelsp.compute.worker", "notelsp.compute.geometry",
+                      "notelsp.compute.cache"),
+}
+# Reading files is allowed in one place of the analysis: the grammar's own file and its built-parser cache.
+IO_ALLOWED = {"notation/grammar.py"}
+IO_CALLS = {"open", "read_text", "read_bytes", "write_text", "write_bytes", "unlink", "mkdir",
+            "rename", "fdopen", "iterdir", "glob", "rglob", "listdir", "scandir", "getenv"}
+
+
+def module_name(path: Path) -> str:
+    parts = path.relative_to(PACKAGE.parent).with_suffix("").parts
+    return ".".join(parts[:-1] if parts[-1] == "__init__" else parts)
+
+
+def imported(path: Path, top_level_only: bool = False) -> set[str]:
+    """Every module ``path`` imports (relative imports resolved); only module-level ones if asked."""
+    tree = ast.parse(path.read_text(encoding="utf-8"))
+    package = module_name(path) if path.name == "__init__.py" else module_name(path).rpartition(".")[0]
+    nodes = tree.body if top_level_only else list(ast.walk(tree))
+    found: set[str] = set()
+    for node in nodes:
+        if isinstance(node, ast.Import):
+            found.update(alias.name for alias in node.names)
+        elif isinstance(node, ast.ImportFrom):
+            if node.level:
+                base = package.split(".")[: len(package.split(".")) - node.level + 1]
+                module = ".".join(base + ([node.module] if node.module else []))
+            else:
+                module = node.module or ""
+            found.add(module)
+            found.update(f"{module}.{alias.name}" for alias in node.names)
+    return found
+
+
+def layer_files(layer: str) -> list[Path]:
+    return sorted((PACKAGE / layer).rglob("*.py"))
+
+
+@pytest.mark.parametrize("layer", sorted(FORBIDDEN))
+def test_an_analysis_layer_imports_only_below_itself(layer: str) -> None:
+    broken = {
+        str(path.relative_to(PACKAGE)): sorted(m for m in imported(path)
+                                               if any(m == f or m.startswith(f + ".") for f in FORBIDDEN[layer]))
+        for path in layer_files(layer)
+    }
+    assert {k: v for k, v in broken.items() if v} == {}
+
+
+@pytest.mark.parametrize("layer", sorted(FORBIDDEN))
+def test_the_analysis_does_no_io(layer: str) -> None:
+    """Text in, findings out: files, the environment and processes belong to the CLI and the server."""
+    broken = {}
+    for path in layer_files(layer):
+        relative = str(path.relative_to(PACKAGE))
+        if relative in IO_ALLOWED:
+            continue
+        calls = []
+        for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+            if isinstance(node, ast.Call):
+                name = node.func.attr if isinstance(node.func, ast.Attribute) else getattr(node.func, "id", "")
+                if name in IO_CALLS:
+                    calls.append(f"{name}() line {node.lineno}")
+            elif isinstance(node, ast.Attribute) and node.attr == "environ":
+                calls.append(f"environ line {node.lineno}")
+        if calls:
+            broken[relative] = calls
+    assert broken == {}
+
+
+def test_no_import_cycle_between_modules() -> None:
+    """Module-level imports form no cycle anywhere in the package (imports inside functions are lazy loads)."""
+    modules = {module_name(p): p for p in PACKAGE.rglob("*.py")}
+    graph = {name: {m for m in imported(path, top_level_only=True) if m in modules and m != name}
+             for name, path in modules.items()}
+    # a package's __init__ importing its own submodules is how registries load: not a cycle of design
+    for name in graph:
+        graph[name] = {m for m in graph[name] if not m.startswith(name + ".")}
+    cycles: list[list[str]] = []
+    state: dict[str, int] = {}
+
+    def visit(node: str, trail: list[str]) -> None:
+        state[node] = 1
+        for nxt in sorted(graph[node]):
+            if state.get(nxt) == 1:
+                cycles.append(trail[trail.index(nxt):] + [nxt])
+            elif nxt not in state:
+                visit(nxt, trail + [nxt])
+        state[node] = 2
+
+    for start in sorted(graph):
+        if start not in state:
+            visit(start, [start])
+    assert cycles == []
+
