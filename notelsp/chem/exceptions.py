@@ -17,7 +17,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from .. import elements
-from .model import Ligand
+from .model import Conjugation, Ligand
 from .vsepr import TETRAHEDRAL_ANGLE, SiteAngle
 
 USUAL, UNCERTAIN = "usual", "uncertain"
@@ -43,13 +43,21 @@ class KnownException:
 
 
 def known_exception(central: str, ligands: tuple[Ligand, ...], lone_pairs: int, odd: int,
-                    charge: int) -> KnownException | None:
-    """The exception this centre falls under, or None where plain VSEPR holds."""
+                    charge: int, *, conjugation: Conjugation | None = None,
+                    bonds_known: bool = False) -> KnownException | None:
+    """The exception this centre falls under, or None where plain VSEPR holds.
+
+    ``bonds_known``: the ligands come from a molecule graph, so ``conjugation``
+    says for certain whether a lone pair sits beside a π system; without a
+    graph that is only guessed from the written groups.
+    """
     atom = elements.element(central)
     bonded = len(ligands)
     symbols = {l.symbol for l in ligands}
+    if conjugation is not None and not odd and lone_pairs and bonded + lone_pairs == 4:
+        return _conjugated_lone_pair(atom, bonded, conjugation)
     for check in (_divalent_group_14, _planar_radical_or_not, _inert_pair, _bent_dihalide, _silyl_centre,
-                  _conjugation_possible):
+                  *(() if bonds_known else (_conjugation_possible,))):
         found = check(atom, ligands, symbols, bonded, lone_pairs, odd, charge)
         if found is not None:
             return found
@@ -199,6 +207,28 @@ def _conjugation_possible(atom, ligands, symbols, bonded, lone_pairs, odd, charg
         "makes the centre planar and sp2; the written group does not show whether it is such a system",
         "common practice, no source",
         also_plausible=(planar,), lone_pair_sites=None, also_hybridization=("sp2",))
+
+
+def _conjugated_lone_pair(atom, bonded: int, conjugation: Conjugation) -> KnownException:
+    """A lone pair the molecule graph shows beside a π system: it moves into a p orbital, the centre turns sp2."""
+    if bonded == 3:
+        shape = "trigonal-planar"
+        window = SiteAngle("any", 120.0, 114.0, 126.0, "ideal",
+                           "the lone pair sits in a p orbital conjugated with the π system; the bonds lie in a plane")
+        pyramid_too = not conjugation.firmly_planar
+        also = ("trigonal-pyramidal",) if pyramid_too else ()
+        sites = 0
+    else:  # two neighbours: one lone pair in the p orbital, the other in the plane
+        shape = "bent"
+        window = SiteAngle("any", 120.0, 104.0, 125.0, "smaller",
+                           "one lone pair conjugated in a p orbital, the other in the plane of the bonds")
+        pyramid_too, also, sites = True, (), 1
+    return KnownException(
+        f"lone pair conjugated with a π system ({conjugation.kind})", shape, "trigonal-planar", "sp2", (window,),
+        USUAL,
+        conjugation.reason + ("; the centre may stay slightly pyramidal" if bonded == 3 and pyramid_too else ""),
+        "common practice, no source",
+        also_plausible=also, lone_pair_sites=sites, also_hybridization=("sp3",) if pyramid_too else ())
 
 
 def _may_be_pi_system(ligand: Ligand) -> bool:

@@ -20,4 +20,13 @@ class Ligand:
     electronegativity: float | None
 
 
+@dataclass(frozen=True, slots=True)
+class Conjugation:
+    """A lone pair that a molecule graph shows beside a π system (amide, aniline, enol, ester, pyrrole ring)."""
+
+    kind: str  # "amide-type", "aromatic ring", ...: what a chemist calls the arrangement
+    reason: str  # one sentence naming the atoms: why the centre is planar
+    firmly_planar: bool  # True where the planar form is well established (amides, aromatic ring atoms)
+
+
 LONE_PAIR = "lone-pair"  # the label of a lone-pair site in isomers and placement claims

@@ -9,7 +9,7 @@ the element occurs once (``N`` in CH3CN).
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from functools import cached_property
 
 from .. import elements
@@ -48,6 +48,22 @@ class Molecule:
             around[bond.second].append((bond.first, bond.order))
         return tuple(tuple(a) for a in around)
 
+    @cached_property
+    def _bond_lookup(self) -> dict[tuple[int, int], MoleculeBond]:
+        return {(bond.first, bond.second): bond for bond in self.bonds}
+
+    def bond_between(self, first: int, second: int) -> MoleculeBond | None:
+        return self._bond_lookup.get((min(first, second), max(first, second)))
+
+    def has_pi_bond(self, index: int, *, besides: int | None = None) -> bool:
+        """Whether atom ``index`` takes part in a double, triple or delocalised bond (not counting one to ``besides``)."""
+        for other, order in self._adjacency[index]:
+            if other == besides:
+                continue
+            if order >= 2 or self._bond_lookup[(min(index, other), max(index, other))].delocalised:
+                return True
+        return False
+
     def neighbours(self, index: int) -> tuple[int, ...]:
         return tuple(other for other, _ in self._adjacency[index])
 
@@ -73,6 +89,11 @@ class Molecule:
         return None
 
     @property
+    def terminals(self) -> tuple[int, ...]:
+        """Every atom with fewer than two neighbours: no bond angle of its own."""
+        return tuple(i for i in range(len(self.atoms)) if len(self._adjacency[i]) < 2)
+
+    @property
     def centres(self) -> tuple[int, ...]:
         """Every atom with two or more neighbours: each has a shape and bond angles."""
         return tuple(i for i in range(len(self.atoms)) if len(self._adjacency[i]) >= 2)
@@ -89,3 +110,33 @@ def label_atoms(symbols: list[str] | tuple[str, ...]) -> tuple[str, ...]:
         seen[symbol] = seen.get(symbol, 0) + 1
         labels.append(symbol if totals[symbol] == 1 else f"{symbol}{seen[symbol]}")
     return tuple(labels)
+
+
+def mark_delocalised_groups(atoms: tuple[MoleculeAtom, ...], bonds: tuple[MoleculeBond, ...]) -> tuple[MoleculeBond, ...]:
+    """Mark the bonds of groups whose Kekulé form hides equal bonds (carboxylate, nitro, sulfonate ...).
+
+    An atom with a double bond to a terminal atom and a single bond to a
+    terminal anion of the same element has two resonance forms that swap them,
+    so all those bonds are the same: delocalised.
+    """
+    terminal_count = [0] * len(atoms)
+    for bond in bonds:
+        terminal_count[bond.first] += 1
+        terminal_count[bond.second] += 1
+    around: dict[int, list[tuple[int, int]]] = {}
+    for position, bond in enumerate(bonds):
+        around.setdefault(bond.first, []).append((position, bond.second))
+        around.setdefault(bond.second, []).append((position, bond.first))
+    marked = set()
+    for centre, partners in around.items():
+        terminal = [(p, other) for p, other in partners if terminal_count[other] == 1]
+        for element in {atoms[other].element for _, other in terminal}:
+            same = [(p, other) for p, other in terminal if atoms[other].element == element]
+            doubly = [p for p, other in same if bonds[p].order == 2 and atoms[other].charge == 0]
+            anionic = [p for p, other in same if bonds[p].order == 1 and atoms[other].charge == -1]
+            if doubly and anionic:
+                marked.update(doubly + anionic)
+    if not marked:
+        return bonds
+    return tuple(replace(bond, delocalised=True) if position in marked else bond
+                 for position, bond in enumerate(bonds))

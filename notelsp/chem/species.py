@@ -11,7 +11,7 @@ from dataclasses import dataclass
 
 from .. import elements
 from ..notation.model import Atom, Formula, Group
-from .model import Ligand
+from .model import Conjugation, Ligand
 
 HALOGENS = frozenset({"F", "Cl", "Br", "I", "At"})
 
@@ -23,6 +23,10 @@ class CentreModel:
     central: str
     charge: int  # the charge carried by this centre (all of it for one centre)
     ligands: tuple[Ligand, ...]
+    label: str = ""  # the atom's label in a molecule graph ("C2"); empty for a formula's centre
+    bonds_known: bool = False  # the ligands come from a molecule graph: π systems beside the centre are known, not guessed
+    conjugation: Conjugation | None = None  # a lone pair here conjugated with a π system (graph only)
+    unpaired: int = 0  # unpaired electrons the molecule gives this atom (2 for a triplet carbene)
 
 
 @dataclass(frozen=True, slots=True)
