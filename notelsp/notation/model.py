@@ -8,7 +8,7 @@ never re-read the text to find where something was.
 from __future__ import annotations
 
 import dataclasses
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from functools import cache, cached_property
 from typing import Any, Literal
 
@@ -95,6 +95,12 @@ class Formula:
 class Claim:
     text: str
     span: Span
+    # The one atom the claim is about, named before it: "C2" in "C2 trigonal planar" (then
+    # ``text``/``span`` cover "trigonal planar" only, so a fix keeps the name). None: the species'
+    # centre, as in every claim without a name. A name is an element symbol, or the element with
+    # its place among that element's atoms as written (C1, C2, O1); the chemistry resolves it.
+    atom: str | None = field(default=None, kw_only=True)
+    atom_span: Span | None = field(default=None, kw_only=True)
 
 
 @dataclass(frozen=True, slots=True)
@@ -132,9 +138,12 @@ class PolarityClaim(Claim):
 class AngleClaim(Claim):
     low: float  # degrees; a single value has low == high
     high: float
-    atoms: tuple[str, str, str] | None = None  # ("H", "N", "H") for "H-N-H 107°"
+    # ("H", "N", "H") for "H-N-H 107°"; each is an element symbol, an atom's name ("C1") or a
+    # group's formula ("OH" in "H-C-OH"), as written
+    atoms: tuple[str, str, str] | None = None
     approximate: bool = False  # "~90°"
     allowance: float = 0.0  # degrees the writer's own uncertainty allows on each side (see Measured)
+    orders: tuple[int, int] = (1, 1)  # the two bonds as written: (2, 1) for "O=C-O"
 
 
 # A measurement's stated uncertainty becomes an allowance on each side of the value: a
@@ -146,9 +155,10 @@ ESD_COVERAGE = 3.0
 @dataclass(frozen=True, slots=True)
 class BondLengthValueClaim(Claim):
     angstrom: float  # the claimed length in ångström (pm and nm converted)
-    bond: tuple[str, str] | None = None  # ("C", "F") for "C-F 1.39 Å"; None: "bond length 1.39 Å"
+    bond: tuple[str, str] | None = None  # ("C", "F") for "C-F 1.39 Å", ("C1", "C2") for "C1-C2 1.50 Å"; None: "bond length 1.39 Å"
     allowance: float = 0.0  # ångström allowed on each side by the claim's own uncertainty
     approximate: bool = False
+    order: int = 1  # as written: 2 for "C=O 1.21 Å"
 
 
 @dataclass(frozen=True, slots=True)
@@ -182,6 +192,8 @@ class AngleOrderClaim(Claim):
     right: tuple[str, str, str]
     left_span: Span | None = None
     right_span: Span | None = None
+    left_orders: tuple[int, int] = (1, 1)  # bonds as written, as in AngleClaim.orders
+    right_orders: tuple[int, int] = (1, 1)
 
 
 @dataclass(frozen=True, slots=True)
@@ -202,8 +214,9 @@ class LonePairClaim(Claim):
 
 @dataclass(frozen=True, slots=True)
 class BondLengthClaim(Claim):
-    bond: tuple[str, str]  # ("C", "C")
+    bond: tuple[str, str]  # ("C", "C"); atom names ("C1") or groups as in AngleClaim.atoms
     relation: Literal["shorter", "longer", "equal"]  # first species relative to the second
+    order: int = 1  # as written: 2 for "C=C shorter"
 
 
 @dataclass(frozen=True, slots=True)

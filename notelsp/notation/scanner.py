@@ -20,7 +20,7 @@ from typing import Iterator, Literal
 from .. import elements
 from .markdown import MarkdownStructure, Segment, line_starts, markdown_structure
 from .model import Found, ParsedBody, ScannedDocument, Span
-from .transform import MAX_BODY_CHARS, NEAR_MISS_CHARS, near_miss_body, parse_body
+from .transform import MAX_BODY_CHARS, NEAR_MISS_CHARS, near_miss_body, parse_body, starts_with_smiles
 
 DocumentKind = Literal["markdown", "text"]
 _START = itemgetter(0)
@@ -118,7 +118,7 @@ def _overlaps_skip(opening: int, closing: int, skips: tuple[tuple[int, int], ...
 
 def _begins_with_element(body: str) -> bool:
     head = body.lstrip()
-    return head.startswith("[") or elements.is_symbol(head[:2]) or elements.is_symbol(head[:1])
+    return head.startswith("[") or elements.is_symbol(head[:2]) or elements.is_symbol(head[:1]) or starts_with_smiles(head)
 
 
 def _segment_found(segment: Segment) -> list[Found]:
@@ -197,11 +197,11 @@ def _inline_candidate(
     if skips and _overlaps_skip(opening, closing, skips, skip_starts):
         return None
     body = text[opening + 1 : closing]
-    if not _begins_with_element(body[:8]):
+    if not _begins_with_element(body[:16]):
         return near_miss_body(body) if body[:1].isalpha() else None
     parsed = parse_body(body[: MAX_BODY_CHARS + 1] if len(body) > MAX_BODY_CHARS else body)
-    if not parsed.has_colon and parsed.errors and len(body) <= MAX_BODY_CHARS:
-        return near_miss_body(body)  # some other use of braces, unless clearly meant as an annotation
+    if not parsed.has_colon and parsed.errors and len(body) <= MAX_BODY_CHARS and not starts_with_smiles(body):
+        return near_miss_body(body)  # some other use of braces, unless clearly meant as an annotation (smiles "...)
     return parsed
 
 
@@ -232,8 +232,20 @@ def _block_found(text: str, line: Span) -> Found | None:
 @lru_cache(maxsize=_SEGMENT_CACHE_SIZE)
 def _block_body(content: str) -> tuple[int, int, ParsedBody] | None:
     """(offset, length, parse) of the body of one bonding-block line: the line without its comment."""
-    code = content.split("#", 1)[0]
+    code = content[:_comment_start(content)]
     body = code.strip()
     if not body:
         return None
     return len(code) - len(code.lstrip()), len(body), parse_body(body[: MAX_BODY_CHARS + 1])
+
+
+def _comment_start(line: str) -> int:
+    """Where a bonding-block line's comment begins: a '#' at the start or after a space, outside a
+    quoted SMILES (``HC#CH`` and ``smiles "C#N"`` use '#' as a triple bond); len(line) if none."""
+    quoted = False
+    for index, char in enumerate(line):
+        if char == '"':
+            quoted = not quoted
+        elif char == "#" and not quoted and (index == 0 or line[index - 1] in " \t"):
+            return index
+    return len(line)

@@ -8,6 +8,7 @@ re-parses only the annotations whose text changed.
 
 from __future__ import annotations
 
+import dataclasses
 import difflib
 import re
 from functools import lru_cache
@@ -24,6 +25,7 @@ from .model import (
     Atom,
     AxeClaim,
     BondLengthClaim,
+    BondMark,
     BondLengthValueClaim,
     Claim,
     CouplingClaim,
@@ -31,6 +33,7 @@ from .model import (
     Formula,
     Group,
     HybridizationClaim,
+    Part,
     IndexClaim,
     IsomerCountClaim,
     LonePairClaim,
@@ -52,6 +55,7 @@ MAX_COUNT = 99
 MAX_CHARGE = 8
 MAX_NESTING = 4
 MAX_FORMULA_CHARS = 64
+MAX_SMILES_CHARS = 256  # a SMILES spells out every atom and bond, so it runs longer than a formula
 MAX_BODY_CHARS = 2000
 
 
@@ -103,6 +107,7 @@ def _unclosed_bracket(text: str) -> int | None:
 
 # --- formulas -------------------------------------------------------------------
 
+_BOND_ORDERS = {"-": 1, "=": 2, "≡": 3, "#": 3}
 _SUBSCRIPTS = str.maketrans("₀₁₂₃₄₅₆₇₈₉⁰¹²³⁴⁵⁶⁷⁸⁹", "01234567890123456789")
 
 
@@ -141,14 +146,29 @@ class _FormulaBuilder:
             self.error("formula-too-large", f"count {value} is above {MAX_COUNT}", _span(token, self.offset))
         return value
 
-    def parts(self, tree: Tree, depth: int) -> tuple[Atom | Group, ...]:
-        built: list[Atom | Group] = []
+    def parts(self, tree: Tree, depth: int) -> tuple[Part, ...]:
+        built: list[Part] = []
         for part in tree.children:
             if part.data == "atom":
                 built.append(self.atom(part, built[-1] if built and isinstance(built[-1], Atom) else None))
+            elif part.data == "bond_mark":
+                built.append(self.bond_mark(part.children[0], built, depth))
             else:
                 built.append(self.group(part, depth + 1))
+        if built and isinstance(built[-1], BondMark):
+            self.error("malformed-formula", f"bond '{self.text[built[-1].span.start - self.offset]}' "
+                       "with no atom after it", built[-1].span)
         return tuple(built)
+
+    def bond_mark(self, token: Token, before: list[Part], depth: int) -> BondMark:
+        """An explicit bond: between two atoms or groups, or opening a group (the bond to the atom before it)."""
+        span = _span(token, self.offset)
+        written = str(token)
+        if before and isinstance(before[-1], BondMark):
+            self.error("malformed-formula", f"two bonds in a row in '{self.text.strip()}'", span)
+        elif not before and depth == 0:
+            self.error("malformed-formula", f"bond '{written}' with no atom before it", span)
+        return BondMark(_BOND_ORDERS[written], span)
 
     def atom(self, tree: Tree, previous: Atom | None) -> Atom:
         token = tree.children[0]
@@ -201,6 +221,20 @@ class _FormulaBuilder:
             self.error("malformed-formula", "space inside a charge", span)
         return sign * magnitude
 
+    def smiles(self, tree: Tree) -> Formula:
+        """``smiles "..."``: the SMILES between the quotes, kept verbatim for the chemistry to read."""
+        quoted = tree.children[1]
+        smiles = str(quoted)[1:-1]
+        span = Span(quoted.start_pos + 1 + self.offset, quoted.end_pos - 1 + self.offset)
+        if not smiles.strip():
+            self.error("malformed-formula", 'empty SMILES; write e.g. smiles "CC(=O)O"', _span(quoted, self.offset))
+        elif re.search(r"\s", smiles):
+            at = span.start + re.search(r"\s", smiles).start()
+            self.error("malformed-formula", f"space inside SMILES '{smiles.strip()}' (a SMILES is one word)", Span(at, at + 1))
+        elif len(smiles) > MAX_SMILES_CHARS:
+            self.error("formula-too-large", f"SMILES longer than {MAX_SMILES_CHARS} characters", span)
+        return Formula(smiles, (), 0, span, smiles=smiles)
+
     def formula(self, tree: Tree, centre_tree: Tree | None) -> Formula:
         bracketed = tree.data == "bracketed"
         children = tree.children
@@ -234,9 +268,11 @@ class _FormulaBuilder:
             self.error("malformed-formula", f"space inside formula '{core}'", Span(at, at + 1))
 
 
-def _symbols(part: Atom | Group) -> set[str]:
+def _symbols(part: Part) -> set[str]:
     if isinstance(part, Atom):
         return {part.symbol}
+    if isinstance(part, BondMark):
+        return set()
     return set().union(*(_symbols(inner) for inner in part.parts))
 
 
@@ -250,10 +286,15 @@ def parse_formulas(text: str, offset: int = 0) -> tuple[tuple[Formula, ...], tup
 def _formulas_at_start(text: str) -> tuple[tuple[Formula, ...], tuple[NotationError, ...]]:
     """``parse_formulas`` once per distinct text, spans from 0 (notes name the same species often)."""
     offset = 0
-    if len(text) > 2 * MAX_FORMULA_CHARS + 16:
+    limit = 2 * (MAX_SMILES_CHARS if _SMILES_MARKER.search(text) else MAX_FORMULA_CHARS) + 16
+    if len(text) > limit:
         start = len(text) - len(text.lstrip())
         return (), (NotationError("formula-too-large", f"formula longer than {MAX_FORMULA_CHARS} characters",
                                   Span(offset + start, offset + len(text.rstrip()))),)
+    unclosed = _unclosed_smiles(text)
+    if unclosed is not None:
+        return (), (NotationError("malformed-formula", f"the SMILES opened at '{text[unclosed:].strip()[:24]}' has no "
+                                  "closing '\"'; write e.g. smiles \"CC(=O)O\"", Span(unclosed, unclosed + 1)),)
     try:
         tree = parser().parse(text, start="formula_spec")
     except UnexpectedInput as error:
@@ -263,11 +304,51 @@ def _formulas_at_start(text: str) -> tuple[tuple[Formula, ...], tuple[NotationEr
     for species in tree.children:
         if isinstance(species, Token):  # 'vs'
             continue
+        if species.data == "smiles_species":
+            formulas.append(builder.smiles(species))
+            continue
         centre = species.children[1] if len(species.children) > 1 else None
         formulas.append(builder.formula(species.children[0], centre))
     if builder.errors:
         return (), tuple(builder.errors)  # the chemistry only sees formulas that read cleanly
     return tuple(formulas), ()
+
+
+# "smiles" (any case) then an opening quote: where a SMILES species begins
+_SMILES_MARKER = re.compile(r'(?i)(?<![A-Za-z])smiles[ \t]*"')
+
+
+def _unclosed_smiles(text: str) -> int | None:
+    """The offset of a SMILES' opening quote that is never closed, else None."""
+    quote = None
+    for index, char in enumerate(text):
+        if char == '"':
+            quote = index if quote is None else None
+    return quote
+
+
+def formula_end(body: str) -> int:
+    """Where the species of an annotation body end: its first ':' outside a quoted SMILES (SMILES
+    may contain ':'), else len(body). An unclosed quote cannot hide the claims: the first ':' then."""
+    if '"' not in body:
+        colon = body.find(":")
+        return colon if colon != -1 else len(body)
+    quoted = False
+    for index, char in enumerate(body):
+        if char == '"':
+            quoted = not quoted
+        elif char == ":" and not quoted:
+            return index
+    if quoted:  # never closed: split where the writer most likely meant
+        colon = body.find(":")
+        return colon if colon != -1 else len(body)
+    return len(body)
+
+
+def starts_with_smiles(body: str) -> bool:
+    """Whether an annotation body opens with a SMILES species (``smiles "...``)."""
+    match = _SMILES_MARKER.match(body.lstrip())
+    return match is not None
 
 
 def parse_formula(text: str) -> Formula:
@@ -288,6 +369,8 @@ _SHAPE_ALIASES = {"angular": "bent", "v-shaped": "bent", "vshaped": "bent", "see
 _D_FIRST_LABELS = {"dsp3": "sp3d", "d2sp3": "sp3d2"}  # older spellings of the same labels
 _LENGTH_UNITS = {"pm": 0.01, "nm": 10.0}  # to ångström; every other unit word is ångström
 _SUPERSCRIPT_DIGITS = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹", "0123456789")
+_LINK_ORDERS = {"DOUBLE_BOND": 2, "TRIPLE_BOND": 3}  # every dash is a single bond
+_ATOM_NAME = re.compile(r"([A-Z][a-z]?)([0-9]+)")
 _HYBRID_LABELS = {"sp", "sp2", "sp3", "sp3d", "sp3d2", "sp3d3"}
 _WORD_NUMBERS = {"a": 1, "an": 1, "one": 1, "single": 1, "two": 2, "three": 3, "four": 4, "five": 5, "six": 6, "no": 0}
 _EXAMPLES = {
@@ -428,30 +511,79 @@ class _ClaimBuilder:
             return None
         return IsomerCountClaim(self.text, self.span, count)  # type: ignore[arg-type]
 
-    def known_symbols(self, tree: Tree) -> list[Token] | None:
-        """The element tokens of an atom path ("H-N-H", "C-C"); None, with an error, if one is unknown."""
-        symbols = [token for token in tree.children if token.type == "SYMBOL"]
-        for token in symbols:
-            if not elements.is_symbol(str(token)):
-                message, suggestion = _unknown_element(str(token))
-                self.error("unknown-element", message, self.at(token), suggestion)
-                return None
-        return symbols
-
-    def triple(self, tree: Tree) -> tuple[tuple[str, str, str], Span] | None:
-        symbols = self.known_symbols(tree)
-        if symbols is None:
+    def node(self, tree: Tree) -> str | None:
+        """One atom of a claim as written: an element symbol, an atom's name or a group; None, with an error, if unreadable."""
+        token = tree.children[0]
+        word = str(token)
+        if token.type == "SYMBOL":
+            if elements.is_symbol(word):
+                return word
+            message, suggestion = _unknown_element(word)
+            self.error("unknown-element", message, self.at(token), suggestion)
             return None
-        return (str(symbols[0]), str(symbols[1]), str(symbols[2])), Span(self.at(symbols[0]).start, self.at(symbols[2]).end)
+        if token.type == "GROUP_NAME":  # "OH", "CH3": every symbol in it must be an element
+            for match in re.finditer(r"[A-Z][a-z]?", word):
+                if not elements.is_symbol(match.group()):
+                    message, suggestion = _unknown_element(match.group())
+                    at = self.at(token).start + match.start()
+                    self.error("unknown-element", message + f" in '{word}'", Span(at, at + len(match.group())))
+                    return None
+            return word
+        name = _ATOM_NAME.fullmatch(word)  # ATOM_NAME, or a POINT_GROUP token that may be one ("C2")
+        if name is None:
+            self.error("malformed-claim", f"'{word}' is a point group, not an atom; name an atom by its element and "
+                       "its place among that element's atoms, e.g. 'C2'", self.at(token))
+            return None
+        symbol, number = name.group(1), int(name.group(2))
+        if not elements.is_symbol(symbol):
+            message, suggestion = _unknown_element(symbol)
+            self.error("unknown-element", message + f" in '{word}'", self.at(token),
+                       suggestion + name.group(2) if suggestion and elements.is_symbol(suggestion) else None)
+            return None
+        if number == 0:
+            self.error("malformed-claim", f"atoms are numbered from 1, not '{word}'; write e.g. '{symbol}1'",
+                       self.at(token), f"{symbol}1")
+            return None
+        return word
+
+    def path(self, tree: Tree) -> tuple[tuple[str, ...], tuple[int, ...], Span] | None:
+        """The atoms of a bond or angle ("H-N-H", "O=C-O", "C1-C2"), the orders of the bonds between them, and its span."""
+        nodes = [child for child in tree.children if child.data == "node"]
+        names = [self.node(node) for node in nodes]
+        if any(name is None for name in names):
+            return None
+        orders = tuple(_LINK_ORDERS.get(link.children[0].type, 1) for link in tree.children if link.data == "link")
+        span = Span(self.at(nodes[0].children[0]).start, self.at(nodes[-1].children[0]).end)
+        return tuple(names), orders, span  # type: ignore[return-value]
+
+    def triple(self, tree: Tree) -> tuple[tuple[str, str, str], Span, tuple[int, int]] | None:
+        path = self.path(tree)
+        if path is None:
+            return None
+        names, orders, span = path
+        return (names[0], names[1], names[2]), span, (orders[0], orders[1])
+
+    def atom_claim(self, children: list) -> Claim | None:
+        """A claim about one named atom: the claim proper keeps its own text and span, the name its own."""
+        name = self.node(children[0])
+        scoped = children[-1]
+        claim = self.build(scoped)
+        if name is None or claim is None:
+            return None
+        tokens = _tokens(scoped)
+        start, end = tokens[0].start_pos, tokens[-1].end_pos
+        return dataclasses.replace(claim, text=self.text[start:end],  # token positions index the parsed (stripped) text
+                                   span=Span(start + self.offset, end + self.offset),
+                                   atom=name, atom_span=self.at(children[0].children[0]))
 
     def angle_claim(self, children: list) -> Claim | None:
-        atoms = None
+        atoms, orders = None, (1, 1)
         first = children[0]
         if isinstance(first, Tree) and first.data == "triple":
             triple = self.triple(first)
             if triple is None:
                 return None
-            atoms = triple[0]
+            atoms, orders = triple[0], triple[2]
         value = next(child for child in children if isinstance(child, Tree) and child.data == "angle_value")
         tokens = value.children
         approximate = any(isinstance(t, Token) and t.type == "APPROX" for t in tokens)
@@ -466,7 +598,7 @@ class _ClaimBuilder:
                 return None
         low, high = min(degrees), max(degrees)
         allowance = max((self.allowance(u, n) for u, n in _uncertainties(tokens)), default=0.0)
-        return AngleClaim(self.text, self.span, low, high, atoms, approximate, allowance)
+        return AngleClaim(self.text, self.span, low, high, atoms, approximate, allowance, orders)
 
     def allowance(self, tree: Tree, value: Token) -> float:
         """The allowance on each side that a written uncertainty gives ``value``."""
@@ -478,11 +610,12 @@ class _ClaimBuilder:
         return ESD_COVERAGE * float(number) / 10 ** decimals
 
     def length_claim(self, children: list) -> Claim | None:
-        bond = None
+        bond, order = None, 1
         if isinstance(children[0], Tree) and children[0].data == "bond":
-            bond = self.bond(children[0])
-            if bond is None:
+            written = self.bond(children[0])
+            if written is None:
                 return None
+            bond, order = written
         number = next(t for t in children if isinstance(t, Token) and t.type == "NUMBER")
         unit = next(t for t in children if isinstance(t, Token) and t.type == "LENGTH_UNIT")
         scale = _LENGTH_UNITS.get(str(unit), 1.0)
@@ -492,7 +625,7 @@ class _ClaimBuilder:
             return None
         allowance = max((self.allowance(u, n) * scale for u, n in _uncertainties(children)), default=0.0)
         approximate = any(isinstance(t, Token) and t.type == "APPROX" for t in children)
-        return BondLengthValueClaim(self.text, self.span, value, bond, allowance, approximate)
+        return BondLengthValueClaim(self.text, self.span, value, bond, allowance, approximate, order)
 
     def coupling_claim(self, children: list) -> Claim | None:
         written = str(children[0]).translate(_SUPERSCRIPT_DIGITS)
@@ -530,14 +663,16 @@ class _ClaimBuilder:
         left, relation, right = self.triple(children[0]), str(children[1]), self.triple(children[2])
         if left is None or right is None:
             return None
-        return AngleOrderClaim(self.text, self.span, left[0], relation, right[0], left[1], right[1])  # type: ignore[arg-type]
+        return AngleOrderClaim(self.text, self.span, left[0], relation, right[0], left[1], right[1],  # type: ignore[arg-type]
+                               left[2], right[2])
 
     def index_claim(self, children: list) -> Claim:
         return IndexClaim(self.text, self.span, float(children[-1]))
 
-    def bond(self, tree: Tree) -> tuple[str, str] | None:
-        symbols = self.known_symbols(tree)
-        return None if symbols is None else (str(symbols[0]), str(symbols[1]))
+    def bond(self, tree: Tree) -> tuple[tuple[str, str], int] | None:
+        """The two atoms of a written bond and its order (2 for "C=O")."""
+        path = self.path(tree)
+        return None if path is None else ((path[0][0], path[0][1]), path[1][0])
 
     def s_claim(self, children: list) -> Claim | None:
         number = next(token for token in children if isinstance(token, Token) and token.type == "NUMBER")
@@ -548,7 +683,7 @@ class _ClaimBuilder:
             bond = self.bond(scope.children[1])
             if bond is None:
                 return None
-            ligand = bond[1]
+            ligand = bond[0][1]
         if percent > 100:
             self.error("impossible-count", f"s-character of {percent:g}% is above 100%", self.at(number))
             return None
@@ -558,7 +693,7 @@ class _ClaimBuilder:
         bond = self.bond(children[0])
         if bond is None:
             return None
-        return BondLengthClaim(self.text, self.span, bond, str(children[1]).lower())  # type: ignore[arg-type]
+        return BondLengthClaim(self.text, self.span, bond[0], str(children[1]).lower(), bond[1])  # type: ignore[arg-type]
 
     def point_group_claim(self, children: list) -> Claim:
         symbol = str(children[-1]).replace("∞", "inf")
@@ -644,7 +779,8 @@ def parse_body(body: str) -> ParsedBody:
     if len(body) > MAX_BODY_CHARS:
         return ParsedBody((), (), (NotationError("formula-too-large", f"annotation longer than {MAX_BODY_CHARS} characters",
                                                   Span(0, len(body))),), ":" in body)
-    formula_text, colon, claims_text = body.partition(":")
+    end = formula_end(body)
+    formula_text, colon, claims_text = body[:end], body[end : end + 1], body[end + 1 :]
     formulas, errors = parse_formulas(formula_text)
     all_errors = list(errors)
     claims: list[Claim] = []
@@ -697,7 +833,8 @@ def near_miss_body(body: str) -> ParsedBody | None:
     """
     if len(body) > NEAR_MISS_CHARS:
         return None
-    formula_text, colon, claims_text = body.partition(":")
+    end = formula_end(body)
+    formula_text, colon, claims_text = body[:end], body[end : end + 1], body[end + 1 :]
     if colon:
         claims = parse_body("H:" + claims_text) if claims_text.strip() else None  # the claims alone
         if claims is None or not claims.claims or claims.errors:
