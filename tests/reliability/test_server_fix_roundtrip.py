@@ -68,7 +68,9 @@ def _apply(text: str, edit: dict) -> str:
 # Rules whose findings have no single correct replacement (the writer must decide).
 WITHOUT_FIXES = {"formula-too-large", "impossible-count", "malformed-claim", "malformed-formula", "outside-model",
                  "unknown-element", "isomers-not-enumerated", "note-too-large", "review-continues",
-                 "implausible-bond-length", "coupling-against-s-character", "outer-d-convention"}
+                 "implausible-bond-length", "coupling-against-s-character", "outer-d-convention",
+                 "angle-against-calculation", "angle-order-against-calculation", "placement-against-calculation",
+                 "calculation-failed"}
 
 
 def test_every_rule_is_either_round_tripped_or_has_no_fix():

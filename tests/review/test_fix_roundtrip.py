@@ -48,7 +48,10 @@ FIXABLE = {
 WITHOUT_FIXES = {"malformed-formula", "malformed-claim", "impossible-count", "formula-too-large", "outside-model",
                  "isomers-not-enumerated", "note-too-large", "review-continues",
                  # predictions too rough to write a value for the writer, and a hint about a spelling
-                 "implausible-bond-length", "coupling-against-s-character", "outer-d-convention"}
+                 "implausible-bond-length", "coupling-against-s-character", "outer-d-convention",
+                 # judged against a computed geometry, only where the rules let the claim pass: the writer decides
+                 "angle-against-calculation", "angle-order-against-calculation", "placement-against-calculation",
+                 "calculation-failed"}
 
 ORIGINAL = review(NOTE)
 

@@ -83,17 +83,27 @@ class RuleContext:
         """The computed result of the annotation's ``index``-th formula, None where there is none."""
         return self.computed[index] if index < len(self.computed) else None
 
+    def calculation(self, index: int = 0) -> Any:
+        """The usable computed structure of the ``index``-th formula (a review.calculated.Calculation), or None."""
+        from ..calculated import calculation
+
+        return calculation(self.computed_of(index))
+
     def finding(
         self,
         message: str,
         *,
         fixes: Iterable[Fix] = (),
         span: Span | None = None,
+        at_most: Severity | None = None,
     ) -> Finding:
+        """A finding of this rule; ``at_most`` caps its severity (where rules and a calculation disagree)."""
         claim = self.claim
         where = span or (claim.span if claim else self.annotation.span)
         formula = self.annotation.formula
         severity = self.settings.severity_of(self.rule)
+        if at_most is not None:
+            severity = _milder(severity, at_most)
         doubt = self.doubt() if self.rule.judges_geometry else None
         if doubt is not None:
             # Trust: where the model only knows what "usually" happens, a contrary claim is at most a
@@ -186,3 +196,4 @@ def rules_for(claim: Claim | None) -> Iterator[Rule]:
 from . import notation  # noqa: E402,F401
 from . import placement  # noqa: E402,F401
 from . import vsepr, angles, hybrid, measured  # noqa: E402,F401
+from . import computed  # noqa: E402,F401

@@ -4,11 +4,13 @@ from __future__ import annotations
 
 import math
 from collections.abc import Iterator
+from dataclasses import dataclass
 
 from ...chem.bent import bond_length_trend
 from ...chem.coulson import TYPICAL_ANGLES
 from ...chem.isomers import expected
 from ...notation.model import AngleClaim, AngleOrderClaim, BondLengthClaim
+from ..calculated import angle_fits, nearest, order_contradicts
 from ..findings import Finding, Severity
 from ..predictions import written_shape
 from . import RuleContext, rule
@@ -52,6 +54,46 @@ def _in_expected_isomer(centre, ranges):
     return kept or ranges
 
 
+@dataclass(frozen=True, slots=True)
+class AngleWindow:
+    """What the rules expect of a claimed angle: the ranges, whether the claim fits, and why."""
+
+    fits: bool
+    name: str  # "F-N-F"
+    expected: str  # "96-109.5°" (with the site relation when several)
+    reason: str  # the shape and the nearest range's reason
+    estimate: float  # the one value the rules would write
+    prefix: str  # "F-N-F " when the claim names atoms, else ""
+
+    @property
+    def said(self) -> str:
+        return f"{self.name} is expected {self.expected} ({self.reason})"
+
+
+def angle_window(context: RuleContext, claim: AngleClaim) -> AngleWindow | None:
+    """The rules' judgement of an angle claim, None where they have no range for it."""
+    centre = centre_named(context.analysis, claim.atoms[1] if claim.atoms else None)
+    if centre is None:
+        return None
+    if claim.atoms:  # between two named ligands only the expected isomer's angles count
+        ranges = _in_expected_isomer(centre, centre.ranges_for(claim.atoms[0], claim.atoms[2]))
+    else:
+        ranges = centre.angle_ranges
+    if not ranges:
+        return None
+    tolerance = context.settings.angle_tolerance + claim.allowance  # the writer's own uncertainty widens it
+    fits = any(claim.low <= r.high + tolerance and claim.high >= r.low - tolerance for r in ranges)
+    middle = (claim.low + claim.high) / 2
+    nearest_range = min(ranges, key=lambda r: min(abs(middle - r.low), abs(middle - r.high)))
+    a, b = (claim.atoms[0], claim.atoms[2]) if claim.atoms else nearest_range.ligands
+    name = f"{a}-{centre.central}-{b}"
+    expected_text = "; ".join(f"{_degrees(r.low)}-{_degrees(r.high)}° ({r.relation})" if len(ranges) > 1
+                              else f"{_degrees(r.low)}-{_degrees(r.high)}°" for r in ranges)
+    value = _typical(context.analysis.formula, nearest_range.ligands) or nearest_range.estimate
+    return AngleWindow(fits, name, expected_text, f"{written_shape(centre.shape)}: {nearest_range.reason}", value,
+                       f"{name} " if claim.atoms else "")
+
+
 @rule("implausible-angle", severity=Severity.WARNING, claims=(AngleClaim,), judges_geometry=True)
 def implausible_angle(context: RuleContext) -> Iterator[Finding]:
     """A claimed bond angle lies outside the range VSEPR and the bonding rules predict.
@@ -61,35 +103,46 @@ def implausible_angle(context: RuleContext) -> Iterator[Finding]:
     multiple bonds, Bent's rule and Drago's rule push it; the setting
     ``angle_tolerance`` widens it on both sides, and so does the claim's own
     uncertainty (121.9(2)° counts three standard uncertainties, ± 0.5° as written).
+    With a computed geometry the numbers follow the calculation: where it
+    agrees the claim is off, the fix writes the computed value; where it
+    finds the claim right, this is information only, saying both.
     """
     claim = context.claim
     if not isinstance(claim, AngleClaim):
         return
-    centre = centre_named(context.analysis, claim.atoms[1] if claim.atoms else None)
-    if centre is None:
+    window = angle_window(context, claim)
+    if window is None or window.fits:
         return
-    if claim.atoms:  # between two named ligands only the expected isomer's angles count
-        ranges = _in_expected_isomer(centre, centre.ranges_for(claim.atoms[0], claim.atoms[2]))
-    else:
-        ranges = centre.angle_ranges
-    if not ranges:
-        return
-    tolerance = context.settings.angle_tolerance + claim.allowance  # the writer's own uncertainty widens it
-    if any(claim.low <= r.high + tolerance and claim.high >= r.low - tolerance for r in ranges):
+    head = f"{context.analysis.formula}: {claim.text} is implausible; {window.said}"
+    found = context.calculation()
+    values = found.angles(claim.atoms) if found is not None else ()
+    if not values:
+        yield context.finding(head, fixes=[context.replace_claim(f"{window.prefix}~{_degrees(window.estimate)}°")])
         return
     middle = (claim.low + claim.high) / 2
-    nearest = min(ranges, key=lambda r: min(abs(middle - r.low), abs(middle - r.high)))
-    a, b = (claim.atoms[0], claim.atoms[2]) if claim.atoms else nearest.ligands
-    name = f"{a}-{centre.central}-{b}"
-    expected = "; ".join(f"{_degrees(r.low)}-{_degrees(r.high)}° ({r.relation})" if len(ranges) > 1
-                         else f"{_degrees(r.low)}-{_degrees(r.high)}°" for r in ranges)
-    value = _typical(context.analysis.formula, nearest.ligands) or nearest.estimate
-    prefix = f"{name} " if claim.atoms else ""
-    yield context.finding(
-        f"{context.analysis.formula}: {claim.text} is implausible; {name} is expected {expected} "
-        f"({written_shape(centre.shape)}: {nearest.reason})",
-        fixes=[context.replace_claim(f"{prefix}~{_degrees(value)}°")],
-    )
+    if angle_fits(claim.low, claim.high, claim.allowance, values, found.uncertainty):
+        # rules and calculation disagree: say both, follow the calculation's numbers, rewrite nothing
+        yield context.finding(f"{head}; but {found.said(values)} fits the claim", at_most=Severity.INFORMATION)
+        return
+    value = nearest(values, middle)
+    yield context.finding(f"{head}; {found.said(values)}",
+                          fixes=[context.replace_claim(f"{window.prefix}~{_degrees(value)}°")])
+
+
+def bent_order(context: RuleContext, claim: AngleOrderClaim) -> tuple[str, str] | None:
+    """(the relation Bent's rule predicts for the claim's left and right angles, a note), None where it
+    makes no firm prediction (several species, different centres, low confidence)."""
+    if len(context.analyses) != 1 or claim.left[1] != claim.right[1]:
+        return None
+    centre = centre_named(context.analysis, claim.left[1])
+    if centre is None:
+        return None
+    order = centre.bent.order_between(claim.left, claim.right)
+    if order is None or (order.confidence == "low" and not order.steric_override):
+        return None
+    left_larger = sorted((claim.left[0], claim.left[2])) == sorted((order.larger[0], order.larger[2]))
+    note = f" (low confidence: {order.reason})" if order.steric_override else ""
+    return (">" if left_larger else "<"), note
 
 
 @rule("angle-order-against-bent", severity=Severity.WARNING, claims=(AngleOrderClaim,), judges_geometry=True)
@@ -101,26 +154,32 @@ def angle_order_against_bent(context: RuleContext) -> Iterator[Finding]:
     multiply bonded atoms take s-rich hybrids and widen their angles.  Two
     large ligands on a small centre can push apart against the electronic
     order (Cl-C-Cl > H-C-H in CH2Cl2); such predictions carry lower confidence.
+    With a computed geometry the angles are shown; where they side with the
+    claim, this is information only.
     """
     claim = context.claim
-    if not isinstance(claim, AngleOrderClaim) or claim.left[1] != claim.right[1]:
+    if not isinstance(claim, AngleOrderClaim):
         return
-    centre = centre_named(context.analysis, claim.left[1])
-    if centre is None:
+    predicted_note = bent_order(context, claim)
+    if predicted_note is None:
         return
-    order = centre.bent.order_between(claim.left, claim.right)
-    if order is None or (order.confidence == "low" and not order.steric_override):
-        return
-    left_larger = sorted((claim.left[0], claim.left[2])) == sorted((order.larger[0], order.larger[2]))
-    predicted = ">" if left_larger else "<"
+    predicted, note = predicted_note
     if claim.relation == predicted:
         return
     left, right = "-".join(claim.left), "-".join(claim.right)
-    note = f" (low confidence: {order.reason})" if order.steric_override else ""
-    yield context.finding(
-        f"{context.analysis.formula}: claimed {left} {claim.relation} {right}; predicted {left} {predicted} {right}{note}",
-        fixes=[context.replace_claim(f"{left} {predicted} {right}")],
-    )
+    head = f"{context.analysis.formula}: claimed {left} {claim.relation} {right}; predicted {left} {predicted} {right}{note}"
+    found = context.calculation()
+    pair = (found.one_angle(claim.left), found.one_angle(claim.right)) if found is not None else (None, None)
+    if pair[0] is None or pair[1] is None:
+        yield context.finding(head, fixes=[context.replace_claim(f"{left} {predicted} {right}")])
+        return
+    said = (f"computed ({found.method}) {left} {_degrees(pair[0])}°, {right} {_degrees(pair[1])}° "
+            f"± {_degrees(found.uncertainty)}°")
+    against, _ = order_contradicts(claim.relation, pair[0] - pair[1], found.uncertainty)
+    if not against:  # the calculation sides with the claim: both said, nothing rewritten
+        yield context.finding(f"{head}; but {said} agrees with the claim", at_most=Severity.INFORMATION)
+        return
+    yield context.finding(f"{head}; {said}", fixes=[context.replace_claim(f"{left} {predicted} {right}")])
 
 
 @rule("bond-length-against-bent", severity=Severity.WARNING, claims=(BondLengthClaim,))

@@ -12,21 +12,40 @@ from . import RuleContext, rule
 from .angles import _degrees, centre_named
 
 
-def _angle_window(context: RuleContext, centre, ligand: str | None) -> tuple[float, float, str, float | None] | None:
-    """The L-X-L angle window (degrees) the index should match, a claimed angle's or the prediction's,
-    with the one index a fix writes: the claimed angle's middle, else the index the analysis shows."""
+Window = tuple[float, float, str, "float | None"]
+
+
+def _angle_window(context: RuleContext, centre, ligand: str | None) -> tuple[Window | None, Window | None]:
+    """(the L-X-L angle window the index should match, the rules' own window where that one is computed).
+
+    The window (degrees) is a claimed angle's, else the computed angle ± the method's uncertainty, else
+    the prediction's, with the one index a fix writes: the claimed angle's middle, the computed angle's
+    index (Coulson's theorem for two equivalent hybrids), else the index the analysis shows.
+    """
     tolerance = context.settings.angle_tolerance
     labels = {l.label for l in centre.ligands}
     if ligand is None:
         if len(labels) != 1:
-            return None
+            return None, None
         ligand = next(iter(labels))
     for claim in context.annotation.claims:
         if isinstance(claim, AngleClaim):
             atoms = claim.atoms
             if atoms is None and len(labels) == 1 or atoms and atoms[0] == atoms[2] == ligand and atoms[1] == centre.central:
                 return (claim.low - tolerance, claim.high + tolerance, f"the claimed angle {claim.text}",
-                        index_from_angle((claim.low + claim.high) / 2))
+                        index_from_angle((claim.low + claim.high) / 2)), None
+    rules = _predicted_window(context, centre, ligand)
+    found = context.calculation()
+    value = found.one_angle((ligand, centre.central, ligand)) if found is not None else None
+    if value is None:
+        return rules, None
+    name = f"{ligand}-{centre.central}-{ligand}"
+    return (value - found.uncertainty, value + found.uncertainty,
+            f"the {name} angle {found.said([value])}", index_from_angle(value)), rules
+
+
+def _predicted_window(context: RuleContext, centre, ligand: str) -> Window | None:
+    tolerance = context.settings.angle_tolerance
     ranges = centre.ranges_for(ligand, ligand)
     if len(ranges) != 1:
         return None  # several site relations (or no such pair): no single angle for the hybrid
@@ -58,7 +77,8 @@ def index_angle_mismatch(context: RuleContext) -> Iterator[Finding]:
     Two equivalent sp^i hybrids at angle theta are orthogonal when
     1 + i cos(theta) = 0, so i = -1/cos(theta): 180° gives sp, 120° sp2,
     109.47° sp3, 90° pure p.  The angle is the one claimed in the same
-    annotation, else the predicted range.
+    annotation, else the computed angle (± the method's uncertainty) where
+    there is one, else the predicted range.
     """
     claim = context.claim
     if isinstance(claim, IndexClaim):
@@ -70,7 +90,7 @@ def index_angle_mismatch(context: RuleContext) -> Iterator[Finding]:
     centre = _hybrid_centre(context)
     if centre is None:
         return
-    window = _angle_window(context, centre, None)
+    window, rules = _angle_window(context, centre, None)
     if window is None:
         return
     low, high, source, expected = window
@@ -82,10 +102,13 @@ def index_angle_mismatch(context: RuleContext) -> Iterator[Finding]:
         fix = context.replace_claim(f"index {expected:.2f}") if expected is not None else None
     else:
         fix = context.replace_claim("unhybridized" if expected is None else f"sp^{expected:.2f}")
-    yield context.finding(
-        f"{context.analysis.formula}: claimed index {value:g} does not fit {source}; Coulson's theorem gives {expected_text}",
-        fixes=[fix] if fix else [],
-    )
+    message = (f"{context.analysis.formula}: claimed index {value:g} does not fit {source}; "
+               f"Coulson's theorem gives {expected_text}")
+    if rules is not None and _index_bounds(rules[0], rules[1])[0] <= value <= _index_bounds(rules[0], rules[1])[1]:
+        # the rules' window admits it, the calculation does not: both said, nothing rewritten
+        yield context.finding(f"{message}; {rules[2]} would admit it", at_most=Severity.WARNING)
+        return
+    yield context.finding(message, fixes=[fix] if fix else [])
 
 
 @rule("s-character-mismatch", severity=Severity.WARNING, claims=(SCharacterClaim,), judges_geometry=True)
@@ -95,7 +118,8 @@ def s_character_mismatch(context: RuleContext) -> Iterator[Finding]:
     An sp^i hybrid has s-character 1/(1+i): 50 % in sp, 33 % in sp2, 25 % in
     sp3, none in pure p.  Between two equivalent hybrids at angle theta that
     is cos(theta)/(cos(theta) - 1).  The angle is the one claimed in the same
-    annotation, else the predicted range.
+    annotation, else the computed angle (± the method's uncertainty) where
+    there is one, else the predicted range.
     """
     claim = context.claim
     if not isinstance(claim, SCharacterClaim):
@@ -103,19 +127,28 @@ def s_character_mismatch(context: RuleContext) -> Iterator[Finding]:
     centre = _hybrid_centre(context)
     if centre is None:
         return
-    window = _angle_window(context, centre, claim.ligand)
+    window, rules = _angle_window(context, centre, claim.ligand)
     if window is None:
         return
     low, high, source, index = window
-    smallest, largest = _index_bounds(low, high)
-    lowest_s, highest_s = 100 * s_character(None if largest == math.inf else largest), 100 * s_character(smallest)
+    lowest_s, highest_s = _s_bounds(low, high)
     if lowest_s - 0.5 <= claim.percent <= highest_s + 0.5:
         return
     expected = 100 * s_character(index)
     scope = claim.text.split(" in ", 1)[1] if " in " in claim.text else None
     replacement = f"s-character {expected:.0f}%" + (f" in {scope}" if scope else "")
-    yield context.finding(
-        f"{context.analysis.formula}: claimed s-character {claim.percent:g}% does not fit {source}; "
-        f"Coulson's theorem gives {lowest_s:.0f}-{highest_s:.0f}%",
-        fixes=[context.replace_claim(replacement)],
-    )
+    message = (f"{context.analysis.formula}: claimed s-character {claim.percent:g}% does not fit {source}; "
+               f"Coulson's theorem gives {lowest_s:.0f}-{highest_s:.0f}%")
+    if rules is not None:
+        rules_low, rules_high = _s_bounds(rules[0], rules[1])
+        if rules_low - 0.5 <= claim.percent <= rules_high + 0.5:
+            # the rules' window admits it, the calculation does not: both said, nothing rewritten
+            yield context.finding(f"{message}; {rules[2]} would admit it", at_most=Severity.WARNING)
+            return
+    yield context.finding(message, fixes=[context.replace_claim(replacement)])
+
+
+def _s_bounds(low: float, high: float) -> tuple[float, float]:
+    """Percent s-character range of two equivalent hybrids for an angle range."""
+    smallest, largest = _index_bounds(low, high)
+    return 100 * s_character(None if largest == math.inf else largest), 100 * s_character(smallest)

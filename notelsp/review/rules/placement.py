@@ -11,12 +11,10 @@ from __future__ import annotations
 
 from collections.abc import Iterator, Sequence
 
-import numpy as np
-
 from ...chem.isomers import Isomer, diastereomer_count, expected
 from ...chem.model import LONE_PAIR
-from ...chem.symmetry import normalised_symbol
 from ...notation.model import IsomerCountClaim, PlacementClaim, PointGroupClaim, PolarityClaim
+from ..calculated import energy_gaps_text, lowest_isomer
 from ..findings import Finding, Severity
 from . import RuleContext, rule
 
@@ -73,6 +71,8 @@ def _subject_indices(isomer: Isomer, subject: str) -> list[int]:
 
 
 def _trans_pairs(isomer: Isomer, indices: Sequence[int]) -> int:
+    import numpy as np  # loaded with the isomers themselves, never for a review without isomer claims
+
     vectors = [np.array(isomer.sites[i].vector) for i in indices]
     return sum(1 for a in range(len(vectors)) for b in range(a + 1, len(vectors)) if float(vectors[a] @ vectors[b]) < -0.99)
 
@@ -146,6 +146,8 @@ def misplaced_ligand(context: RuleContext) -> Iterator[Finding]:
     roomier equatorial sites and the more electronegative ligands the axial
     ones (Bent's rule, apicophilicity); in an octahedron two lone pairs sit
     trans.  The expected isomer is the one these preferences rank first.
+    With computed isomers the energy gaps are shown beside; where the
+    isomer computed lowest places it as claimed, this is information only.
     """
     claim = context.claim
     assert isinstance(claim, PlacementClaim)
@@ -158,10 +160,17 @@ def misplaced_ligand(context: RuleContext) -> Iterator[Finding]:
         return
     replacement = placement_text(best[0], claim)
     predicted = replacement or best[0].name
-    yield context.finding(
-        f"{_formula(context)} is claimed '{claim.text}'; predicted {predicted} ({best[0].name}, {best[0].reason})",
-        fixes=[context.replace_claim(replacement)] if replacement else [],
-    )
+    message = f"{_formula(context)} is claimed '{claim.text}'; predicted {predicted} ({best[0].name}, {best[0].reason})"
+    computed = context.computed_of(0)
+    gaps = energy_gaps_text(computed)
+    if gaps is not None:
+        message = f"{message}; {gaps}"
+        lowest = lowest_isomer(computed, isomers)
+        if lowest is not None and placement_holds(lowest, claim):
+            # the calculation's lowest isomer is as claimed: both said, nothing rewritten
+            yield context.finding(message, at_most=Severity.INFORMATION)
+            return
+    yield context.finding(message, fixes=[context.replace_claim(replacement)] if replacement else [])
 
 
 def _polarity_word(polar: bool) -> str:
@@ -206,6 +215,8 @@ def wrong_point_group(context: RuleContext) -> Iterator[Finding]:
     the whole electron-domain arrangement, as VSEPR predicts it (e.g. C2v for
     SF4, not the D2d a bare tetrahedron of atoms might suggest).
     """
+    from ...chem.symmetry import normalised_symbol  # with numpy, as the isomers were
+
     claim = context.claim
     assert isinstance(claim, PointGroupClaim)
     isomer = _agreed_expected(context, "point_group")

@@ -1,0 +1,119 @@
+"""Reading computed geometries for the rules: angles, orders, indices and isomer energies.
+
+Pure: the computed results (``notelsp.compute.ComputedSpecies``) reach the rules
+as an input through ``RuleContext.computed``; nothing here computes or imports
+the compute package.  A claim judged against a calculation is compared with the
+computed value ± the method's measured uncertainty (``angle_uncertainty_deg``).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from dataclasses import dataclass
+from typing import Any
+
+# Two computed angles closer than this count as one value (equivalent bonds differ by rounding and
+# by the optimiser's residual forces; 0.5 degrees is far below the method's uncertainty).
+SAME_ANGLE_DEG = 0.5
+
+
+def degrees_text(value: float) -> str:
+    return f"{value:.1f}".rstrip("0").rstrip(".")
+
+
+@dataclass(frozen=True, slots=True)
+class Calculation:
+    """The usable lowest structure of one computed species, with the method's uncertainty."""
+
+    species: Any  # ComputedSpecies
+    geometry: Any  # its ComputedGeometry of lowest energy
+
+    @property
+    def method(self) -> str:
+        return self.species.method
+
+    @property
+    def uncertainty(self) -> float:
+        return self.species.angle_uncertainty_deg
+
+    @property
+    def centre(self) -> str:
+        return self.geometry.symbols[0]
+
+    def angles(self, atoms: tuple[str, str, str] | None) -> tuple[float, ...]:
+        """The computed angles a claim names (every angle at the centre when it names no atoms),
+        smallest first, equal ones once; () when the named centre is not the computed one."""
+        if atoms is None:
+            values = sorted(angle.degrees for angle in self.geometry.angles)
+        elif atoms[1] != self.centre:
+            return ()
+        else:
+            values = list(self.geometry.angles_between(atoms[0], atoms[2]))
+        distinct: list[float] = []
+        for value in values:
+            if not distinct or value - distinct[-1] > SAME_ANGLE_DEG:
+                distinct.append(value)
+        return tuple(distinct)
+
+    def one_angle(self, atoms: tuple[str, str, str]) -> float | None:
+        """The computed angle when all such angles are one value; None when none or several."""
+        values = self.angles(atoms)
+        return values[0] if len(values) == 1 else None
+
+    def said(self, values: Sequence[float]) -> str:
+        shown = " or ".join(f"{degrees_text(v)}°" for v in values)
+        return f"computed ({self.method}) {shown} ± {degrees_text(self.uncertainty)}°"
+
+
+def calculation(computed: Any) -> Calculation | None:
+    """The calculation of a species when it has a usable structure; else None."""
+    if computed is None:
+        return None
+    lowest = computed.lowest
+    return None if lowest is None else Calculation(computed, lowest)
+
+
+def angle_fits(low: float, high: float, allowance: float, values: Sequence[float], uncertainty: float) -> bool:
+    """Whether a claimed angle (low-high, ± the writer's allowance) meets any computed value ± uncertainty."""
+    return any(low - allowance - uncertainty <= v <= high + allowance + uncertainty for v in values)
+
+
+def nearest(values: Sequence[float], to: float) -> float:
+    return min(values, key=lambda v: abs(v - to))
+
+
+def computed_relation(difference: float, uncertainty: float) -> tuple[str, bool]:
+    """The order of two computed angles ("<", ">" or "=") and whether it is beyond the uncertainty.
+
+    Within the uncertainty the sign is still the calculation's best answer, but not a firm one.
+    """
+    if abs(difference) < SAME_ANGLE_DEG:
+        return "=", False
+    return (">" if difference > 0 else "<"), abs(difference) > uncertainty
+
+
+def order_contradicts(claimed: str, difference: float, uncertainty: float) -> tuple[bool, bool]:
+    """(whether the computed difference left − right contradicts the claimed relation, firmly)."""
+    if claimed == "=":
+        return abs(difference) > uncertainty, abs(difference) > uncertainty
+    if claimed == "<":
+        return difference > SAME_ANGLE_DEG, difference > uncertainty
+    return difference < -SAME_ANGLE_DEG, -difference > uncertainty
+
+
+def energy_gaps_text(computed: Any) -> str | None:
+    """"computed (GFN2-xTB): both F axial lowest, one F axial, one equatorial +19.7 kJ/mol" for
+    a species with more than one usable isomer; None otherwise."""
+    gaps = computed.relative_energies_kj_mol() if computed is not None else ()
+    if len(gaps) < 2:
+        return None
+    parts = [f"{gaps[0][0]} lowest"] + [f"{name} +{gap:.1f} kJ/mol" for name, gap in gaps[1:]]
+    return f"computed ({computed.method}): " + "; ".join(parts)
+
+
+def lowest_isomer(computed: Any, isomers: Sequence[Any]) -> Any | None:
+    """The analysis's isomer the calculation found lowest in energy (matched by name), if any."""
+    found = calculation(computed)
+    if found is None or not found.geometry.isomer:
+        return None
+    return next((isomer for isomer in isomers if isomer.name == found.geometry.isomer), None)
