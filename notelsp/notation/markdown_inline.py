@@ -13,6 +13,10 @@ Which ``~~`` runs pair up is decided as markdown-it decides it: by CommonMark's
 delimiter algorithm over the ``~~``, ``*`` and ``_`` runs together (an emphasis
 closed across a ``~~`` hides it), each link label on its own.  ``*`` and ``_``
 are only looked at in text holding ``~~``.
+
+One difference from CommonMark is deliberate: the quoted SMILES of an annotation
+(``{smiles "C[N+](C)(C)C"}``) is opaque, as a code span is, because SMILES is
+full of Markdown's characters (``[N+](C)`` would otherwise be a link).
 """
 
 from __future__ import annotations
@@ -43,18 +47,28 @@ _DESTINATION_EVENT = re.compile(r"[\x00- \x7f()\\]")
 _LINK_TITLE = re.compile(r'"(?:[^"\\]|\\[\s\S])*"|\'(?:[^\'\\]|\\[\s\S])*\'|\((?:[^()\\]|\\[\s\S])*\)')
 _SPACES = re.compile(r"[ \t]*(?:\r\n|\r|\n)?[ \t]*")  # at most one line break, of any kind
 _MAX_LINK_NESTING = 32  # parentheses in a bare destination, as CommonMark implementations cap it
+# The quoted SMILES of an annotation, from its opening quote to its closing one, on one line.
+_QUOTED_SMILES = re.compile(r'(?i)\{[ \t]*smiles[ \t]*("[^"\r\n]*")')
 
 
 def inline_skips(text: str, references: frozenset[str] = frozenset()) -> tuple[Skip, ...]:
     """The skipped ranges of ``text``; ``references`` are the document's link labels, normalised."""
     skips: list[Skip] = []
     delimiters: list[_Delimiter] | None = [] if "~~" in text else None
-    _scan(text, 0, len(text), references, skips, in_link=False, dead_ends={}, delimiters=delimiters)
+    opaque = _quoted_smiles(text)
+    _scan(text, 0, len(text), references, skips, in_link=False, dead_ends={}, delimiters=delimiters, opaque=opaque)
     if delimiters:
         skips.extend(_struck(delimiters))
     if delimiters is not None:
         return _disjoint(skips)
     return tuple(skips)
+
+
+def _quoted_smiles(text: str) -> dict[int, int]:
+    """Start -> end of each quoted SMILES in ``text`` (nothing inside is Markdown); empty in text without one."""
+    if "smiles" not in text and "SMILES" not in text and "Smiles" not in text:
+        return {}
+    return {match.start(1): match.end(1) for match in _QUOTED_SMILES.finditer(text)}
 
 
 def _disjoint(skips: list[Skip]) -> tuple[Skip, ...]:
@@ -80,15 +94,20 @@ DeadEnds = dict[object, int]
 
 def _scan(
     text: str, position: int, end: int, references: frozenset[str], skips: list[Skip], in_link: bool,
-    dead_ends: DeadEnds, delimiters: list[_Delimiter] | None = None,
+    dead_ends: DeadEnds, delimiters: list[_Delimiter] | None = None, opaque: dict[int, int] | None = None,
 ) -> None:
     events = SKIP_START if delimiters is None else _SKIP_OR_DELIMITER
+    if opaque:
+        events = re.compile(events.pattern[:-1] + '"]')  # a quote may open a quoted SMILES
     while True:
         found = events.search(text, position, end)
         if found is None:
             return
         position = found.start()
         character = text[position]
+        if character == '"':
+            position = opaque.get(position, position + 1) if opaque else position + 1
+            continue
         if character in "~*_":
             position = _delimiter_run(text, position, end, delimiters) if delimiters is not None else position + 1
         elif character == "$":
@@ -132,7 +151,7 @@ def _scan(
             skips.append((position, position + 1))
             # A link's label is balanced on its own (markdown-it keeps its delimiters apart).
             inner: list[_Delimiter] | None = None if delimiters is None else []
-            _scan(text, position + 1, label_end, references, skips, True, dead_ends, inner)
+            _scan(text, position + 1, label_end, references, skips, True, dead_ends, inner, opaque)
             if inner:
                 skips.extend(_struck(inner))
             skips.append((label_end, link_end))
