@@ -78,6 +78,14 @@ class GeometryPool:
         """
         self._cancelled.set()
 
+    def stop(self) -> None:
+        """Cancel, and stop every worker process now, running structures included (from any thread).
+
+        For a caller that is leaving (a server's shutdown or exit): no orphan worker outlives it.
+        """
+        self.cancel()
+        self._discard_pool()
+
     def close(self) -> None:
         with self._lock:
             executor, self._executor = self._executor, None

@@ -32,6 +32,7 @@ class Settings:
     hover_pictures: bool = True  # a drawing in hover, for clients that render Markdown images
     globs: tuple[str, ...] = DEFAULT_GLOBS
     cross_check_automatic: bool = False
+    compute: bool = True  # the server computes each named species' geometry in the background
 
     def severity_of(self, rule: Any) -> Severity:
         return dict(self.severities).get(rule.code, rule.severity)
@@ -105,7 +106,7 @@ def _apply(values: Mapping[str, Any], settings: Settings, prefix: str) -> tuple[
                 changes[key] = float(value)
             else:
                 problems.append(((key,), f"{name} must be a number of degrees from 0 to 45, not {_shown(value)}"))
-        elif key in ("inlay_hints", "cross_check_automatic", "hover_pictures"):
+        elif key in ("inlay_hints", "cross_check_automatic", "hover_pictures", "compute"):
             if isinstance(value, bool):
                 changes[key] = value
             else:

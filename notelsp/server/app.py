@@ -23,7 +23,7 @@ from pygls.lsp.server import LanguageServer
 
 from .. import __version__
 from ..notation.model import Span
-from ..review.document import DocumentReview, kind_of_path, review_around
+from ..review.document import DocumentReview, kind_of_path, review_around, review_text
 from ..review.settings import Settings
 from ..review.workspace import cached_review, is_reviewed
 from .positions import LineIndex, line_index
@@ -48,6 +48,7 @@ FEATURES = (
     "workspace_symbols",
     "semantic_tokens",
     "notebooks",
+    "geometries",
 )
 OPTIONAL_FEATURES = ("crosscheck",)
 
@@ -164,12 +165,16 @@ class NoteServer(LanguageServer):
         review = None
         if self.is_reviewed(uri):
             try:
+                from .geometries import computed_for
+
                 settings = self.settings_for(uri)[0]
+                computed = computed_for(self, uri)  # geometries computed so far for the species it names
                 if around is None:
-                    review = cached_review(text, self.review_kind(uri), settings)
+                    review = (review_text(text, self.review_kind(uri), settings, computed=computed) if computed
+                              else cached_review(text, self.review_kind(uri), settings))
                 else:
                     span = index.span(around) if isinstance(around, types.Range) else Span(*[index.offset(around)] * 2)
-                    review = review_around(text, self.review_kind(uri), settings, span)
+                    review = review_around(text, self.review_kind(uri), settings, span, computed=computed)
             except Exception:
                 log.exception("review of %s failed", uri)
         return HeldDocument(uri, document.version, text, index, review)

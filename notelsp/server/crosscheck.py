@@ -37,7 +37,7 @@ from ..crosscheck.levels import DEFAULT_LEVEL, DEFAULT_LEVEL_TEXT, LevelOfTheory
 from ..notation.model import Annotation, Span
 from ..review.findings import Finding
 from .app import HeldDocument, NoteServer
-from .diagnostics import diagnostics_json, publish_json
+from .diagnostics import republish
 
 if TYPE_CHECKING:  # the runner and the report are imported on the first calculation: the server starts without them
     from ..crosscheck.runner import CrossCheckResult, Progress
@@ -138,18 +138,8 @@ def _keep_findings(ls: NoteServer, held: HeldDocument, annotation: Annotation, f
 
 
 def _publish(ls: NoteServer, uri: str) -> None:
-    """Show the document's computed findings beside the review's: pushed, or a refresh asked of a pulling client."""
-    held = ls.held(uri)
-    if held is None:
-        return
-    document = ls.client_capabilities.text_document
-    if document and document.diagnostic:
-        workspace = ls.client_capabilities.workspace
-        if workspace and workspace.diagnostics and workspace.diagnostics.refresh_support:
-            ls.workspace_diagnostic_refresh(None)
-        return
-    findings = [*(held.review.findings if held.review else ()), *computed_findings(ls, held)]
-    publish_json(ls, held.uri, held.version, diagnostics_json(findings, held.index))
+    """Show the document's computed findings beside the review's, by the diagnostics module's one path."""
+    republish(ls, uri)
 
 
 # --- one calculation, with progress ---------------------------------------------

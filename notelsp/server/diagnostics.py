@@ -26,8 +26,9 @@ from typing import Any, Iterable
 from lsprotocol import types
 
 from ..review.describe import rule_doc_url
-from ..review.document import DocumentReview, review_text
+from ..review.document import DocumentReview, review_text, species_to_compute
 from ..review.findings import Finding, Severity
+from . import geometries
 from .app import NoteServer
 from .positions import LineIndex, line_index
 
@@ -124,7 +125,25 @@ def schedule(ls: NoteServer, uri: str, delay: float | None = None) -> None:
     _cross_check_later(ls, uri)
     if _client_pulls(ls):
         return
+    _publish_soon(ls, uri, delay)
+
+
+def republish(ls: NoteServer, uri: str) -> None:
+    """Results computed in the background arrived (geometries, cross-checks): show the document's
+    diagnostics again, by the same path as after an edit (a pulling client is asked to pull)."""
+    if _client_pulls(ls):
+        workspace = ls.client_capabilities.workspace
+        if workspace and workspace.diagnostics and workspace.diagnostics.refresh_support:
+            ls.workspace_diagnostic_refresh(None)
+        return
+    if ls.open_document(uri) is not None:
+        _publish_soon(ls, uri, 0.0)
+
+
+def _publish_soon(ls: NoteServer, uri: str, delay: float | None) -> None:
     previous = ls.pending.pop(uri, None)
+    if previous is asyncio.current_task():  # a publication asking for the next one: it is ending anyway
+        previous = None
     in_burst = previous is not None and not previous.done()
     if previous is not None:
         previous.cancel()
@@ -133,16 +152,18 @@ def schedule(ls: NoteServer, uri: str, delay: float | None = None) -> None:
     ls.pending[uri] = asyncio.get_running_loop().create_task(_publish_later(ls, uri, delay))
 
 
-def _reviewed_slice(text: str, kind, settings, encoding: str, done_before: int) -> tuple[list[dict[str, Any]], int | None]:
-    """One slice of the review as JSON, and where it stopped (None: the whole note).
+def _reviewed_slice(text: str, kind, settings, encoding: str, done_before: int,
+                    computed: dict) -> tuple[list[dict[str, Any]], int | None, tuple[str, ...]]:
+    """One slice of the review as JSON, where it stopped (None: the whole note) and the species it names.
 
     It goes on past ``done_before`` (where the previous slice stopped: those lines are found in the
     review's caches) whatever the clock says, then for about REVIEW_BUDGET_SECONDS more, so every
     slice gets further than the last."""
     deadline = time.monotonic() + REVIEW_BUDGET_SECONDS
-    review = review_text(text, kind, settings,
+    review = review_text(text, kind, settings, computed=computed,
                          more_time=lambda line_start: line_start <= done_before or time.monotonic() < deadline)
-    return diagnostics_json(review.findings, line_index(text, encoding)), review.stopped_at
+    species = species_to_compute(review) if review.stopped_at is None else ()
+    return diagnostics_json(review.findings, line_index(text, encoding)), review.stopped_at, species
 
 
 async def _publish_later(ls: NoteServer, uri: str, delay: float) -> None:
@@ -154,16 +175,18 @@ async def _publish_later(ls: NoteServer, uri: str, delay: float) -> None:
     text, version = document.source, document.version
     diagnostics: list[dict[str, Any]] = []
     whole = True
+    species: tuple[str, ...] | None = None  # named by the annotations, once the whole review is done
+    results = geometries.computed_for(ls, uri)  # the calculations' results known so far
     if ls.is_reviewed(uri):
         kind, settings, encoding = ls.review_kind(uri), ls.settings_for(uri)[0], ls.encoding()
         first, stopped_at = True, 0
         while first or not whole:  # a review past its budget: what it has first, then the rest slice by slice
             try:
-                diagnostics, stopped_at = await asyncio.to_thread(_reviewed_slice, text, kind, settings, encoding,
-                                                                   stopped_at or 0)
+                diagnostics, stopped_at, species = await asyncio.to_thread(
+                    _reviewed_slice, text, kind, settings, encoding, stopped_at or 0, results)
             except Exception:
                 log.exception("review of %s failed", uri)
-                diagnostics, stopped_at = [], None
+                diagnostics, stopped_at, species = [], None, None
             whole = stopped_at is None
             current = ls.open_document(uri)
             if current is None or current.version != version:
@@ -174,10 +197,12 @@ async def _publish_later(ls: NoteServer, uri: str, delay: float) -> None:
     current = ls.open_document(uri)
     if current is None or current.version != version:
         return  # stale: a newer change has its own publication scheduled (or the document closed)
-    computed = _computed(ls, uri)
-    if computed:
-        diagnostics += diagnostics_json(computed, line_index(text, ls.encoding()))
+    checked = _computed(ls, uri)
+    if checked:
+        diagnostics += diagnostics_json(checked, line_index(text, ls.encoding()))
     publish_json(ls, uri, version, diagnostics)
+    if species is not None and geometries.want(ls, uri, species, results):
+        _publish_soon(ls, uri, 0.0)  # results computed for another document or before this edit: use them
 
 
 def refresh_all(ls: NoteServer) -> None:
@@ -205,6 +230,7 @@ def register(server: NoteServer) -> None:
         uri = params.text_document.uri
         if (task := ls.pending.pop(uri, None)) is not None:
             task.cancel()
+        geometries.forget(ls, uri)
         if not _client_pulls(ls):
             publish_json(ls, uri, None, [])
 
@@ -213,7 +239,11 @@ def register(server: NoteServer) -> None:
         types.DiagnosticOptions(identifier=SOURCE, inter_file_dependencies=False, workspace_diagnostics=False),
     )
     def pulled(ls: NoteServer, params: types.DocumentDiagnosticParams) -> types.FullDocumentDiagnosticReport:
-        held = ls.held(params.text_document.uri)
+        held = ls.held(params.text_document.uri)  # reviewed with the calculations' results known so far
         items = [] if held is None else diagnostics_of(held.review, held.index) + [
             to_diagnostic(finding, held.index) for finding in _computed(ls, held.uri)]
+        if held is not None and held.review is not None and held.review.stopped_at is None:
+            if geometries.want(ls, held.uri, species_to_compute(held.review),
+                               geometries.computed_for(ls, held.uri)):
+                republish(ls, held.uri)  # known results the document had not named before: pull again
         return types.FullDocumentDiagnosticReport(items=items)

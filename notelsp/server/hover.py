@@ -9,6 +9,7 @@ from lsprotocol import types
 from ..formats.drawing import angles_claimed, picture_markdown
 from ..review.describe import hover_markdown  # the review layer writes all chemistry text
 from .app import NoteServer
+from .geometries import hover_lines
 
 
 def renders_images(ls: NoteServer) -> bool:
@@ -36,6 +37,9 @@ def register(server: NoteServer) -> None:
             return None
 
         markdown = hover_markdown(held.review, annotation, offset)
+        computed = hover_lines(ls, held.uri, [formula.text for formula in annotation.formulas])
+        if computed:  # the calculation's geometry, "computing…" while it runs, or why it failed
+            markdown = "\n\n".join(([markdown, "---"] if markdown else []) + computed)
         if not markdown:
             return None
         if ls.settings_for(params.text_document.uri)[0].hover_pictures and renders_images(ls):
