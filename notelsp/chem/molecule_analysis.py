@@ -77,10 +77,13 @@ def analyse_molecule(molecule: Molecule) -> MoleculeAnalysis:
     centres = []
     for index in indices:
         model = centre_model(molecule, index)
-        # ligands named as a formula names them (by element), in a fixed order, so equal centres share one analysis;
-        # ``neighbours`` says which atom each ligand is
-        ordered = sorted(zip(model.ligands, molecule.neighbours(index), strict=True),
-                         key=lambda pair: (pair[0].symbol, -pair[0].bond_order, pair[1]))
+        # ligands named as a formula names them (by element), hydrogens first as a formula's model puts them; in a
+        # larger molecule in a fixed order, so equal centres share one analysis; ``neighbours`` says which atom is which
+        pairs = zip(model.ligands, molecule.neighbours(index), strict=True)
+        if single:
+            ordered = sorted(pairs, key=lambda pair: (pair[0].symbol != "H", pair[1]))
+        else:
+            ordered = sorted(pairs, key=lambda pair: (pair[0].symbol != "H", pair[0].symbol, -pair[0].bond_order, pair[1]))
         neighbours = tuple(ligand.label for ligand, _ in ordered)
         key = replace(model, label="", ligands=tuple(replace(l, label=l.symbol) for l, _ in ordered))
         analysed = seen.get(key)

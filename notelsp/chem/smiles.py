@@ -47,6 +47,9 @@ def _read_without_valence_check(Chem, smiles: str):  # noqa: N803 - the RDKit mo
         return f"not valid SMILES: {smiles!r} (check brackets, ring-closure digits and element symbols)"
     problems = Chem.DetectChemistryProblems(mol)
     others = [p for p in problems if p.GetType() not in _VALENCE_PROBLEMS]
+    if any("Kekulize" in p.GetType() for p in others):
+        return (f"the aromatic (lowercase) atoms of {smiles!r} have no Kekulé structure: check the ring and "
+                "write a ring NH as [nH]")
     if others:
         return f"the SMILES {smiles!r} cannot be read: {_first_line(others[0].Message())}"
     mol.UpdatePropertyCache(strict=False)
