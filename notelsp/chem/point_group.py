@@ -205,7 +205,10 @@ class _Finder:
                 return "D2h"
             return "D2d" if mirrors else "D2"
         if perpendicular:
-            if horizontal:
+            # a vertical mirror through a perpendicular C2 makes the horizontal one (their product),
+            # which noise may have hidden from the distance test; one between the C2 axes is dihedral
+            through_twofold = any(abs(float(n @ a)) < _PERPENDICULAR for n in mirrors for a in perpendicular)
+            if horizontal or through_twofold:
                 return f"D{order}h"
             return f"D{order}d" if vertical else f"D{order}"
         if horizontal:
@@ -242,7 +245,8 @@ class _Finder:
         _, _, rows = np.linalg.svd(self.points)
         line = rows[0]
         off_line = self.points - np.outer(self.points @ line, line)
-        return bool(np.linalg.norm(off_line, axis=1).max() <= self.tolerance)
+        # an infinite axis includes its C2, which brings an atom off the line by d back 2d from where it was
+        return bool(np.linalg.norm(off_line, axis=1).max() <= self.tolerance / 2)
 
     def _cubic(self, twofold: list[np.ndarray], mirrors: list[np.ndarray], inversion: bool) -> str | None:
         if not self.spherical:
@@ -291,7 +295,10 @@ def _distinct(directions: list[np.ndarray]) -> list[np.ndarray]:
     kept: list[np.ndarray] = []
     while not covered.all():
         index = int(np.argmin(covered))  # the first direction not yet covered
-        kept.append(stacked[index])
+        # the mean of the directions that agree with it (signs aligned): less noise than any one of them
+        members = stacked[close[index] & ~covered]
+        mean = np.sum(members * np.sign(members @ stacked[index])[:, None], axis=0)
+        kept.append(mean / np.linalg.norm(mean))
         covered |= close[index]
     return kept
 
