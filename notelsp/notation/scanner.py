@@ -118,7 +118,7 @@ def _overlaps_skip(opening: int, closing: int, skips: tuple[tuple[int, int], ...
 
 def _begins_with_element(body: str) -> bool:
     head = body.lstrip()
-    return head.startswith("[") or elements.is_symbol(head[:2]) or elements.is_symbol(head[:1]) or starts_with_smiles(head)
+    return head.startswith("[") or elements.is_symbol(head[:2]) or elements.is_symbol(head[:1]) or starts_with_smiles(head, quoted=False)
 
 
 def _segment_found(segment: Segment) -> list[Found]:

@@ -295,6 +295,11 @@ def _formulas_at_start(text: str) -> tuple[tuple[Formula, ...], tuple[NotationEr
     if unclosed is not None:
         return (), (NotationError("malformed-formula", f"the SMILES opened at '{text[unclosed:].strip()[:24]}' has no "
                                   "closing '\"'; write e.g. smiles \"CC(=O)O\"", Span(unclosed, unclosed + 1)),)
+    unquoted = _UNQUOTED_SMILES.search(text)
+    if unquoted is not None:  # smiles CCO: the SMILES must be quoted, or its [ ] ( ) = # : would be read as notation
+        word = unquoted.group(1)
+        return (), (NotationError("malformed-formula", f"write the SMILES in double quotes: smiles \"{word}\"",
+                                  Span(unquoted.start(1), unquoted.end(1)), f'"{word}"'),)
     try:
         tree = parser().parse(text, start="formula_spec")
     except UnexpectedInput as error:
@@ -316,6 +321,7 @@ def _formulas_at_start(text: str) -> tuple[tuple[Formula, ...], tuple[NotationEr
 
 # "smiles" (any case) then an opening quote: where a SMILES species begins
 _SMILES_MARKER = re.compile(r'(?i)(?<![A-Za-z])smiles[ \t]*"')
+_UNQUOTED_SMILES = re.compile(r'(?i)(?<![A-Za-z])smiles[ \t]+([^"\s]\S*)')
 
 
 def _unclosed_smiles(text: str) -> int | None:
@@ -345,10 +351,11 @@ def formula_end(body: str) -> int:
     return len(body)
 
 
-def starts_with_smiles(body: str) -> bool:
-    """Whether an annotation body opens with a SMILES species (``smiles "...``)."""
-    match = _SMILES_MARKER.match(body.lstrip())
-    return match is not None
+def starts_with_smiles(body: str, quoted: bool = True) -> bool:
+    """Whether an annotation body opens with a SMILES species: ``smiles "...``, or with ``quoted=False``
+    also ``smiles CCO`` (a SMILES left unquoted, worth an error when claims follow)."""
+    head = body.lstrip()
+    return _SMILES_MARKER.match(head) is not None or (not quoted and _UNQUOTED_SMILES.match(head) is not None)
 
 
 def parse_formula(text: str) -> Formula:
