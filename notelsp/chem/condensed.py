@@ -7,10 +7,13 @@ like with the conventions chemists use:
   before it;
 - H and halogens written after an atom are its substituents; written before the
   first atom (``HCOOH``, ``ClCH2CH2Cl``) they belong to that first atom;
-- a parenthesised group is a branch on the atom before it (``CH3C(O)NH2``,
-  ``NH2(COCH3)``); groups written first are branches of the first atom
-  (``(CH3)2CO``); a repeated group may also be a repeated chain unit
+- a parenthesised group is a branch on the atom before it, joined by its first
+  atom (``CH3C(O)NH2``, ``NH2(COCH3)``); groups written first are branches of
+  the first atom, joined by their last backbone atom (``(CH3)2CO``,
+  ``(CH3CO)2O``); a repeated group may also be a repeated chain unit
   (``CH3(CH2)4CH3``);
+- ``HOOC``, ``HO2C``, ``OHC`` and ``O2N`` written first are read right to left,
+  as the carboxyl, formyl or nitro group on the atom after them;
 - an atom written after a backbone atom continues the backbone, except that an
   O or S may instead be a terminal atom on it (the O of ``CHO`` and ``COOH``); ``O2``/``S2`` after an atom
   are terminal atoms on it (``NO2``, ``CO2H``), ``X2`` otherwise is two bonded
@@ -43,20 +46,22 @@ A formula is read here instead when
 4. three or more non-hydrogen, non-halogen atoms are written one after another,
    each once (HNCO, HOCN, CNO-, OCS): a chain in written order, not a centre
    with ligands; or
-5. it is an oxoacid of a period-2 atom written H_m X O_n (HNO2, H2CO3): there
-   the octet rule, not the ligand count, decides where the hydrogens sit
-   (HNO2 is HO-N=O); or
+5. it is an oxoacid written H_m X O_n where the single-centre model keeps a
+   hydrogen on X but the octet rule puts every hydrogen on oxygen (HNO2 is
+   HO-N=O; HNO3, H2SO4 and H2CO3 stay, the two agree there); or
 6. it writes a benzene ring (C6H5, C6H6).
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from functools import lru_cache
 from typing import Iterator
 
 from .. import elements
 from ..notation.model import Atom, BondMark, Formula, Group
 from .molecule import Molecule, MoleculeAtom, MoleculeBond, label_atoms
+from .species import build_species
 
 SUBSTITUENTS = frozenset({"H", "F", "Cl", "Br", "I", "At"})  # written after an atom, they sit on it
 HALOGENS = frozenset({"F", "Cl", "Br", "I", "At"})
@@ -98,6 +103,7 @@ class _State:
 COVALENT = frozenset({"B", "C", "N", "O", "F", "Si", "P", "S", "Cl", "Ge", "As", "Se", "Br", "Sb", "Te", "I", "At"})
 
 
+@lru_cache(maxsize=256)
 def _states(symbol: str) -> tuple[_State, ...]:
     """The bonding states an atom may take: its usual valence first, then charged, expanded and radical ones."""
     if symbol == "H":
@@ -175,7 +181,7 @@ class _Build:
         key = (a, b) if a < b else (b, a)
         if a == b or key in self.edges:
             return False
-        if order is None and (self.symbols[a] in SUBSTITUENTS or self.symbols[b] in SUBSTITUENTS):
+        if order is None and "H" in (self.symbols[a], self.symbols[b]):
             order = 1
         self.edges[key] = order
         return True
@@ -197,9 +203,9 @@ class _Unreadable(Exception):
     """A reason the text cannot be read at all (not one failed alternative)."""
 
 
-def _read_level(items: list[_Item], build: _Build, attach: int | None, attach_order: int | None,
-                reasons: set[str]) -> Iterator[tuple[_Build, int]]:
-    """Every reading of one level; yields (build, first atom)."""
+def _read_level(items: list[_Item], build: _Build, attach: int | None,
+                attach_order: int | None) -> Iterator[tuple[_Build, int, int]]:
+    """Every reading of one level; yields (build, first atom, last backbone atom)."""
     if items and items[0].kind == "bond":
         if attach is None:
             raise _Unreadable("a written bond with no atom before it")
@@ -215,7 +221,7 @@ def _read_level(items: list[_Item], build: _Build, attach: int | None, attach_or
                 return None
         return _Level(atom, atom, False, None, (), atom)
 
-    def step(i: int, b: _Build, lv: _Level) -> Iterator[tuple[_Build, int]]:
+    def step(i: int, b: _Build, lv: _Level) -> Iterator[tuple[_Build, int, int]]:
         if len(b.symbols) > MAX_ATOMS:
             raise _Unreadable(f"more than {MAX_ATOMS} atoms")
         if i == len(items):
@@ -223,7 +229,7 @@ def _read_level(items: list[_Item], build: _Build, attach: int | None, attach_or
                 raise _Unreadable("a written bond with no atom after it")
             if lv.first is None:
                 raise _Unreadable("no atom for the written hydrogens, halogens or groups to sit on")
-            yield b, lv.first
+            yield b, lv.first, lv.backbone
             return
         item = items[i]
         if item.kind == "bond":
@@ -241,7 +247,7 @@ def _read_level(items: list[_Item], build: _Build, attach: int | None, attach_or
         else:
             yield from heavy(i, item, b, lv)
 
-    def substituent(i: int, item: _Item, b: _Build, lv: _Level) -> Iterator[tuple[_Build, int]]:
+    def substituent(i: int, item: _Item, b: _Build, lv: _Level) -> Iterator[tuple[_Build, int, int]]:
         if lv.pending is not None:
             raise _Unreadable(f"a written bond to {item.symbol}, which takes only single bonds here")
         if lv.anchor is None:
@@ -256,41 +262,38 @@ def _read_level(items: list[_Item], build: _Build, attach: int | None, attach_or
             if all(nb.bond(target, nb.add(item.symbol)) for _ in range(item.count)):
                 yield from step(i + 1, nb, lv)
 
-    def group(i: int, item: _Item, b: _Build, lv: _Level) -> Iterator[tuple[_Build, int]]:
+    def group(i: int, item: _Item, b: _Build, lv: _Level) -> Iterator[tuple[_Build, int, int]]:
         inner = _items(item.parts)
         order = lv.pending
-        if lv.backbone is None:  # written first: branches of the first atom
-            yield from copies(inner, item.count, b, None, None, lambda nb, firsts: step(
-                i + 1, nb, _Level(held=lv.held + tuple((f, order) for f in firsts))))
+        if lv.backbone is None:  # written first: branches of the first atom, joined by their last atom ((CH3CO)2O)
+            yield from copies(inner, item.count, b, None, None, lambda nb, ends: step(
+                i + 1, nb, _Level(held=lv.held + tuple((e, order) for e in ends))), by_end=True)
             return
         after = _Level(lv.backbone, lv.backbone, False, None, lv.held, lv.first)
         yield from copies(inner, item.count, b, lv.backbone, order, lambda nb, firsts: step(i + 1, nb, after))
         if item.count > 1:  # a repeated chain unit, CH3(CH2)4CH3
             yield from chain(inner, item.count, b, lv, i, order)
 
-    def copies(inner, count, b, attach_to, order, then) -> Iterator[tuple[_Build, int]]:
-        def one(k: int, nb: _Build, firsts: tuple[int, ...]):
+    def copies(inner, count, b, attach_to, order, then, by_end=False) -> Iterator[tuple[_Build, int, int]]:
+        def one(k: int, nb: _Build, joins: tuple[int, ...]):
             if k == count:
-                yield from then(nb, firsts)
+                yield from then(nb, joins)
                 return
-            for built, first in _read_level(inner, nb.copy(), attach_to, order, reasons):
-                yield from one(k + 1, built, firsts + (first,))
+            for built, first, end in _read_level(inner, nb.copy(), attach_to, order):
+                yield from one(k + 1, built, joins + (end if by_end else first,))
         yield from one(0, b, ())
 
-    def chain(inner, count, b, lv: _Level, i: int, order) -> Iterator[tuple[_Build, int]]:
+    def chain(inner, count, b, lv: _Level, i: int, order) -> Iterator[tuple[_Build, int, int]]:
         def one(k: int, nb: _Build, last: int):
             if k == count:
                 nb.cost += 1
                 yield from step(i + 1, nb, _Level(last, last, False, None, lv.held, lv.first))
                 return
-            start = len(nb.symbols)
-            for built, first in _read_level(inner, nb.copy(), last, order if k == 0 else None, reasons):
-                # the unit's own backbone end is its last non-substituent atom
-                ends = [a for a in range(start, len(built.symbols)) if built.symbols[a] not in SUBSTITUENTS]
-                yield from one(k + 1, built, ends[-1] if ends else first)
+            for built, _, end in _read_level(inner, nb.copy(), last, order if k == 0 else None):
+                yield from one(k + 1, built, end)
         yield from one(0, b, lv.backbone)
 
-    def heavy(i: int, item: _Item, b: _Build, lv: _Level) -> Iterator[tuple[_Build, int]]:
+    def heavy(i: int, item: _Item, b: _Build, lv: _Level) -> Iterator[tuple[_Build, int, int]]:
         symbol, count = item.symbol, item.count
         if count == 1:
             nb = b.copy()
@@ -321,7 +324,7 @@ def _read_level(items: list[_Item], build: _Build, attach: int | None, attach_or
             raise _Unreadable(f"{symbol}{count}: how {count} {symbol} atoms are joined is not written "
                               f"(write the chain out, e.g. CH3CH2CH2, or give SMILES)")
 
-    def terminals(i: int, item: _Item, b: _Build, lv: _Level, cost: int) -> Iterator[tuple[_Build, int]]:
+    def terminals(i: int, item: _Item, b: _Build, lv: _Level, cost: int) -> Iterator[tuple[_Build, int, int]]:
         """Xn after an atom: n terminal atoms on it (NO2, SO3); the last may continue the backbone (CO2CH3)."""
         nb = b.copy()
         nb.cost += cost
@@ -334,7 +337,7 @@ def _read_level(items: list[_Item], build: _Build, attach: int | None, attach_or
         onward.cost += 1
         yield from step(i + 1, onward, _Level(last, last, False, None, lv.held, lv.first))
 
-    def pair(i: int, item: _Item, b: _Build, lv: _Level, cost: int) -> Iterator[tuple[_Build, int]]:
+    def pair(i: int, item: _Item, b: _Build, lv: _Level, cost: int) -> Iterator[tuple[_Build, int, int]]:
         """X2: two bonded atoms sharing the substituents written after them (and before, when first)."""
         j = i + 1
         subs: list[tuple[str, int]] = []
@@ -370,7 +373,7 @@ def _read_level(items: list[_Item], build: _Build, attach: int | None, attach_or
                 split.bond(a if h in on_first else z, h)
             yield from step(j, split, _Level(z, z, False, None, (), first))
 
-    def ring(i: int, b: _Build, lv: _Level) -> Iterator[tuple[_Build, int]]:
+    def ring(i: int, b: _Build, lv: _Level) -> Iterator[tuple[_Build, int, int]]:
         following = items[i + 1] if i + 1 < len(items) else None
         hydrogens = following.count if following is not None and following.kind == "sub" and following.symbol == "H" else 0
         if hydrogens not in (5, 6):
@@ -395,7 +398,38 @@ def _read_level(items: list[_Item], build: _Build, attach: int | None, attach_or
             level = _Level(ipso, ipso, False, None, lv.held, lv.first)
         yield from step(i + 2, nb, level)
 
-    yield from step(0, build, _Level())
+    start, level = _written_backwards(items, build)
+    yield from step(start, build, level)
+
+
+# Groups chemists write in front of the atom they sit on, read right to left: HOOC-, HO2C-, OHC-, O2N-.
+_BACKWARDS = {
+    (("sub", "H", 1), ("heavy", "O", 1), ("heavy", "O", 1)): ((0, 1),),  # H on the first O
+    (("sub", "H", 1), ("heavy", "O", 2)): ((0, 1),),
+    (("heavy", "O", 1), ("sub", "H", 1)): (),
+    (("heavy", "O", 2),): (),
+}
+_BACKWARDS_ATOM = {"HOOC": "C", "HO2C": "C", "OHC": "C", "O2N": "N"}
+
+
+def _written_backwards(items: list[_Item], build: _Build) -> tuple[int, _Level]:
+    """Where reading starts: after a group written in front of its atom (held for that atom), or at the start."""
+    for pattern, inner_bonds in _BACKWARDS.items():
+        n = len(pattern)
+        if len(items) <= n or items[n].kind != "heavy" or items[n].count != 1:
+            continue
+        if tuple((it.kind, it.symbol, it.count) for it in items[:n]) != pattern:
+            continue
+        text = "".join(sym + (str(cnt) if cnt > 1 else "") for _, sym, cnt in pattern) + items[n].symbol
+        if _BACKWARDS_ATOM.get(text) != items[n].symbol:
+            continue
+        atoms = [build.add(it.symbol) for it in items[:n] for _ in range(it.count)]
+        for a, c in inner_bonds:
+            build.bond(atoms[a], atoms[c])
+        bonded = {atoms[a] for pair in inner_bonds for a in pair if build.symbols[atoms[a]] == "H"}
+        held = tuple((atom, 1 if build.symbols[atom] == "H" else None) for atom in atoms if atom not in bonded)
+        return n, _Level(held=held)
+    return 0, _Level()
 
 
 def _splits(pool: list[int], symbols: list[str]) -> Iterator[set[int]]:
@@ -418,9 +452,11 @@ def _splits(pool: list[int], symbols: list[str]) -> Iterator[set[int]]:
 
 def _oxoacid(items: list[_Item]) -> _Build | None:
     """H_m X O_n with the hydrogens on oxygens (HNO2 as HO-N=O), the reading of an oxoacid."""
-    if len(items) != 3 or [it.kind for it in items] != ["sub", "heavy", "heavy"]:
+    if len(items) != 3 or items[0].kind != "sub" or items[2].kind != "heavy":
         return None
     hydrogens, centre, oxygens = items
+    if centre.kind == "sub" and centre.symbol not in HALOGENS:
+        return None
     if hydrogens.symbol != "H" or centre.count != 1 or oxygens.symbol != "O" or hydrogens.count > oxygens.count:
         return None
     b = _Build(cost=1)
@@ -464,7 +500,7 @@ def _solve(build: _Build, charge: int) -> _Solved | None:
             base[c] += order
     if any(base[k] > most[k] for k in range(len(symbols))):
         return None
-    electronegativity = [elements.element(s).electronegativity or 2.0 for s in symbols]
+    electronegativity = [_electronegativity(s) for s in symbols]
     by_valence = [{} for _ in symbols]
     for k, opts in enumerate(options):
         for s in opts:
@@ -514,23 +550,42 @@ def _solve(build: _Build, charge: int) -> _Solved | None:
     return _Solved(best[0], orders, states, frozenset(varying | build.aromatic))
 
 
+@lru_cache(maxsize=256)
+def _electronegativity(symbol: str) -> float:
+    return elements.element(symbol).electronegativity or 2.0
+
+
 def _pick_states(by_valence: list[dict], sums: list[int], charge: int, electronegativity: list[float]):
     """The least costly states whose valences match ``sums`` and whose charges add up to ``charge``."""
-    table: dict[int, tuple[tuple, tuple[_State, ...]]] = {0: ((0, 0, 0, 0, 0.0), ())}
+    # states are kept as (state, earlier) chains: appending to a tuple per atom would cost n² here
+    table: dict[int, tuple[tuple, tuple | None]] = {0: ((0, 0, 0, 0, 0.0), None)}
     for k, total in enumerate(sums):
         candidates = by_valence[k].get(total)
         if not candidates:
             return None
-        nxt: dict[int, tuple[tuple, tuple[_State, ...]]] = {}
-        for q, (score, states) in table.items():
+        if len(candidates) == 1 and not candidates[0].charge and not candidates[0].unpaired \
+                and not candidates[0].expanded:
+            only = candidates[0]
+            table = {q: (score, (only, chain)) for q, (score, chain) in table.items()}
+            continue
+        nxt: dict[int, tuple[tuple, tuple | None]] = {}
+        for q, (score, chain) in table.items():
             for s in candidates:
                 cost = (score[0] + s.unpaired, score[1] + int(s.sextet), score[2] + abs(s.charge),
                         score[3] + int(s.expanded), score[4] + s.charge * electronegativity[k])
                 key = q + s.charge
                 if key not in nxt or cost < nxt[key][0]:
-                    nxt[key] = (cost, states + (s,))
+                    nxt[key] = (cost, (s, chain))
         table = nxt
-    return table.get(charge)
+    found = table.get(charge)
+    if found is None:
+        return None
+    score, chain = found
+    states: list[_State] = []
+    while chain is not None:
+        states.append(chain[0])
+        chain = chain[1]
+    return score, tuple(reversed(states))
 
 
 # --- the molecule and its identity ---------------------------------------------------------
@@ -641,41 +696,46 @@ def read_condensed(formula: Formula) -> CondensedReading:
         if symbol != "H" and not _states(symbol):
             return _unreadable(f"{symbol} has no covalent valence this reader knows (main-group elements only)")
     items = _items(formula.parts)
-    reasons: set[str] = set()
     candidates: list[_Build] = []
+    oxoacid = _oxoacid(items)
+    if oxoacid is not None:
+        candidates.append(oxoacid)
     try:
-        for build, _ in _read_level(items, _Build(), None, None, reasons):
+        for build, _, _ in _read_level(items, _Build(), None, None):
             candidates.append(build)
             if len(candidates) > MAX_CANDIDATES:
                 return _unreadable(f"too many ways to read {formula.text}: {_SUGGESTION}")
     except _Unreadable as error:
-        return _unreadable(f"{formula.text}: {error}")
+        if oxoacid is None:
+            return _unreadable(f"{formula.text}: {error}")
     except RecursionError:
         return _unreadable(f"{formula.text} is nested too deeply to read")
-    oxoacid = _oxoacid(items)
-    if oxoacid is not None:
-        candidates.append(oxoacid)
     cheapest: dict[frozenset, _Build] = {}
     for build in candidates:
         key = frozenset(build.edges.items())
         if key not in cheapest or build.cost < cheapest[key].cost:
             cheapest[key] = build
     best_score = None
-    best: dict[tuple, Molecule] = {}
+    best: list[tuple[_Build, _Solved]] = []
     for build in cheapest.values():
         solved = _solve(build, formula.charge)
         if solved is None:
             continue
         if best_score is None or solved.score < best_score:
-            best_score, best = solved.score, {}
+            best_score, best = solved.score, []
         if solved.score == best_score:
-            molecule = _molecule(build, solved, formula.text)
-            best.setdefault(_identity(molecule), molecule)
+            best.append((build, solved))
     if not best:
         charge = f" with charge {formula.charge:+d}" if formula.charge else ""
         return _unreadable(f"{formula.text}{charge}: no reading gives every atom a usual valence "
                            f"(check the formula and its charge, or give SMILES)")
-    readings = tuple(best.values())
+    distinct: dict[tuple, Molecule] = {}
+    for build, solved in best:
+        molecule = _molecule(build, solved, formula.text)
+        if len(best) == 1:
+            return CondensedReading(molecule=molecule)
+        distinct.setdefault(_identity(molecule), molecule)
+    readings = tuple(distinct.values())
     if len(readings) == 1:
         return CondensedReading(molecule=readings[0])
     listed = ", ".join(molecule_smiles(m) for m in readings)
@@ -728,10 +788,8 @@ def is_condensed(formula: Formula) -> bool:
             continue
         else:
             run = 0
-    # 5. an oxoacid of a period-2 atom
-    items = _items(formula.parts)
-    if _oxoacid(items) is not None and elements.is_symbol(items[1].symbol) \
-            and elements.element(items[1].symbol).period == 2:
+    # 5. an oxoacid whose hydrogens the octet rule puts on oxygen where the single-centre model keeps one on X
+    if _oxoacid(_items(formula.parts)) is not None and _hydrogen_moves_to_oxygen(formula):
         return True
     # 6. a benzene ring
     for k, part in enumerate(parts[:-1]):
@@ -740,3 +798,18 @@ def is_condensed(formula: Formula) -> bool:
                 and isinstance(following, Atom) and following.symbol == "H" and following.count in (5, 6):
             return True
     return False
+
+
+def _hydrogen_moves_to_oxygen(formula: Formula) -> bool:
+    """H_m X O_n: the single-centre model keeps a hydrogen on X, the octet reading has none there (HNO2)."""
+    model = build_species(formula)
+    if model.outside_model is not None or len(model.centres) != 1:
+        return False
+    if not any(ligand.symbol == "H" for ligand in model.centres[0].ligands):
+        return False
+    reading = read_condensed(formula)
+    if reading.molecule is None:
+        return False
+    molecule = reading.molecule
+    centre = next(k for k, atom in enumerate(molecule.atoms) if atom.element not in ("H", "O"))
+    return all(molecule.atoms[n].element != "H" for n in molecule.neighbours(centre))
