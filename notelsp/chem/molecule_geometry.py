@@ -39,17 +39,29 @@ PLACED_FROM_DOMAINS = 5  # a single centre with this many electron domains or mo
 _MODEL_CACHE = 512  # models kept (each is a few hundred floats)
 
 
+@lru_cache(maxsize=_MODEL_CACHE)
 def whole_molecule_symmetry(molecule: Molecule) -> tuple[str, bool] | str:
-    """(point group, polar) of the whole molecule, or a sentence saying why there is no model.
+    """(point group, polar) of the whole molecule, or a sentence saying why there is none.
 
     The point group is that of one 3D model (``model_3d``): one conformer,
     the force-field minimum chemists usually mean (staggered ethane, anti
     butane).  Polar means the point group allows a permanent dipole (C1, Cs,
     Cn, Cnv, C∞v; common practice).
+
+    The molecule graph carries no stereo configuration, so where the group
+    depends on one (E or Z at a double bond, cis or trans across a ring, meso
+    or not with two stereocentres) the answer is a sentence saying so, not
+    the group of whichever stereoisomer the model happened to be.  A double
+    bond inside a ring of up to eight atoms is taken as Z (the usual form).
     """
     model = model_3d(molecule)
     if isinstance(model, str):
         return model
+    centre = _single_centre(molecule)
+    if centre is None or _domains(molecule, centre) < PLACED_FROM_DOMAINS:
+        open_stereo = _open_stereo(molecule)
+        if open_stereo:
+            return open_stereo
     group = point_group([atom.element for atom in molecule.atoms], model)
     return group, is_polar(group)
 
@@ -196,6 +208,33 @@ def _rdkit_molecule(molecule: Molecule, Chem):  # noqa: N803 - the RDKit module,
     if failed != flags.SANITIZE_NONE:
         Chem.FastFindRings(mol)  # embedding needs ring information even when aromaticity could not be set
     return mol
+
+
+def _open_stereo(molecule: Molecule) -> str | None:
+    """Why the point group depends on a stereo configuration the molecule does not fix; None when it does not."""
+    from rdkit import Chem, rdBase
+
+    with rdBase.BlockLogs():
+        mol = _rdkit_molecule(molecule, Chem)
+        if isinstance(mol, str):
+            return None
+        found = Chem.FindPotentialStereo(mol)
+        ring_info = mol.GetRingInfo()
+    labels = [atom.label for atom in molecule.atoms]
+    for item in found:
+        if item.type != Chem.StereoType.Bond_Double:
+            continue
+        bond = mol.GetBondWithIdx(item.centeredOn)
+        if ring_info.NumBondRings(bond.GetIdx()) and ring_info.MinBondRingSize(bond.GetIdx()) <= 8:
+            continue  # Z in a ring of up to eight, as chemists mean unless they say otherwise
+        first, second = labels[bond.GetBeginAtomIdx()], labels[bond.GetEndAtomIdx()]
+        return (f"the point group depends on whether {first}={second} is E or Z, which the molecule as "
+                "written does not say")
+    centres = [labels[item.centeredOn] for item in found if item.type == Chem.StereoType.Atom_Tetrahedral]
+    if len(centres) >= 2:
+        return (f"the point group depends on the relative configuration of {', '.join(centres)} "
+                "(cis/trans or meso), which the molecule as written does not say")
+    return None
 
 
 def _minimised(mol, Chem, rdForceFieldHelpers) -> list[float] | None:  # noqa: N803 - RDKit modules, passed in

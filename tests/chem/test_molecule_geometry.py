@@ -1,0 +1,157 @@
+"""3D models of whole molecules and their point groups.
+
+The expected point groups and polarities are those of the usual structures in
+textbooks (common practice, no source); every model's group is also compared
+with pymatgen's PointGroupAnalyzer on the same coordinates, and every bond
+length with the sum of RDKit's covalent radii.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+from pymatgen.core import Molecule as PymatgenMolecule
+from pymatgen.symmetry.analyzer import PointGroupAnalyzer
+
+from notelsp.chem.molecule import Molecule, MoleculeAtom, MoleculeBond
+from notelsp.chem.molecule_geometry import model_3d, whole_molecule_symmetry
+from notelsp.chem.smiles import read_smiles
+from notelsp.chem.symmetry import normalised_symbol
+
+# SMILES -> (point group, polar) of the usual structure (common practice, no source)
+EXPECTED = {
+    "C=C": ("D2h", False),  # ethylene
+    "CC": ("D3d", False),  # ethane, staggered
+    "c1ccccc1": ("D6h", False),  # benzene
+    "CC(=O)O": ("Cs", True),  # acetic acid
+    "FC(F)(F)C(F)(F)F": ("D3d", False),  # hexafluoroethane, staggered
+    "N": ("C3v", True),  # ammonia
+    "O": ("C2v", True),  # water
+    "FS(F)(F)(F)(F)F": ("Oh", False),  # sulfur hexafluoride
+    "F[Xe](F)(F)F": ("D4h", False),  # xenon tetrafluoride, square planar
+    "FS(F)(F)F": ("C2v", True),  # sulfur tetrafluoride, seesaw
+    "FCl(F)F": ("C2v", True),  # chlorine trifluoride, T-shaped
+    "FP(F)(F)(F)F": ("D3h", False),  # phosphorus pentafluoride
+    "O=C=O": ("D∞h", False),  # carbon dioxide
+    "C#N": ("C∞v", True),  # hydrogen cyanide
+    "C=C=C": ("D2d", False),  # allene
+    "C": ("Td", False),  # methane
+    "F[Xe]F": ("D∞h", False),  # xenon difluoride
+    "I[I-]I": ("D∞h", False),  # triiodide
+    "F[I](F)(F)(F)(F)(F)F": ("D5h", False),  # iodine heptafluoride, pentagonal bipyramid
+    "CCCC": ("C2h", False),  # butane, anti (the lowest conformer)
+    "C1CCCCC1": ("D3d", False),  # cyclohexane, chair
+    "ClC(Cl)(Cl)Cl": ("Td", False),  # carbon tetrachloride
+    "ClCCl": ("C2v", True),  # dichloromethane
+    "O=S=O": ("C2v", True),  # sulfur dioxide
+    "c1ccncc1": ("C2v", True),  # pyridine
+    "C1=CC=CC=CC=C1": ("D2d", False),  # cyclooctatetraene, tub (ring double bonds Z)
+}
+
+
+def _molecule(smiles: str) -> Molecule:
+    read = read_smiles(smiles)
+    assert not isinstance(read, str), read
+    return read
+
+
+def _pymatgen(molecule: Molecule, coordinates) -> str:
+    symbols = [atom.element for atom in molecule.atoms]
+    return PointGroupAnalyzer(PymatgenMolecule(symbols, np.array(coordinates))).sch_symbol
+
+
+@pytest.mark.parametrize("smiles", sorted(EXPECTED))
+def test_whole_molecule_point_group_and_polarity(smiles):
+    molecule = _molecule(smiles)
+    group, polar = EXPECTED[smiles]
+    assert whole_molecule_symmetry(molecule) == (group, polar)
+
+
+@pytest.mark.parametrize("smiles", sorted(EXPECTED))
+def test_model_group_agrees_with_pymatgen(smiles):
+    molecule = _molecule(smiles)
+    coordinates = model_3d(molecule)
+    assert not isinstance(coordinates, str), coordinates
+    group, _ = whole_molecule_symmetry(molecule)
+    assert normalised_symbol(group) == normalised_symbol(_pymatgen(molecule, coordinates))
+
+
+@pytest.mark.parametrize("smiles", sorted(EXPECTED))
+def test_bonds_are_as_long_as_covalent_radii_say(smiles):
+    from rdkit import Chem
+
+    table = Chem.GetPeriodicTable()
+    molecule = _molecule(smiles)
+    coordinates = np.array(model_3d(molecule))
+    for bond in molecule.bonds:
+        a, b = molecule.atoms[bond.first].element, molecule.atoms[bond.second].element
+        length = float(np.linalg.norm(coordinates[bond.first] - coordinates[bond.second]))
+        # single-bond radii: multiple bonds are shorter, by up to about 0.35 Å for a triple bond
+        single = table.GetRcovalent(a) + table.GetRcovalent(b)
+        assert single - 0.45 < length < single + 0.35, (a, b, length, single)
+    # nothing overlaps: unbonded atoms are farther apart than bonded ones could be
+    bonded = {(bond.first, bond.second) for bond in molecule.bonds}
+    for i in range(len(coordinates)):
+        for j in range(i + 1, len(coordinates)):
+            if (i, j) not in bonded:
+                assert np.linalg.norm(coordinates[i] - coordinates[j]) > 0.9
+
+
+def test_models_are_deterministic():
+    for smiles in ("CC(=O)O", "CCCC", "FS(F)(F)F"):
+        molecule = _molecule(smiles)
+        first = model_3d.__wrapped__(molecule)
+        second = model_3d.__wrapped__(molecule)
+        assert first == second
+
+
+def test_hypervalent_centres_are_placed_with_lone_pairs_where_vsepr_puts_them():
+    # ClF3: two lone pairs equatorial leave a T, two F-Cl-F angles of 90° and one of 180°
+    molecule = _molecule("FCl(F)F")
+    coordinates = np.array(model_3d(molecule))
+    chlorine = next(i for i, atom in enumerate(molecule.atoms) if atom.element == "Cl")
+    bonds = [coordinates[i] - coordinates[chlorine] for i in molecule.neighbours(chlorine)]
+    angles = sorted(
+        round(float(np.degrees(np.arccos(np.dot(u, v) / np.linalg.norm(u) / np.linalg.norm(v)))))
+        for k, u in enumerate(bonds) for v in bonds[k + 1:]
+    )
+    assert angles == [90, 90, 180]
+
+
+def test_reasons_instead_of_models():
+    assert isinstance(model_3d(Molecule((), ())), str)
+    two_parts = Molecule(
+        (MoleculeAtom("Na", "Na", 1), MoleculeAtom("Cl", "Cl", -1)),
+        (),
+    )
+    assert "separate parts" in model_3d(two_parts)
+    assert isinstance(whole_molecule_symmetry(two_parts), str)
+
+
+@pytest.mark.parametrize(
+    ("smiles", "words"),
+    [
+        ("CC=CC", "E or Z"),  # 2-butene: C2h (E) or C2v (Z), and polar only as Z
+        ("N=N", "E or Z"),  # diazene
+        ("CC(O)C(O)C", "relative configuration"),  # butane-2,3-diol: meso or chiral
+        ("CC1CCC(C)CC1", "relative configuration"),  # 1,4-dimethylcyclohexane: cis or trans
+    ],
+)
+def test_stereo_the_molecule_does_not_fix_is_said_not_guessed(smiles, words):
+    # the molecule graph has no stereo configuration, so these have no one point group
+    answer = whole_molecule_symmetry(_molecule(smiles))
+    assert isinstance(answer, str) and words in answer
+
+
+def test_one_stereocentre_leaves_the_group_alone():
+    # enantiomers share their point group (C1), so one stereocentre decides nothing
+    assert whole_molecule_symmetry(_molecule("CC(Cl)CC")) == ("C1", True)
+
+
+def test_one_atom_and_one_bond():
+    neon = Molecule((MoleculeAtom("Ne", "Ne"),), ())
+    assert whole_molecule_symmetry(neon) == ("Kh", False)
+    fluorine = Molecule((MoleculeAtom("F", "F1"), MoleculeAtom("F", "F2")), (MoleculeBond(0, 1, 1),))
+    coordinates = model_3d(fluorine)
+    assert whole_molecule_symmetry(fluorine) == ("D∞h", False)
+    assert normalised_symbol(_pymatgen(fluorine, coordinates)) == "Dinfh"
