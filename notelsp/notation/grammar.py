@@ -152,7 +152,7 @@ CLAIM_WORDS = frozenset(
     a an one single two three four five six both all bond angle index i s character
     point group shorter longer equal deg degree degrees in
     distorted sawhorse saw horse dsp length distance unpaired electron electrons
-    paramagnetic diamagnetic hz pm nm angstrom
+    paramagnetic diamagnetic hz pm nm angstrom is has
     """.split()
 )
 

@@ -12,7 +12,9 @@ from notelsp.notation import grammar
 
 # Formulas and claims from the README's notation section; lark's own in-memory parser is the reference.
 SAMPLES = (("formula_spec", "ClF3"), ("formula_spec", "SO4^2-"), ("formula_spec", "HOCl @O"),
-           ("claim", "T-shaped"), ("claim", "sp3d2"), ("claim", "trigonal bipyramidal"))
+           ("claim", "T-shaped"), ("claim", "sp3d2"), ("claim", "trigonal bipyramidal"),
+           ("formula_spec", "CH2=CH2"), ("formula_spec", 'smiles "CC(=O)O"'), ("claim", "C2 trigonal planar"),
+           ("claim", "O=C-O 123°"))
 
 
 class _Marker:

@@ -41,3 +41,35 @@ def test_generated_annotations_sit_at_their_offsets(parts, prefix):
     assert text[annotation.span.start : annotation.span.end] == f"{{{formula}: bent}}"
     assert text[annotation.formula.span.start : annotation.formula.span.end] == formula
     assert text[annotation.claims[0].span.start : annotation.claims[0].span.end] == "bent"
+
+
+BONDS = ["=", "≡", "#", "-"]
+_ORDER = {"=": 2, "≡": 3, "#": 3, "-": 1}
+
+
+@settings(max_examples=60, deadline=None)
+@given(st.lists(st.tuples(st.lists(atoms, min_size=1, max_size=3), st.sampled_from(BONDS)), min_size=1, max_size=4),
+       st.lists(atoms, min_size=1, max_size=3))
+def test_generated_bonded_formulas_read_back(pieces, last):
+    """Fragments joined by written bonds: counts add up and every bond is where and what it was written."""
+    text = "".join(_written(fragment) + bond for fragment, bond in pieces) + _written(last)
+    formula = parse_formula(text)
+    every = [atom for fragment, _ in pieces for atom in fragment] + last
+    assert formula.composition() == _expected(every)
+    marks = [part for part in formula.parts if not hasattr(part, "symbol")]
+    assert [text[mark.span.start : mark.span.end] for mark in marks] == [bond for _, bond in pieces]
+    assert [mark.order for mark in marks] == [_ORDER[bond] for _, bond in pieces]
+
+
+# Characters SMILES uses (Weininger's notation, as RDKit reads it), and the notation's and Markdown's own.
+SMILES_ALPHABET = "CNOSPFclnos[]()=#@:+-/\\%0123456789*$.Hr_*`~<>!{"
+
+
+@settings(max_examples=80, deadline=None)
+@given(st.text(alphabet=SMILES_ALPHABET, min_size=1, max_size=40).filter(lambda s: "{" not in s))
+def test_any_quoted_text_is_kept_verbatim_as_the_smiles(smiles):
+    text = f'On Friday {{smiles "{smiles}": bent}} was logged.'
+    (annotation,) = scan(text, "markdown").annotations
+    assert annotation.formula.smiles == smiles
+    assert text[annotation.formula.span.start : annotation.formula.span.end] == smiles
+    assert [text[c.span.start : c.span.end] for c in annotation.claims] == ["bent"]
