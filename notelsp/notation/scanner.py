@@ -1,7 +1,8 @@
 """Find every annotation in a document and place its parse at the right offsets.
 
 A brace group is an annotation when it begins with an element symbol (or '['
-for a bracketed ion) and either contains ':' or reads cleanly as a formula.
+for a bracketed ion, or ``smiles "`` for a SMILES) and either contains ':' or
+reads cleanly as a formula (a quoted SMILES always is one).
 Everything else in braces (``{a, b}``, ``{#id .class}``, LaTeX arguments) is
 left alone.  Bodies are parsed through the position-free cache of
 :func:`notelsp.notation.transform.parse_body`; an annotation is recorded as
@@ -118,7 +119,7 @@ def _overlaps_skip(opening: int, closing: int, skips: tuple[tuple[int, int], ...
 
 def _begins_with_element(body: str) -> bool:
     head = body.lstrip()
-    return head.startswith("[") or elements.is_symbol(head[:2]) or elements.is_symbol(head[:1]) or starts_with_smiles(head, quoted=False)
+    return head.startswith("[") or elements.is_symbol(head[:2]) or elements.is_symbol(head[:1])
 
 
 def _segment_found(segment: Segment) -> list[Found]:
@@ -197,7 +198,7 @@ def _inline_candidate(
     if skips and _overlaps_skip(opening, closing, skips, skip_starts):
         return None
     body = text[opening + 1 : closing]
-    if not _begins_with_element(body[:16]):
+    if not (_begins_with_element(body[:8]) or starts_with_smiles(body[:32], quoted=False)):
         return near_miss_body(body) if body[:1].isalpha() else None
     parsed = parse_body(body[: MAX_BODY_CHARS + 1] if len(body) > MAX_BODY_CHARS else body)
     if not parsed.has_colon and parsed.errors and len(body) <= MAX_BODY_CHARS and not starts_with_smiles(body):
