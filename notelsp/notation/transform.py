@@ -325,12 +325,8 @@ _UNQUOTED_SMILES = re.compile(r'(?i)(?<![A-Za-z])smiles[ \t]+([^"\s]\S*)')
 
 
 def _unclosed_smiles(text: str) -> int | None:
-    """The offset of a SMILES' opening quote that is never closed, else None."""
-    quote = None
-    for index, char in enumerate(text):
-        if char == '"':
-            quote = index if quote is None else None
-    return quote
+    """The offset of a SMILES' opening quote that is never closed, else None (quotes pair up in order)."""
+    return text.rfind('"') if text.count('"') % 2 else None
 
 
 def formula_end(body: str) -> int:
