@@ -286,10 +286,11 @@ def parse_formulas(text: str, offset: int = 0) -> tuple[tuple[Formula, ...], tup
 def _formulas_at_start(text: str) -> tuple[tuple[Formula, ...], tuple[NotationError, ...]]:
     """``parse_formulas`` once per distinct text, spans from 0 (notes name the same species often)."""
     offset = 0
-    limit = 2 * (MAX_SMILES_CHARS if _SMILES_MARKER.search(text) else MAX_FORMULA_CHARS) + 16
-    if len(text) > limit:
+    smiles = _SMILES_MARKER.search(text) is not None
+    if len(text) > 2 * (MAX_SMILES_CHARS if smiles else MAX_FORMULA_CHARS) + 16:
         start = len(text) - len(text.lstrip())
-        return (), (NotationError("formula-too-large", f"formula longer than {MAX_FORMULA_CHARS} characters",
+        what = f"SMILES longer than {MAX_SMILES_CHARS}" if smiles else f"formula longer than {MAX_FORMULA_CHARS}"
+        return (), (NotationError("formula-too-large", f"{what} characters",
                                   Span(offset + start, offset + len(text.rstrip()))),)
     unclosed = _unclosed_smiles(text)
     if unclosed is not None:
