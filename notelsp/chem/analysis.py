@@ -11,11 +11,12 @@ from .. import elements
 from ..notation.model import Formula
 from . import isomers as isomer_module
 from .bent import BentAnalysis, bent
-from .coulson import TYPICAL_ANGLES, CoulsonAnalysis, solve_hybrids
+from .coulson import TYPICAL_ANGLES, CoulsonAnalysis
 from .drago import DragoAnalysis, drago
 from .exceptions import USUAL, KnownException, known_exception
 from .hazards import cautions as hazard_cautions
 from .model import Ligand
+from .on_demand import CoulsonRequest, IsomerRequest, OnDemand
 from .species import CentreModel, build_species
 from .vsepr import SiteAngle, vsepr
 
@@ -49,13 +50,22 @@ class CentreAnalysis:
     hybridization: str  # textbook label, "unhybridized" for Drago species
     ideal_angles: tuple[float, ...]
     angle_ranges: tuple[PairRange, ...]
-    coulson: CoulsonAnalysis | None  # None for hypervalent centres (beyond s-p hybrids)
     drago: DragoAnalysis
     bent: BentAnalysis
-    isomers: tuple[isomer_module.Isomer, ...]
+    on_demand: OnDemand  # the isomers and the Coulson analysis, computed on first use (the properties below)
     notes: tuple[str, ...]
     isomers_withheld: str | None = None  # why no isomers were listed (too many arrangements); None when they were
     exception: KnownException | None = None  # where plain VSEPR is known to fail for this kind of centre
+
+    @property
+    def isomers(self) -> tuple[isomer_module.Isomer, ...]:
+        """Every isomer, the expected one first; none when ``isomers_withheld`` says why."""
+        return self.on_demand.isomers()
+
+    @property
+    def coulson(self) -> CoulsonAnalysis | None:
+        """Coulson's indices of the bond hybrids; None for hypervalent centres (beyond s-p hybrids)."""
+        return self.on_demand.coulson()
 
     @property
     def confidence(self) -> str:
@@ -165,13 +175,13 @@ def analyse_centre(centre: CentreModel, formula_text: str, *, with_isomers: bool
     elif drago_result.applies:
         hybridization = "unhybridized"
     ranges = _pair_ranges(centre.ligands, site_angles, bent_result)
-    coulson = _coulson(centre, formula_text, ranges, lone_pairs + odd, result.steric_number)
+    coulson_request = _coulson_request(centre, formula_text, ranges, lone_pairs + odd, result.steric_number)
     if not with_isomers:  # positional isomers are a single-centre notion; a larger molecule's are not enumerated
-        found_isomers, withheld = (), "isomers are listed for single-centre species only"
+        isomer_request, withheld = None, "isomers are listed for single-centre species only"
     elif isomer_sites is None:
-        found_isomers, withheld = (), f"the {exception.name} has no fixed arrangement of sites"
+        isomer_request, withheld = None, f"the {exception.name} has no fixed arrangement of sites"
     else:
-        found_isomers, withheld = _isomers(geometry, centre.ligands, isomer_sites, atom.electronegativity)
+        isomer_request, withheld = _isomer_request(geometry, centre.ligands, isomer_sites, atom.electronegativity)
     isomer_note = ((f"positional isomers not listed ({withheld}); "
                     "placement, polarity, point-group and isomer-count claims are not checked",)
                    if withheld and with_isomers else ())
@@ -191,10 +201,9 @@ def analyse_centre(centre: CentreModel, formula_text: str, *, with_isomers: bool
         hybridization=hybridization,
         ideal_angles=tuple(sorted({a.ideal for a in site_angles})),
         angle_ranges=ranges,
-        coulson=coulson,
         drago=drago_result,
         bent=bent_result,
-        isomers=tuple(found_isomers),
+        on_demand=OnDemand(isomer_request, coulson_request),
         notes=(exception_note + _notes(centre, atom, lone_pairs, odd, result.steric_number, drago_result)
                + bent_result.notes + isomer_note),
         isomers_withheld=withheld,
@@ -202,18 +211,16 @@ def analyse_centre(centre: CentreModel, formula_text: str, *, with_isomers: bool
     )
 
 
-def _isomers(electron_geometry: str, ligands: tuple[Ligand, ...], lone_pair_sites: int,
-             centre_electronegativity: float | None) -> tuple[tuple[isomer_module.Isomer, ...], str | None]:
-    """The centre's isomers, or none and the reason they were not listed.
+def _isomer_request(electron_geometry: str, ligands: tuple[Ligand, ...], lone_pair_sites: int,
+                    centre_electronegativity: float | None) -> tuple[IsomerRequest | None, str | None]:
+    """What the centre's isomers are enumerated from (on first use), or none and the reason they are not listed.
 
     An odd electron occupies a site of its own (counted in ``lone_pair_sites``), so it is placed like a lone pair.
     """
-    try:
-        found = isomer_module.isomers_for(electron_geometry, ligands, lone_pair_sites,
-                                          centre_electronegativity=centre_electronegativity)
-    except ValueError as error:  # IsomerLimitExceeded included: its message gives the count and the limit
-        return (), str(error)
-    return found, None
+    refused = isomer_module.refusal(electron_geometry, ligands, lone_pair_sites)  # e.g. the count and the limit
+    if refused is not None:
+        return None, refused
+    return IsomerRequest(electron_geometry, ligands, lone_pair_sites, centre_electronegativity), None
 
 
 def _label_pairs(ligands: tuple[Ligand, ...]) -> list[tuple[str, str]]:
@@ -276,8 +283,8 @@ def _bent_rank(pairs: list[tuple[str, str]], bent_result: BentAnalysis) -> dict[
     return rank
 
 
-def _coulson(centre: CentreModel, formula_text: str, ranges: tuple[PairRange, ...], nonbonding: int,
-             steric_number: int) -> CoulsonAnalysis | None:
+def _coulson_request(centre: CentreModel, formula_text: str, ranges: tuple[PairRange, ...], nonbonding: int,
+                     steric_number: int) -> CoulsonRequest | None:
     if steric_number > 4:
         return None  # s and p alone cannot describe five or more domains
     counts: dict[str, int] = {}
@@ -292,7 +299,7 @@ def _coulson(centre: CentreModel, formula_text: str, ranges: tuple[PairRange, ..
         for r in ranges:
             angles.setdefault(r.ligands, r.estimate)
         source = "predicted range midpoint"
-    return solve_hybrids(counts, angles, nonbonding, source)
+    return CoulsonRequest(tuple(counts.items()), tuple(angles.items()), nonbonding, source)
 
 
 def _notes(centre: CentreModel, atom: elements.Element, lone_pairs: int, odd: int, steric_number: int,

@@ -13,8 +13,6 @@ import math
 from collections.abc import Mapping
 from dataclasses import dataclass
 
-import numpy as np
-
 # Typical bond angles of well-known species, used when no angle is claimed.
 # Source: ASE G2 set geometries (Curtiss et al., J. Chem. Phys. 106, 1063 (1997)),
 # angles computed from the coordinates and rounded to 0.1 degree.
@@ -126,6 +124,8 @@ def solve_hybrids(
     ``bond_counts`` maps ligand label -> number of such bonds, ``pair_angles``
     (label, label) -> degrees.  Pairs at or below 90 degrees mean pure p.
     """
+    import numpy as np  # loaded here, on first use: most reviews never fit hybrids
+
     labels = list(bond_counts)
     pure_p = {a for (a, b), angle in pair_angles.items() if a == b and angle <= 90.0}
     rows, rhs = [], []

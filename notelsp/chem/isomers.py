@@ -27,23 +27,26 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 from functools import lru_cache
 from itertools import permutations
-from typing import Literal
-
-import numpy as np
+from typing import TYPE_CHECKING, Literal
 
 from .model import LONE_PAIR, Ligand
-from .polarity import dipole_estimate, is_polar
-from .polyhedra import Polyhedron, polyhedron
-from .symmetry import schoenflies
 
-ELECTRON_GEOMETRIES = (
-    "linear",
-    "trigonal-planar",
-    "tetrahedral",
-    "trigonal-bipyramidal",
-    "octahedral",
-    "pentagonal-bipyramidal",
-)
+if TYPE_CHECKING:  # numpy, the polyhedra and the point groups load on the first enumeration, not on import
+    import numpy as np
+
+    from .polyhedra import Polyhedron
+
+# The electron geometries isomers are enumerated on, with the sites of each polyhedron
+# (tests/chem/test_isomers.py checks the counts against the polyhedra themselves).
+SITE_COUNTS = {
+    "linear": 2,
+    "trigonal-planar": 3,
+    "tetrahedral": 4,
+    "trigonal-bipyramidal": 5,
+    "octahedral": 6,
+    "pentagonal-bipyramidal": 7,
+}
+ELECTRON_GEOMETRIES = tuple(SITE_COUNTS)
 # Above this many raw assignments of domains to sites the isomers are not enumerated; the review
 # says so instead.  The work grows with the assignments.  Measured warm on a shared 2-core machine:
 # 2,520 (five different ligands and a pair on a pentagonal bipyramid, IF2ClBrH(OH)(CH3)) take
@@ -102,6 +105,30 @@ def isomers_for(
     return _isomers(electron_geometry, tuple(ligands), lone_pairs, centre_electronegativity)
 
 
+def refusal(electron_geometry: str, ligands: Sequence[Ligand], lone_pairs: int) -> str | None:
+    """Why :func:`isomers_for` would refuse these arguments (its error's message), or None if it would not.
+
+    Nothing is enumerated and numpy is not loaded: an analysis can say at once whether a centre's
+    isomers will be listed, and enumerate them only when a claim needs them.
+    """
+    try:
+        _check_request(electron_geometry, [ligand.label for ligand in ligands] + [LONE_PAIR] * lone_pairs)
+    except ValueError as error:  # IsomerLimitExceeded included
+        return str(error)
+    return None
+
+
+def _check_request(electron_geometry: str, labels: Sequence[str]) -> None:
+    """Raise what :func:`isomers_for` raises before it enumerates anything."""
+    if electron_geometry not in SITE_COUNTS:
+        raise ValueError(f"no isomers for electron geometry {electron_geometry!r}")
+    if len(labels) != SITE_COUNTS[electron_geometry]:
+        raise ValueError(f"{electron_geometry} has {SITE_COUNTS[electron_geometry]} sites, not {len(labels)} domains")
+    raw = _arrangement_count(labels)
+    if raw > MAX_ARRANGEMENTS:
+        raise IsomerLimitExceeded(f"{raw:,} site assignments exceed the limit of {MAX_ARRANGEMENTS:,}")
+
+
 def diastereomer_count(isomers: Sequence[Isomer]) -> int:
     """Isomers counted with each enantiomer pair once."""
     return len(isomers) - sum(1 for index, isomer in enumerate(isomers) if isomer.enantiomer is not None and isomer.enantiomer < index)
@@ -151,6 +178,10 @@ def _orbits(labels: Sequence[str], shape: Polyhedron) -> list[Arrangement]:
 
 
 def _point_group(arrangement: Arrangement, shape: Polyhedron) -> str:
+    import numpy as np
+
+    from .symmetry import schoenflies
+
     if shape.name == "linear":
         return "D∞h" if arrangement[0] == arrangement[1] else "C∞v"
     kept = [np.array(op.matrix) for op in shape.operations if _image(arrangement, op.permutation) == arrangement]
@@ -192,6 +223,8 @@ def _domain_size(label: str, ligand: Ligand | None, reference: float) -> float:
 
 def _site_separations(vectors: np.ndarray) -> list[list[float]]:
     """Distance between sites i and j raised to REPULSION_POWER, computed once per enumeration."""
+    import numpy as np
+
     count = len(vectors)
     return [[float(np.linalg.norm(vectors[i] - vectors[j])) ** REPULSION_POWER for j in range(count)] for i in range(count)]
 
@@ -357,15 +390,12 @@ def _isomers(
     lone_pairs: int,
     centre_electronegativity: float | None,
 ) -> tuple[Isomer, ...]:
-    if electron_geometry not in ELECTRON_GEOMETRIES:
-        raise ValueError(f"no isomers for electron geometry {electron_geometry!r}")
-    shape = polyhedron(electron_geometry)
+    from .polarity import dipole_estimate, is_polar
+    from .polyhedra import polyhedron
+
     labels = [ligand.label for ligand in ligands] + [LONE_PAIR] * lone_pairs
-    if len(labels) != len(shape.sites):
-        raise ValueError(f"{electron_geometry} has {len(shape.sites)} sites, not {len(labels)} domains")
-    raw = _arrangement_count(labels)
-    if raw > MAX_ARRANGEMENTS:
-        raise IsomerLimitExceeded(f"{raw:,} site assignments exceed the limit of {MAX_ARRANGEMENTS:,}")
+    _check_request(electron_geometry, labels)
+    shape = polyhedron(electron_geometry)
 
     by_label: dict[str, Ligand] = {}
     for ligand in ligands:

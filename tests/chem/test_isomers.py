@@ -110,6 +110,32 @@ def test_domain_count_must_fill_the_polyhedron():
         isomers_for("cubic", ligands("F"), 0)
 
 
+def test_site_counts_are_those_of_the_polyhedra():
+    from notelsp.chem.isomers import SITE_COUNTS
+    from notelsp.chem.polyhedra import polyhedron
+
+    assert {name: len(polyhedron(name).sites) for name in SITE_COUNTS} == SITE_COUNTS
+
+
+@pytest.mark.parametrize(("geometry", "symbols", "lone_pairs"), [
+    ("octahedral", ("F", "F", "F", "F", "Cl", "Cl"), 0),  # accepted
+    ("octahedral", ("F", "F"), 1),  # too few domains for the sites
+    ("cubic", ("F",), 0),  # no such geometry
+    ("square-pyramidal", ("F",) * 5, 0),  # a polyhedron, but not an electron geometry
+    ("pentagonal-bipyramidal", SEVEN_DIFFERENT, 0),  # over the limit
+])
+def test_refusal_says_exactly_what_isomers_for_raises(geometry, symbols, lone_pairs):
+    from notelsp.chem.isomers import refusal
+
+    try:
+        isomers_for(geometry, ligands(*symbols), lone_pairs)
+    except ValueError as error:
+        raised = str(error)
+    else:
+        raised = None
+    assert refusal(geometry, ligands(*symbols), lone_pairs) == raised
+
+
 def test_results_are_cached_by_arguments():
     first = isomers_for("octahedral", ligands("F", "F", "F", "F", "Cl", "Cl"), 0)
     again = isomers_for("octahedral", tuple(ligands("F", "F", "F", "F", "Cl", "Cl")), 0)
@@ -299,9 +325,10 @@ def test_analysis_turns_isomer_failures_into_a_note(formula, monkeypatch):
     from notelsp.chem import analysis
 
     def refuse(*args, **kwargs):
-        raise IsomerLimitExceeded("too many")
+        return "too many"
 
-    monkeypatch.setattr(analysis.isomer_module, "isomers_for", refuse)
+    # the analysis asks whether the enumeration would be refused; it enumerates only on first use
+    monkeypatch.setattr(analysis.isomer_module, "refusal", refuse)
     centre_ = analysis._analyse(formula("SF4")).centres[0]  # uncached: the real analysis
     assert centre_.isomers == () and centre_.isomers_withheld == "too many"
     assert any(note.startswith("positional isomers not listed (too many)") for note in centre_.notes)
