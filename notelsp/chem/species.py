@@ -10,7 +10,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from .. import elements
-from ..notation.model import Atom, Formula, Group
+from ..notation.model import Atom, BondMark, Formula, Group
 from .model import Conjugation, Ligand
 
 HALOGENS = frozenset({"F", "Cl", "Br", "I", "At"})
@@ -55,6 +55,8 @@ def _group_text(group: Group) -> str:
         for part in parts:
             if isinstance(part, Atom):
                 out.append(part.symbol + (str(part.count) if part.count > 1 else ""))
+            elif isinstance(part, BondMark):
+                out.append("-=≡"[part.order - 1])
             else:
                 out.append("(" + render(part.parts) + ")" + (str(part.count) if part.count > 1 else ""))
         return "".join(out)
@@ -63,7 +65,7 @@ def _group_text(group: Group) -> str:
 
 
 def _first_atom(group: Group) -> str:
-    first = group.parts[0]
+    first = next(part for part in group.parts if not isinstance(part, BondMark))
     return first.symbol if isinstance(first, Atom) else _first_atom(first)
 
 
@@ -81,6 +83,8 @@ def build_species(formula: Formula) -> SpeciesModel:
     atoms: dict[str, int] = {}
     groups: list[Ligand] = []
     for part in formula.parts:
+        if isinstance(part, BondMark):
+            return _outside("written bonds make a structural formula, which the single-centre model does not read")
         if isinstance(part, Atom):
             atoms[part.symbol] = atoms.get(part.symbol, 0) + part.count
         elif part.parts:
