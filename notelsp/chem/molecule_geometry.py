@@ -9,9 +9,12 @@ Two ways to a model:
   geometry has no notion of lone pairs, so embedding gives poor shapes there;
 - every other molecule is embedded by RDKit's distance geometry (ETKDG, fixed
   seed) and cleaned up with a force field (MMFF94 where it has parameters for
-  every atom, else UFF).  Molecules with freely rotating bonds get several
+  every atom, else UFF).  Molecules with rotating bonds or rings get several
   embeddings and the lowest-energy minimum is kept, so that the model is the
-  conformer chemists mean (anti butane, chair cyclohexane, staggered ethane).
+  conformer chemists mean (anti butane, chair cyclohexane, staggered ethane);
+  end groups (CH3, OH, NH2) are also tried eclipsed and staggered, and among
+  conformers within NEAR_DEGENERATE_KCAL of the lowest the most symmetric is
+  kept.
 
 Either way the model is one conformer, deterministic for a given molecule.
 RDKit is imported only when a model is made.
@@ -19,6 +22,7 @@ RDKit is imported only when a model is made.
 
 from __future__ import annotations
 
+import itertools
 from functools import lru_cache
 
 from .. import elements
@@ -33,8 +37,15 @@ from .vsepr import ELECTRON_GEOMETRY
 Coordinates = tuple[tuple[float, float, float], ...]  # Å, one triple per atom in the molecule's order
 
 EMBEDDING_SEED = 20240917  # any fixed seed: the same molecule always gets the same model
-CONFORMERS_WHEN_FLEXIBLE = 12  # embeddings tried when a bond rotates freely; the lowest minimum is kept
+CONFORMERS_WHEN_FLEXIBLE = 12  # embeddings tried when a bond rotates or a ring flexes; the lowest minimum is kept
 FORCE_FIELD_STEPS = 2000  # enough for a 30-atom molecule to converge from an ETKDG start
+# Conformers whose force-field energies differ by less than this are treated as equally likely and the
+# more symmetric one is kept: force-field conformational energies are good to about 0.5 kcal/mol at best
+# (from memory), and chemists draw the symmetric conformer when nothing separates them.
+NEAR_DEGENERATE_KCAL = 0.3
+TORSION_HOLD = 1.0e4  # kcal/mol/rad^2: holds an end group at its eclipsed or staggered setting while the rest relaxes
+MAX_ROTORS_COMBINED = 3
+MAX_STEREOISOMERS = 16  # stereoisomers modelled when the molecule leaves the choice open  # every eclipsed/staggered combination up to this many end groups; beyond, all one or all the other
 PLACED_FROM_DOMAINS = 5  # a single centre with this many electron domains or more is placed, not embedded
 _MODEL_CACHE = 512  # models kept (each is a few hundred floats)
 
@@ -48,22 +59,40 @@ def whole_molecule_symmetry(molecule: Molecule) -> tuple[str, bool] | str:
     butane).  Polar means the point group allows a permanent dipole (C1, Cs,
     Cn, Cnv, C∞v; common practice).
 
-    The molecule graph carries no stereo configuration, so where the group
-    depends on one (E or Z at a double bond, cis or trans across a ring, meso
-    or not with two stereocentres) the answer is a sentence saying so, not
-    the group of whichever stereoisomer the model happened to be.  A double
-    bond inside a ring of up to eight atoms is taken as Z (the usual form).
+    The molecule graph carries no stereo configuration.  Where it could
+    matter (a double bond that can be E or Z, two or more stereocentres) every
+    stereoisomer that can be built is modelled: when they share one point
+    group that is the answer (enantiomers always do; a bicyclic cage may have
+    one buildable form only), otherwise the answer is a sentence giving each
+    stereoisomer's group, not the group of whichever one a model happened to
+    be.  A double bond inside a ring of up to eight atoms is taken as Z (the
+    usual form) and not varied.
     """
     model = model_3d(molecule)
     if isinstance(model, str):
         return model
+    symbols = [atom.element for atom in molecule.atoms]
     centre = _single_centre(molecule)
-    if centre is None or _domains(molecule, centre) < PLACED_FROM_DOMAINS:
-        open_stereo = _open_stereo(molecule)
-        if open_stereo:
-            return open_stereo
-    group = point_group([atom.element for atom in molecule.atoms], model)
+    if centre is None or not _placed_not_embedded(molecule, centre):
+        alternatives = _stereoisomer_groups(molecule)
+        if alternatives is not None:
+            groups = {group for group, _ in alternatives}
+            if len(groups) == 1:
+                group = groups.pop()
+                return group, is_polar(group)
+            return _depends_on_stereo(alternatives)
+    group = point_group(symbols, model)
     return group, is_polar(group)
+
+
+def _depends_on_stereo(alternatives: list[tuple[str, str]]) -> str:
+    by_group: dict[str, list[str]] = {}
+    for group, description in alternatives:
+        by_group.setdefault(group, []).append(description)
+    parts = [f"{group} ({'polar' if is_polar(group) else 'nonpolar'}) as {' or '.join(names)}"
+             for group, names in by_group.items()]
+    return ("the point group depends on the stereoisomer, which the molecule as written does not fix: "
+            + "; ".join(parts))
 
 
 @lru_cache(maxsize=_MODEL_CACHE)
@@ -77,7 +106,7 @@ def model_3d(molecule: Molecule) -> Coordinates | str:
     if not _connected(molecule):
         return "the molecule falls into separate parts: no single 3D model (write one species at a time)"
     centre = _single_centre(molecule)
-    if centre is not None and _domains(molecule, centre) >= PLACED_FROM_DOMAINS:
+    if centre is not None and _placed_not_embedded(molecule, centre):
         return _placed(molecule, centre)
     embedded = _embedded(molecule)
     if isinstance(embedded, str) and centre is not None:
@@ -96,6 +125,18 @@ def _single_centre(molecule: Molecule) -> int | None:
         if len(molecule.neighbours(index)) == count - 1 and len(molecule.bonds) == count - 1:
             return index
     return None
+
+
+def _placed_not_embedded(molecule: Molecule, centre: int) -> bool:
+    """Five or more domains, or a lone pair (or two unpaired electrons) on the centre.
+
+    Force fields know lone pairs only through atom types, and a carbene or a
+    radical such as NH2 comes out linear from them; VSEPR places it bent.  A
+    centre with one odd electron only (CH3, NO2) is embedded: its lone
+    electron matters less than the force field's planar or bent atom type.
+    """
+    nonbonding = molecule.nonbonding_electrons(centre)
+    return _domains(molecule, centre) >= PLACED_FROM_DOMAINS or (nonbonding is not None and nonbonding >= 2)
 
 
 def _domains(molecule: Molecule, centre: int) -> int:
@@ -154,30 +195,135 @@ def _site_label(symbol: str, order: int) -> str:
 
 def _embedded(molecule: Molecule) -> Coordinates | str:
     from rdkit import Chem, rdBase
-    from rdkit.Chem import rdDistGeom, rdForceFieldHelpers, rdMolDescriptors
 
     with rdBase.BlockLogs():
         mol = _rdkit_molecule(molecule, Chem)
         if isinstance(mol, str):
             return mol
-        flexible = rdMolDescriptors.CalcNumRotatableBonds(mol) > 0
-        params = rdDistGeom.ETKDGv3()
-        params.randomSeed = EMBEDDING_SEED
-        params.numThreads = 1  # the same answer on every machine
-        attempts = CONFORMERS_WHEN_FLEXIBLE if flexible else 1
+        return _embed(mol, [atom.element for atom in molecule.atoms])
+
+
+def _embed(mol, symbols: list[str]) -> Coordinates | str:
+    """The chosen conformer of an RDKit molecule (its stereo tags, if any, kept)."""
+    from rdkit import Chem
+    from rdkit.Chem import rdDistGeom, rdForceFieldHelpers, rdMolDescriptors
+
+    params = rdDistGeom.ETKDGv3()
+    params.randomSeed = EMBEDDING_SEED
+    params.numThreads = 1  # the same answer on every machine
+    # rings flex too (a single embedding of cis-1,4-dimethylcyclohexane can stop in a twist boat), so a
+    # molecule with a ring or a rotatable bond gets several starts
+    flexible = rdMolDescriptors.CalcNumRotatableBonds(mol) > 0 or mol.GetRingInfo().NumRings() > 0
+    attempts = CONFORMERS_WHEN_FLEXIBLE if flexible else 1
+    conformers = list(rdDistGeom.EmbedMultipleConfs(mol, attempts, params))
+    if not conformers:
+        params.useRandomCoords = True  # distance geometry from random starts succeeds more often on strained cages
         conformers = list(rdDistGeom.EmbedMultipleConfs(mol, attempts, params))
-        if not conformers:
-            params.useRandomCoords = True  # distance geometry from random starts succeeds more often on strained cages
-            conformers = list(rdDistGeom.EmbedMultipleConfs(mol, attempts, params))
-        if not conformers:
-            return "RDKit could not embed the molecule in 3D (its distance bounds cannot all be met)"
-        energies = _minimised(mol, Chem, rdForceFieldHelpers)
-        if energies is not None:
-            best = min(range(len(conformers)), key=lambda i: (round(energies[i], 6), i))
-        else:
-            best = 0  # no force field knows these atoms: the embedding alone is the model
-        positions = mol.GetConformer(conformers[best]).GetPositions()
+    if not conformers:
+        return "RDKit could not embed the molecule in 3D (its distance bounds cannot all be met)"
+    field = _ForceField.for_molecule(mol, rdForceFieldHelpers)
+    if field is None:  # no force field knows these atoms: the embedding alone is the model
+        return _as_coordinates(mol.GetConformer(conformers[0]).GetPositions())
+    candidates = [(field.minimise(mol, cid), cid) for cid in conformers]
+    lowest = min(candidates)[1]
+    candidates += [(field.minimise(mol, cid, torsions), cid) for cid, torsions in _rotor_settings(mol, lowest, Chem)]
+    floor = min(energy for energy, _ in candidates)
+    near = [(energy, cid) for energy, cid in candidates if energy <= floor + NEAR_DEGENERATE_KCAL]
+    ranked = [(-_group_order(point_group(symbols, mol.GetConformer(cid).GetPositions())), round(energy, 6), cid)
+              for energy, cid in near]
+    best = min(ranked)[2]
+    return _as_coordinates(mol.GetConformer(best).GetPositions())
+
+
+def _as_coordinates(positions) -> Coordinates:
     return tuple((float(x), float(y), float(z)) for x, y, z in positions)
+
+
+class _ForceField:
+    """MMFF94 where it has parameters for every atom, else UFF; energies in kcal/mol."""
+
+    def __init__(self, helpers, properties) -> None:
+        self.helpers = helpers
+        self.properties = properties  # MMFF's atom typing; None for UFF
+
+    @classmethod
+    def for_molecule(cls, mol, helpers) -> _ForceField | None:
+        if helpers.MMFFHasAllMoleculeParams(mol):
+            return cls(helpers, helpers.MMFFGetMoleculeProperties(mol))
+        if helpers.UFFHasAllMoleculeParams(mol):
+            return cls(helpers, None)
+        return None
+
+    def _field(self, mol, cid: int):
+        if self.properties is not None:
+            return self.helpers.MMFFGetMoleculeForceField(mol, self.properties, confId=cid)
+        return self.helpers.UFFGetMoleculeForceField(mol, confId=cid)
+
+    def minimise(self, mol, cid: int, torsions: tuple[tuple[int, int, int, int, float], ...] = ()) -> float:
+        """Minimise conformer ``cid`` in place, holding these dihedrals; its energy without the holds."""
+        field = self._field(mol, cid)
+        for a, b, c, d, degrees in torsions:
+            add = field.MMFFAddTorsionConstraint if self.properties is not None else field.UFFAddTorsionConstraint
+            add(a, b, c, d, False, degrees, degrees, TORSION_HOLD)
+        field.Initialize()
+        field.Minimize(maxIts=FORCE_FIELD_STEPS)
+        return float(self._field(mol, cid).CalcEnergy())
+
+
+def _rotor_settings(mol, start: int, Chem) -> list[tuple[int, tuple[tuple[int, int, int, int, float], ...]]]:  # noqa: N803
+    """Copies of conformer ``start`` with each end group turned to eclipse (0°) or stagger (180°) its neighbour.
+
+    An end group (CH3, CF3, OH, NH2) on a bond whose rotation a force field
+    finds nearly flat can stop at any angle; a molecule drawn by a chemist
+    has it eclipsed or staggered, and only these settings can keep a mirror.
+    """
+    from rdkit.Chem import rdMolTransforms
+
+    rotors = []
+    for atom in mol.GetAtoms():
+        inner = [n for n in atom.GetNeighbors() if n.GetDegree() > 1]
+        ends = [n for n in atom.GetNeighbors() if n.GetDegree() == 1]
+        if len(inner) != 1 or not ends:
+            continue
+        partner = inner[0]
+        bond = mol.GetBondBetweenAtoms(atom.GetIdx(), partner.GetIdx())
+        others = [n.GetIdx() for n in partner.GetNeighbors() if n.GetIdx() != atom.GetIdx()]
+        if bond.GetBondType() != Chem.BondType.SINGLE or not others:
+            continue
+        rotors.append((min(others), partner.GetIdx(), atom.GetIdx(), ends[0].GetIdx()))
+    if not rotors:
+        return []
+    if len(rotors) <= MAX_ROTORS_COMBINED:
+        settings = list(itertools.product((0.0, 180.0), repeat=len(rotors)))
+    else:
+        settings = [(0.0,) * len(rotors), (180.0,) * len(rotors)]
+    made = []
+    for angles in settings:
+        conformer = Chem.Conformer(mol.GetConformer(start))
+        cid = mol.AddConformer(conformer, assignId=True)
+        placed = mol.GetConformer(cid)
+        for (z, y, x, t), degrees in zip(rotors, angles, strict=True):
+            rdMolTransforms.SetDihedralDeg(placed, z, y, x, t, degrees)
+        made.append((cid, tuple((t, x, y, z, degrees) for (z, y, x, t), degrees in zip(rotors, angles, strict=True))))
+    return made
+
+
+def _group_order(symbol: str) -> int:
+    """How many operations the point group has (linear groups count as the largest)."""
+    fixed = {"C1": 1, "Cs": 2, "Ci": 2, "T": 12, "Td": 24, "Th": 24, "O": 24, "Oh": 48, "I": 60, "Ih": 120, "Kh": 10_000}
+    if symbol in fixed:
+        return fixed[symbol]
+    if "∞" in symbol:
+        return 1_000
+    kind, rest = symbol[0], symbol[1:]
+    digits = "".join(ch for ch in rest if ch.isdigit())
+    n = int(digits) if digits else 1
+    suffix = rest[len(digits):]
+    if kind == "S":
+        return n
+    if kind == "C":
+        return n * (2 if suffix in ("v", "h") else 1)
+    return 2 * n * (2 if suffix in ("h", "d") else 1)  # D groups
 
 
 def _rdkit_molecule(molecule: Molecule, Chem):  # noqa: N803 - the RDKit module, passed in
@@ -210,42 +356,53 @@ def _rdkit_molecule(molecule: Molecule, Chem):  # noqa: N803 - the RDKit module,
     return mol
 
 
-def _open_stereo(molecule: Molecule) -> str | None:
-    """Why the point group depends on a stereo configuration the molecule does not fix; None when it does not."""
+def _stereoisomer_groups(molecule: Molecule) -> list[tuple[str, str]] | None:
+    """(point group, description) of each stereoisomer that can be built; None when no stereo choice is open."""
     from rdkit import Chem, rdBase
+    from rdkit.Chem.EnumerateStereoisomers import EnumerateStereoisomers, StereoEnumerationOptions
 
     with rdBase.BlockLogs():
         mol = _rdkit_molecule(molecule, Chem)
         if isinstance(mol, str):
             return None
-        found = Chem.FindPotentialStereo(mol)
         ring_info = mol.GetRingInfo()
+        open_bonds, open_atoms = [], []
+        for item in Chem.FindPotentialStereo(mol):
+            if item.type == Chem.StereoType.Atom_Tetrahedral:
+                open_atoms.append(item.centeredOn)
+            elif item.type == Chem.StereoType.Bond_Double:
+                index = item.centeredOn
+                if ring_info.NumBondRings(index) and ring_info.MinBondRingSize(index) <= 8:
+                    continue  # Z in a ring of up to eight, as chemists mean unless they say otherwise
+                open_bonds.append(index)
+        if not open_bonds and len(open_atoms) < 2:
+            return None  # at most one stereocentre: enantiomers share their point group
+        options = StereoEnumerationOptions(onlyUnassigned=True, unique=True, maxIsomers=MAX_STEREOISOMERS)
+        symbols = [atom.element for atom in molecule.atoms]
+        found = []
+        for isomer in EnumerateStereoisomers(mol, options=options):
+            coordinates = _embed(isomer, symbols)
+            if isinstance(coordinates, str):
+                continue  # a form that cannot be built (a trans-fused small bicycle)
+            found.append((point_group(symbols, coordinates), _describe_stereo(isomer, molecule, open_bonds, open_atoms)))
+    return found or None
+
+
+def _describe_stereo(isomer, molecule: Molecule, bonds: list[int], atoms: list[int]) -> str:
+    """"C2=C3 E", "C2 R, C3 S", "C2 r, C5 r": the CIP descriptors of one stereoisomer ("?" where CIP gives none)."""
+    from rdkit.Chem import rdCIPLabeler
+
+    rdCIPLabeler.AssignCIPLabels(isomer)
     labels = [atom.label for atom in molecule.atoms]
-    for item in found:
-        if item.type != Chem.StereoType.Bond_Double:
-            continue
-        bond = mol.GetBondWithIdx(item.centeredOn)
-        if ring_info.NumBondRings(bond.GetIdx()) and ring_info.MinBondRingSize(bond.GetIdx()) <= 8:
-            continue  # Z in a ring of up to eight, as chemists mean unless they say otherwise
-        first, second = labels[bond.GetBeginAtomIdx()], labels[bond.GetEndAtomIdx()]
-        return (f"the point group depends on whether {first}={second} is E or Z, which the molecule as "
-                "written does not say")
-    centres = [labels[item.centeredOn] for item in found if item.type == Chem.StereoType.Atom_Tetrahedral]
-    if len(centres) >= 2:
-        return (f"the point group depends on the relative configuration of {', '.join(centres)} "
-                "(cis/trans or meso), which the molecule as written does not say")
-    return None
-
-
-def _minimised(mol, Chem, rdForceFieldHelpers) -> list[float] | None:  # noqa: N803 - RDKit modules, passed in
-    """Each conformer's force-field energy after minimising it in place; None when no force field applies."""
-    if rdForceFieldHelpers.MMFFHasAllMoleculeParams(mol):
-        results = rdForceFieldHelpers.MMFFOptimizeMoleculeConfs(mol, numThreads=1, maxIters=FORCE_FIELD_STEPS)
-    elif rdForceFieldHelpers.UFFHasAllMoleculeParams(mol):
-        results = rdForceFieldHelpers.UFFOptimizeMoleculeConfs(mol, numThreads=1, maxIters=FORCE_FIELD_STEPS)
-    else:
-        return None
-    return [energy for _, energy in results]
+    words = []
+    for index in bonds:
+        bond = isomer.GetBondWithIdx(index)
+        letter = bond.GetProp("_CIPCode") if bond.HasProp("_CIPCode") else "?"
+        words.append(f"{labels[bond.GetBeginAtomIdx()]}={labels[bond.GetEndAtomIdx()]} {letter}")
+    for index in atoms:
+        atom = isomer.GetAtomWithIdx(index)
+        words.append(f"{labels[index]} {atom.GetProp('_CIPCode') if atom.HasProp('_CIPCode') else '?'}")
+    return ", ".join(words)
 
 
 def _connected(molecule: Molecule) -> bool:

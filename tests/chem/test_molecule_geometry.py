@@ -46,6 +46,11 @@ EXPECTED = {
     "O=S=O": ("C2v", True),  # sulfur dioxide
     "c1ccncc1": ("C2v", True),  # pyridine
     "C1=CC=CC=CC=C1": ("D2d", False),  # cyclooctatetraene, tub (ring double bonds Z)
+    "CC(=O)F": ("Cs", True),  # acetyl fluoride (a flat methyl rotor in MMFF94: the symmetric setting is kept)
+    "[CH2]": ("C2v", True),  # methylene, bent in both its singlet and triplet states
+    "[NH2]": ("C2v", True),  # amidogen radical
+    "OO": ("C2", True),  # hydrogen peroxide, skew
+    "CC(C)=O": ("C2v", True),  # acetone
 }
 
 
@@ -129,23 +134,41 @@ def test_reasons_instead_of_models():
 
 
 @pytest.mark.parametrize(
-    ("smiles", "words"),
+    ("smiles", "alternatives"),
     [
-        ("CC=CC", "E or Z"),  # 2-butene: C2h (E) or C2v (Z), and polar only as Z
-        ("N=N", "E or Z"),  # diazene
-        ("CC(O)C(O)C", "relative configuration"),  # butane-2,3-diol: meso or chiral
-        ("CC1CCC(C)CC1", "relative configuration"),  # 1,4-dimethylcyclohexane: cis or trans
+        # 2-butene: E is C2h and nonpolar, Z is C2v and polar
+        ("CC=CC", {"C2h (nonpolar) as C2=C3 E", "C2v (polar) as C2=C3 Z"}),
+        # 1,2-dichloroethene, the same
+        ("ClC=CCl", {"C2h (nonpolar) as C1=C2 E", "C2v (polar) as C1=C2 Z"}),
+        # 2,3-dibromobutane: meso (R,S) has a centre of inversion in its anti conformer, (R,R) and (S,S) a C2
+        ("CC(Br)C(Br)C", {"Ci (nonpolar) as C2 S, C3 R", "C2 (polar) as C2 R, C3 R or C2 S, C3 S"}),
+        # 1,4-dimethylcyclohexane: cis (one methyl axial) Cs, trans (both equatorial) C2h
+        ("CC1CCC(C)CC1", {"Cs (polar) as C2 s, C5 s", "C2h (nonpolar) as C2 r, C5 r"}),
     ],
 )
-def test_stereo_the_molecule_does_not_fix_is_said_not_guessed(smiles, words):
-    # the molecule graph has no stereo configuration, so these have no one point group
+def test_stereo_the_molecule_does_not_fix_is_said_not_guessed(smiles, alternatives):
+    # the molecule graph has no stereo configuration; each stereoisomer's group (common practice,
+    # no source) is listed with its CIP descriptors instead of one being chosen
     answer = whole_molecule_symmetry(_molecule(smiles))
-    assert isinstance(answer, str) and words in answer
+    assert isinstance(answer, str)
+    assert set(answer.split(": ", 1)[1].split("; ")) == alternatives
+
+
+def test_stereoisomers_that_share_a_group_give_it():
+    # bicyclo[1.1.0]butane: its bridgeheads look like stereocentres, but only the cis-fused form
+    # can be built, and it is C2v (common practice, no source; pymatgen agrees on the G2 geometry)
+    assert whole_molecule_symmetry(_molecule("C1C2CC12")) == ("C2v", True)
 
 
 def test_one_stereocentre_leaves_the_group_alone():
     # enantiomers share their point group (C1), so one stereocentre decides nothing
     assert whole_molecule_symmetry(_molecule("CC(Cl)CC")) == ("C1", True)
+
+
+@pytest.mark.xfail(strict=True, reason="MMFF94 and UFF both put anti hydrazine (C2h) about 2 kcal/mol below gauche")
+def test_hydrazine_is_gauche():
+    # hydrazine is gauche, C2 and polar (common practice, no source); the force fields disagree
+    assert whole_molecule_symmetry(_molecule("NN")) == ("C2", True)
 
 
 def test_one_atom_and_one_bond():
