@@ -51,11 +51,11 @@ def _environment(cache: Path) -> dict[str, str]:
     return environment
 
 
-async def _started(tmp_path: Path, progress: bool = True) -> LanguageClient:
+async def _started(tmp_path: Path, progress: bool = True, capabilities=None) -> LanguageClient:
     client = make_test_lsp_client()
     client.diagnostics = Publications()
     await client.start_io(*SERVER_COMMAND, env=_environment(tmp_path / "cache"))
-    capabilities = client_capabilities("neovim@v0.7.0")  # pushed diagnostics
+    capabilities = capabilities or client_capabilities("neovim@v0.7.0")  # pushed diagnostics
     capabilities.window = types.WindowClientCapabilities(work_done_progress=progress)
     await client.initialize_session(types.InitializeParams(capabilities=capabilities, root_uri=file_uri(tmp_path)))
     return client
@@ -65,8 +65,8 @@ async def _started(tmp_path: Path, progress: bool = True) -> LanguageClient:
 async def session(tmp_path):
     clients: list[LanguageClient] = []
 
-    async def start(progress: bool = True) -> LanguageClient:
-        clients.append(await _started(tmp_path, progress))
+    async def start(progress: bool = True, capabilities=None) -> LanguageClient:
+        clients.append(await _started(tmp_path, progress, capabilities))
         return clients[-1]
 
     yield start
@@ -145,15 +145,71 @@ async def test_a_settings_file_turns_it_off(session, tmp_path):
     assert client.progress_reports == {}
 
 
+async def test_an_editor_section_pushed_turns_it_off(session, tmp_path):
+    client = await session()
+    client.workspace_did_change_configuration(
+        types.DidChangeConfigurationParams(settings={"notelsp": {"compute": False}}))
+    uri = file_uri(tmp_path / "pushed-off.md")
+    open_note(client, uri, NOTE)
+    await wait_for(lambda: uri in client.diagnostics)
+    hover = await _hover(client, uri, NOTE, "H2O")
+    assert "H2O" in hover and "computing" not in hover and "computed" not in hover
+    assert client.messages == []  # the key is known: no settings problem shown
+
+
+async def test_a_pulling_client_is_asked_to_pull_again(session, tmp_path):
+    capabilities = client_capabilities("visual-studio-code")
+    capabilities.text_document.diagnostic = types.DiagnosticClientCapabilities(dynamic_registration=False)
+    capabilities.workspace.diagnostics = types.DiagnosticWorkspaceClientCapabilities(refresh_support=True)
+    capabilities.workspace.did_change_watched_files = None  # pytest-lsp's client cannot register capabilities
+    client = await session(progress=False, capabilities=capabilities)
+    await wait_for(lambda: client.diagnostic_refresh_count >= 1)  # the one after settings are read at start-up
+    uri = file_uri(tmp_path / "pulled.md")
+    open_note(client, uri, NOTE)
+    asked = types.DocumentDiagnosticParams(text_document=types.TextDocumentIdentifier(uri))
+    await client.text_document_diagnostic_async(asked)  # rules only; the calculation starts now
+    refreshes = client.diagnostic_refresh_count
+    await wait_for(lambda: client.diagnostic_refresh_count > refreshes, timeout=COMPUTE_TIMEOUT)
+    report = await client.text_document_diagnostic_async(asked)
+    expected = review_text(NOTE, "markdown", computed={"H2O": _water(tmp_path)}).findings
+    assert sorted((d.code, d.message) for d in report.items) == sorted((f.code, f.message) for f in expected)
+    assert uri not in client.diagnostics  # pulled, never pushed
+
+
+# Six species; the pool computes as many at a time as the machine has cores.
+SEVERAL = "{H2O: bent} {NH3: trigonal pyramidal} {PH3: trigonal pyramidal} {H2S: bent} {NF3: trigonal pyramidal} {OF2: bent}\n"
+
+
+async def test_species_an_edit_removed_are_not_computed(session, tmp_path):
+    first_batch = os.cpu_count() or 1
+    dropped = ["H2O", "NH3", "PH3", "H2S", "NF3", "OF2"][max(first_batch, 1):]
+    if not dropped:
+        pytest.skip("this machine computes all six species at once")
+    client = await session()
+    uri = file_uri(tmp_path / "edited.md")
+    open_note(client, uri, SEVERAL)
+    await wait_for(lambda: uri in client.diagnostics)
+    # Workers take seconds to start: the edit arrives while the first species are still being computed.
+    client.text_document_did_change(types.DidChangeTextDocumentParams(
+        text_document=types.VersionedTextDocumentIdentifier(uri=uri, version=2),
+        content_changes=[types.TextDocumentContentChangeWholeDocument(text=NOTE)]))
+    reports = (await wait_for(lambda: _ended(client), timeout=COMPUTE_TIMEOUT))[0]
+    said = " ".join(r.message or "" for r in reports)
+    assert not [name for name in dropped if name in said], said
+    assert "H2O computed, GFN2-xTB" in await _hover(client, uri, NOTE, "H2O")
+
+
 async def test_closing_the_note_and_exit_leave_no_worker_behind(tmp_path):
     client = await _started(tmp_path)
     uri = file_uri(tmp_path / "closed.md")
     open_note(client, uri, NOTE)
     server = client._server.pid  # the subprocess pygls started
-    children = await wait_for(lambda: _children(server), timeout=COMPUTE_TIMEOUT)  # the pool's workers
+    workers = await wait_for(lambda: _workers(server), timeout=COMPUTE_TIMEOUT)
+    children = _children(server)  # the workers and multiprocessing's resource tracker
     client.text_document_did_close(types.DidCloseTextDocumentParams(types.TextDocumentIdentifier(uri=uri)))
     await client.shutdown_session()
-    await wait_for(lambda: not any(Path(f"/proc/{pid}").exists() and _alive(pid) for pid in children))
+    assert set(workers) <= set(children)
+    await wait_for(lambda: not any(_alive(pid) for pid in children))
 
 
 def _children(pid: int) -> list[int]:
@@ -166,6 +222,18 @@ def _children(pid: int) -> list[int]:
         if fields.get("PPid", "").strip() == str(pid):
             found.append(int(status.parent.name))
     return found
+
+
+def _workers(pid: int) -> list[int]:
+    """The server's children that are the pool's worker processes (started by multiprocessing's spawn)."""
+    workers = []
+    for child in _children(pid):
+        try:
+            if b"multiprocessing.spawn" in Path(f"/proc/{child}/cmdline").read_bytes():
+                workers.append(child)
+        except OSError:
+            continue
+    return workers
 
 
 def _alive(pid: int) -> bool:
