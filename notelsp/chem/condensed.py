@@ -15,10 +15,11 @@ like with the conventions chemists use:
 - ``HOOC``, ``HO2C``, ``OHC`` and ``O2N`` written first are read right to left,
   as the carboxyl, formyl or nitro group on the atom after them;
 - an atom written after a backbone atom continues the backbone, except that an
-  O or S may instead be a terminal atom on it (the O of ``CHO`` and ``COOH``); ``O2``/``S2`` after an atom
-  are terminal atoms on it (``NO2``, ``CO2H``), ``X2`` otherwise is two bonded
-  atoms sharing the substituents written after them (``C2H5OH``, ``N2H4``);
-  ``C6H5`` is phenyl and ``C6H6`` benzene;
+  O or S may instead be a terminal atom on it (the O of ``CHO`` and ``COOH``);
+- ``O2``/``S2`` after an atom are terminal atoms on it (``NO2``, ``CO2H``; the
+  last may carry the rest, ``CO2CH3``); ``X2`` otherwise is two bonded atoms
+  sharing the substituents written after them (``C2H5OH``, ``N2H4``);
+  ``C6H5`` is phenyl and ``C6H6`` benzene; longer runs (``C3H7``) are not read;
 - written bonds (``=``, ``≡``, ``#``: ``BondMark`` parts) are kept; every other
   bond order is completed from valence: octets, with expanded valences of
   period-3 and heavier atoms allowed, and formal charges where no neutral
@@ -27,9 +28,10 @@ like with the conventions chemists use:
 
 Every way of reading the text under these conventions is built and judged by
 (unpaired electrons, carbocations, formal charges, departures from the default
-reading, expanded valences), fewest first.  When more than one different molecule is
-best, the reading lists them all and asks for explicit bonds or SMILES; when
-none works, it says why.  Nothing here raises for bad input.
+reading, expanded valences), fewest first; an unpaired electron is allowed only
+when the electron count is odd.  When more than one different molecule is best,
+the reading lists them all and asks for explicit bonds or SMILES; when none
+works, it says why.  Nothing here raises for bad input.
 
 Which formulas are condensed (``is_condensed``): the existing single-centre
 model (``species.py``) keeps AXn species, ions, oxoacids of period-3 and heavier
@@ -315,11 +317,12 @@ def _read_level(items: list[_Item], build: _Build, attach: int | None,
         if symbol == "C" and count == 6:
             yield from ring(i, b, lv)
             return
-        terminal_default = symbol in ("O", "S") and lv.backbone is not None
+        # O2 or S2 after an atom are two terminal atoms on it (NO2, CO2H), never a peroxide
+        terminal_only = symbol in TERMINAL_WITHOUT_PARENTHESES and lv.backbone is not None
         if lv.backbone is not None:
-            yield from terminals(i, item, b, lv, 0 if terminal_default else 1)
-        if count == 2:
-            yield from pair(i, item, b, lv, 1 if terminal_default else 0)
+            yield from terminals(i, item, b, lv, 0 if terminal_only else 1)
+        if count == 2 and not terminal_only:
+            yield from pair(i, item, b, lv, 0)
         elif lv.backbone is None:
             raise _Unreadable(f"{symbol}{count}: how {count} {symbol} atoms are joined is not written "
                               f"(write the chain out, e.g. CH3CH2CH2, or give SMILES)")
@@ -485,6 +488,10 @@ def _solve(build: _Build, charge: int) -> _Solved | None:
     """The best bond orders and atom states for one reading, or None when no assignment closes every valence."""
     symbols = build.symbols
     options = [_states(s) for s in symbols]
+    electrons = sum(elements.element(s).valence_electrons or 0 for s in symbols) - charge
+    if electrons % 2 == 0:
+        # an even count pairs every electron: an unpaired one would only hide a misread formula (C2H6O)
+        options = [tuple(state for state in o if not state.unpaired) for o in options]
     if any(not o for o in options):
         return None
     most = [max(s.valence for s in o) for o in options]
@@ -728,7 +735,8 @@ def read_condensed(formula: Formula) -> CondensedReading:
     if not best:
         charge = f" with charge {formula.charge:+d}" if formula.charge else ""
         return _unreadable(f"{formula.text}{charge}: no reading gives every atom a usual valence "
-                           f"(check the formula and its charge, or give SMILES)")
+                           f"(check the formula and its charge; a molecular formula such as C2H6O names no "
+                           f"structure: write it out, e.g. CH3CH2OH, or give SMILES)")
     distinct: dict[tuple, Molecule] = {}
     for build, solved in best:
         molecule = _molecule(build, solved, formula.text)
