@@ -82,6 +82,22 @@ class Molecule:
             return None
         return valence - atom.charge - self.bond_order_sum(index)
 
+    def ring_size(self, centre: int, first: int, second: int, *, largest: int = 8) -> int | None:
+        """The smallest ring through first-centre-second (atoms counted), or None if there is none up to ``largest``."""
+        frontier, seen, steps = [first], {first, centre}, 0
+        while frontier and steps + 2 < largest:
+            steps += 1
+            following = []
+            for atom in frontier:
+                for other, _ in self._adjacency[atom]:
+                    if other == second:
+                        return steps + 2
+                    if other not in seen:
+                        seen.add(other)
+                        following.append(other)
+            frontier = following
+        return None
+
     def index_of(self, label: str) -> int | None:
         for index, atom in enumerate(self.atoms):
             if atom.label == label:

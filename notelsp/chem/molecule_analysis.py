@@ -22,6 +22,14 @@ from .molecule import Molecule
 from .species import CentreModel
 
 
+# The angle inside a small ring, whatever the centre's domains: (low, high) degrees.  Three-membered rings are
+# near-equilateral triangles, skewed by a long bond or a double bond (ASE G2 set, Curtiss et al. 1997:
+# cyclopropane 60.0°, oxirane C-O-C 61.2°, thiirane C-S-C 48.1°, cyclopropene 51.2° at CH2 and 64.4° at CH);
+# four-membered rings close to about 86-99° (G2: cyclobutane 87.9°, cyclobutene 85.9° and 94.1°, the folded
+# four-ring of bicyclobutane 98.6°).
+RING_ANGLES = {3: (46.0, 68.0), 4: (83.0, 101.0)}
+
+
 @dataclass(frozen=True, slots=True)
 class MoleculeCentre:
     """One atom with two or more neighbours and its analysis (or why there is none)."""
@@ -31,6 +39,7 @@ class MoleculeCentre:
     neighbours: tuple[str, ...]  # atom labels, in the order of the analysis' ligands
     analysis: CentreAnalysis | None  # its ligands are named by element, as a formula's are
     outside_model: str | None = None
+    small_rings: tuple[tuple[str, str, int], ...] = ()  # (neighbour, neighbour, ring size) for 3- and 4-membered rings
 
     def ligand_name(self, name: str) -> str:
         """The analysis' name for a neighbour given by atom label ("H2" -> "H"); other names pass unchanged."""
@@ -42,6 +51,9 @@ class MoleculeCentre:
         """Expected (low, high) degrees for first-centre-second, by atom labels or element symbols."""
         if self.analysis is None:
             return None
+        for a, b, size in self.small_rings:  # the ring, not the domains, sets this angle
+            if {a, b} == {first, second}:
+                return RING_ANGLES[size]
         return self.analysis.angle_range(self.ligand_name(first), self.ligand_name(second))
 
 
@@ -96,10 +108,13 @@ def analyse_molecule(molecule: Molecule) -> MoleculeAnalysis:
         if isinstance(analysed, str):
             centres.append(MoleculeCentre(model.label, model.central, neighbours, None, analysed))
             continue
-        extra = _graph_notes(molecule, index, model)
+        rings = _small_rings(molecule, index)
+        extra = _graph_notes(molecule, index, model) + tuple(
+            f"{a}-{model.label}-{b} lies in a {size}-membered ring: the ring holds this angle near "
+            f"{'60' if size == 3 else '90'}°, far below the VSEPR ideal (ring strain)" for a, b, size in rings)
         if extra:
             analysed = replace(analysed, notes=analysed.notes + extra)
-        centres.append(MoleculeCentre(model.label, model.central, neighbours, analysed))
+        centres.append(MoleculeCentre(model.label, model.central, neighbours, analysed, small_rings=rings))
     terminals = tuple(
         TerminalAtom(molecule.atoms[i].label, molecule.atoms[i].element, molecule.atoms[i].charge,
                      tuple(molecule.atoms[j].label for j in molecule.neighbours(i)))
@@ -111,6 +126,17 @@ def analyse_molecule(molecule: Molecule) -> MoleculeAnalysis:
     elif all(c.analysis is None for c in centres):
         outside = centres[0].outside_model
     return MoleculeAnalysis(molecule, tuple(centres), terminals, outside)
+
+
+def _small_rings(molecule: Molecule, index: int) -> tuple[tuple[str, str, int], ...]:
+    found = []
+    around = molecule.neighbours(index)
+    for position, first in enumerate(around):
+        for second in around[position + 1:]:
+            size = molecule.ring_size(index, first, second, largest=4)
+            if size is not None:
+                found.append((molecule.atoms[first].label, molecule.atoms[second].label, size))
+    return tuple(found)
 
 
 def _graph_notes(molecule: Molecule, index: int, model: CentreModel) -> tuple[str, ...]:

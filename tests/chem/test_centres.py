@@ -194,3 +194,14 @@ def test_a_molecule_without_a_centre_says_there_is_no_angle():
     found = analyse_molecule(read_smiles("N#N"))
     assert found.centres == () and "no bond angle" in found.outside_model
     assert {t.label for t in found.terminals} == {"N1", "N2"}
+
+
+def test_a_small_ring_sets_its_own_angle():
+    # cyclopropane's ring angle is 60° by its triangle, whatever VSEPR says (common practice, no source)
+    carbon = analyse_molecule(read_smiles("C1CC1")).centre("C1")
+    assert carbon.small_rings == (("C2", "C3", 3),)
+    low, high = carbon.angle_range("C2", "C3")
+    assert low <= 60.0 <= high < 100
+    assert carbon.angle_range("H1", "H2") == carbon.analysis.angle_range("H", "H")
+    assert any("3-membered ring" in note for note in carbon.analysis.notes)
+    assert analyse_molecule(read_smiles("C1CCCCC1")).centre("C1").small_rings == ()

@@ -253,3 +253,20 @@ def test_the_perception_step_each_kind_of_molecule_needs(readings, name, how):
 def test_perceived_structures_chemists_recognise(readings, name, smiles):
     # the Lewis structures expected for these G2 molecules (common practice, no source)
     assert readings[name].smiles == smiles
+
+
+def test_small_ring_angles_fall_in_the_ring_range(readings):
+    checked = 0
+    for name, reading in readings.items():
+        positions = g2[name].positions
+        by_label = {label: index for label, index in reading.g2_atoms.items()}
+        for found in reading.analysis.centres:
+            for first, second, size in found.small_rings:
+                centre = by_label[found.label]
+                u = positions[by_label[first]] - positions[centre]
+                v = positions[by_label[second]] - positions[centre]
+                angle = float(np.degrees(np.arccos(np.dot(u, v) / np.linalg.norm(u) / np.linalg.norm(v))))
+                low, high = found.angle_range(first, second)
+                assert low <= angle <= high, (name, found.label, first, second, size, round(angle, 1))
+                checked += 1
+    assert checked >= 30  # cyclopropane, oxirane, aziridine, thiirane, cyclobutane, cyclobutene, bicyclobutane ...
