@@ -239,9 +239,9 @@ def _read_level(items: list[_Item], build: _Build, attach: int | None,
                 raise _Unreadable("a written bond with no atom before it")
             if lv.pending is not None:
                 raise _Unreadable("two written bonds in a row")
-            if lv.anchor_pendant:
-                return  # a written bond continues the backbone from the atom before it
-            yield from step(i + 1, b, _Level(lv.backbone, lv.anchor, False, item.order, lv.held, lv.first))
+            # the next atom bonds to the backbone atom: after a terminal atom that is the atom it sits on
+            # (CH3-CO-CH3 is acetone)
+            yield from step(i + 1, b, _Level(lv.backbone, lv.anchor, lv.anchor_pendant, item.order, lv.held, lv.first))
         elif item.kind == "sub":
             yield from substituent(i, item, b, lv)
         elif item.kind == "group":
@@ -668,8 +668,12 @@ def molecule_smiles(molecule: Molecule) -> str:
             out += piece if index == len(children) - 1 else f"({piece})"
         return out
 
+    def heavy_degree(k: int) -> int:
+        return sum(1 for n in molecule.neighbours(k) if n in heavy_set)
+
     texts = []
-    for start in heavy:
+    # start each piece at an end atom where there is one: ClCCCl reads better than C(CCl)Cl
+    for start in sorted(heavy, key=lambda k: heavy_degree(k) > 1):
         if start not in parent:
             walk(start, None)
             texts.append(write(start))
