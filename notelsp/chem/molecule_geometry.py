@@ -45,7 +45,7 @@ FORCE_FIELD_STEPS = 2000  # enough for a 30-atom molecule to converge from an ET
 NEAR_DEGENERATE_KCAL = 0.3
 TORSION_HOLD = 1.0e4  # kcal/mol/rad^2: holds an end group at its eclipsed or staggered setting while the rest relaxes
 MAX_ROTORS_COMBINED = 3
-MAX_STEREOISOMERS = 16  # stereoisomers modelled when the molecule leaves the choice open  # every eclipsed/staggered combination up to this many end groups; beyond, all one or all the other
+MAX_STEREOISOMERS = 8  # stereoisomers modelled when the molecule leaves the choice open; more is too slow  # every eclipsed/staggered combination up to this many end groups; beyond, all one or all the other
 PLACED_FROM_DOMAINS = 5  # a single centre with this many electron domains or more is placed, not embedded
 _MODEL_CACHE = 512  # models kept (each is a few hundred floats)
 
@@ -75,6 +75,8 @@ def whole_molecule_symmetry(molecule: Molecule) -> tuple[str, bool] | str:
     centre = _single_centre(molecule)
     if centre is None or not _placed_not_embedded(molecule, centre):
         alternatives = _stereoisomer_groups(molecule)
+        if isinstance(alternatives, str):
+            return alternatives
         if alternatives is not None:
             groups = {group for group, _ in alternatives}
             if len(groups) == 1:
@@ -227,6 +229,9 @@ def _embed(mol, symbols: list[str]) -> Coordinates | str:
     candidates = [(field.minimise(mol, cid), cid) for cid in conformers]
     lowest = min(candidates)[1]
     candidates += [(field.minimise(mol, cid, torsions), cid) for cid, torsions in _rotor_settings(mol, lowest, Chem)]
+    extended = _extended(mol, lowest, Chem)
+    if extended is not None:
+        candidates.append((field.minimise(mol, extended), extended))
     floor = min(energy for energy, _ in candidates)
     near = [(energy, cid) for energy, cid in candidates if energy <= floor + NEAR_DEGENERATE_KCAL]
     ranked = [(-_group_order(point_group(symbols, mol.GetConformer(cid).GetPositions())), round(energy, 6), cid)
@@ -308,6 +313,42 @@ def _rotor_settings(mol, start: int, Chem) -> list[tuple[int, tuple[tuple[int, i
     return made
 
 
+def _extended(mol, start: int, Chem) -> int | None:  # noqa: N803 - the RDKit module, passed in
+    """A copy of conformer ``start`` with every open-chain bond between heavy atoms turned anti (180°).
+
+    A dozen random embeddings rarely find the all-anti zigzag of a long chain
+    (hexadecane has 13 such bonds), though it is the lowest conformer and the
+    one chemists draw; this one start gives it its chance.
+    """
+    from rdkit.Chem import rdMolTransforms
+
+    def heaviest_other(atom, besides: int) -> int | None:
+        others = [n for n in atom.GetNeighbors() if n.GetIdx() != besides]
+        if not others:
+            return None
+        return min(others, key=lambda n: (-n.GetAtomicNum(), n.GetIdx())).GetIdx()
+
+    turns = []
+    for bond in mol.GetBonds():
+        first, second = bond.GetBeginAtom(), bond.GetEndAtom()
+        if bond.IsInRing() or bond.GetBondType() != Chem.BondType.SINGLE:
+            continue
+        if first.GetAtomicNum() == 1 or second.GetAtomicNum() == 1:
+            continue
+        before, after = heaviest_other(first, second.GetIdx()), heaviest_other(second, first.GetIdx())
+        if before is None or after is None or mol.GetAtomWithIdx(before).GetAtomicNum() == 1 \
+                or mol.GetAtomWithIdx(after).GetAtomicNum() == 1:
+            continue  # an end group: the rotor settings try it
+        turns.append((before, first.GetIdx(), second.GetIdx(), after))
+    if not turns:
+        return None
+    cid = mol.AddConformer(Chem.Conformer(mol.GetConformer(start)), assignId=True)
+    conformer = mol.GetConformer(cid)
+    for a, b, c, d in turns:
+        rdMolTransforms.SetDihedralDeg(conformer, a, b, c, d, 180.0)
+    return cid
+
+
 def _group_order(symbol: str) -> int:
     """How many operations the point group has (linear groups count as the largest)."""
     fixed = {"C1": 1, "Cs": 2, "Ci": 2, "T": 12, "Td": 24, "Th": 24, "O": 24, "Oh": 48, "I": 60, "Ih": 120, "Kh": 10_000}
@@ -356,8 +397,9 @@ def _rdkit_molecule(molecule: Molecule, Chem):  # noqa: N803 - the RDKit module,
     return mol
 
 
-def _stereoisomer_groups(molecule: Molecule) -> list[tuple[str, str]] | None:
-    """(point group, description) of each stereoisomer that can be built; None when no stereo choice is open."""
+def _stereoisomer_groups(molecule: Molecule) -> list[tuple[str, str]] | str | None:
+    """(point group, description) of each stereoisomer that can be built; None when no stereo choice is
+    open; a sentence when there are too many stereoisomers to model."""
     from rdkit import Chem, rdBase
     from rdkit.Chem.EnumerateStereoisomers import EnumerateStereoisomers, StereoEnumerationOptions
 
@@ -377,6 +419,10 @@ def _stereoisomer_groups(molecule: Molecule) -> list[tuple[str, str]] | None:
                 open_bonds.append(index)
         if not open_bonds and len(open_atoms) < 2:
             return None  # at most one stereocentre: enantiomers share their point group
+        if 2 ** (len(open_bonds) + len(open_atoms)) > MAX_STEREOISOMERS:
+            return (f"the point group depends on the stereoisomer, which the molecule as written does not fix "
+                    f"({len(open_bonds)} double bonds and {len(open_atoms)} stereocentres left open: too many "
+                    "stereoisomers to model each)")
         options = StereoEnumerationOptions(onlyUnassigned=True, unique=True, maxIsomers=MAX_STEREOISOMERS)
         symbols = [atom.element for atom in molecule.atoms]
         found = []
