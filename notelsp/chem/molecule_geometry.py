@@ -3,10 +3,11 @@
 Two ways to a model:
 
 - a molecule with one centre and five or more electron domains on it (SF4,
-  ClF3, XeF4, PF5, SF6, XeF2, I3-) has its ligands placed on the VSEPR
-  polyhedron, in the arrangement the isomer ranking expects, lone-pair sites
-  left empty.  Force fields have few parameters for such centres and distance
-  geometry has no notion of lone pairs, so embedding gives poor shapes there;
+  ClF3, XeF4, PF5, SF6, XeF2, I3-), or a lone pair on it (NH3, H2O, CH2,
+  NH2), has its ligands placed on the VSEPR polyhedron, in the arrangement
+  the isomer ranking expects, lone-pair sites left empty.  Force fields have
+  few parameters for hypervalent centres and distance geometry has no notion
+  of lone pairs, so embedding gives poor shapes there (a linear carbene);
 - every other molecule is embedded by RDKit's distance geometry (ETKDG, fixed
   seed) and cleaned up with a force field (MMFF94 where it has parameters for
   every atom, else UFF).  Molecules with rotating bonds or rings get several
@@ -44,8 +45,8 @@ FORCE_FIELD_STEPS = 2000  # enough for a 30-atom molecule to converge from an ET
 # (from memory), and chemists draw the symmetric conformer when nothing separates them.
 NEAR_DEGENERATE_KCAL = 0.3
 TORSION_HOLD = 1.0e4  # kcal/mol/rad^2: holds an end group at its eclipsed or staggered setting while the rest relaxes
-MAX_ROTORS_COMBINED = 3
-MAX_STEREOISOMERS = 8  # stereoisomers modelled when the molecule leaves the choice open; more is too slow  # every eclipsed/staggered combination up to this many end groups; beyond, all one or all the other
+MAX_ROTORS_COMBINED = 3  # every eclipsed/staggered combination up to this many end groups; beyond, all one or all the other
+MAX_STEREOISOMERS = 8  # stereoisomers modelled when the molecule leaves the choice open; more is too slow
 PLACED_FROM_DOMAINS = 5  # a single centre with this many electron domains or more is placed, not embedded
 _MODEL_CACHE = 512  # models kept (each is a few hundred floats)
 
@@ -109,7 +110,11 @@ def model_3d(molecule: Molecule) -> Coordinates | str:
         return "the molecule falls into separate parts: no single 3D model (write one species at a time)"
     centre = _single_centre(molecule)
     if centre is not None and _placed_not_embedded(molecule, centre):
-        return _placed(molecule, centre)
+        placed = _placed(molecule, centre)
+        if not isinstance(placed, str):
+            return placed
+        embedded = _embedded(molecule)
+        return embedded if not isinstance(embedded, str) else placed
     embedded = _embedded(molecule)
     if isinstance(embedded, str) and centre is not None:
         placed = _placed(molecule, centre)
