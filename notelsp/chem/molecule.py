@@ -55,6 +55,13 @@ class Molecule:
     def bond_between(self, first: int, second: int) -> MoleculeBond | None:
         return self._bond_lookup.get((min(first, second), max(first, second)))
 
+    @cached_property
+    def _delocalised_atoms(self) -> frozenset[int]:
+        return frozenset(i for bond in self.bonds if bond.delocalised for i in (bond.first, bond.second))
+
+    def has_delocalised_bond(self, index: int) -> bool:
+        return index in self._delocalised_atoms
+
     def has_pi_bond(self, index: int, *, besides: int | None = None) -> bool:
         """Whether atom ``index`` takes part in a double, triple or delocalised bond (not counting one to ``besides``)."""
         for other, order in self._adjacency[index]:
@@ -64,8 +71,12 @@ class Molecule:
                 return True
         return False
 
+    @cached_property
+    def _neighbour_lists(self) -> tuple[tuple[int, ...], ...]:
+        return tuple(tuple(other for other, _ in around) for around in self._adjacency)
+
     def neighbours(self, index: int) -> tuple[int, ...]:
-        return tuple(other for other, _ in self._adjacency[index])
+        return self._neighbour_lists[index]
 
     def bonds_of(self, index: int) -> tuple[tuple[int, int], ...]:
         """(neighbour index, bond order) for every bond of atom ``index``."""

@@ -97,7 +97,9 @@ def analyse_molecule(molecule: Molecule) -> MoleculeAnalysis:
         else:
             ordered = sorted(pairs, key=lambda pair: (pair[0].symbol != "H", pair[0].symbol, -pair[0].bond_order, pair[1]))
         neighbours = tuple(ligand.label for ligand, _ in ordered)
-        key = replace(model, label="", ligands=tuple(replace(l, label=l.symbol) for l, _ in ordered))
+        key = CentreModel(model.central, model.charge,
+                          tuple(Ligand(l.symbol, l.symbol, l.bond_order, l.electronegativity) for l, _ in ordered),
+                          bonds_known=True, conjugation=model.conjugation, unpaired=model.unpaired)
         analysed = seen.get(key)
         if analysed is None:
             if single:
@@ -130,7 +132,7 @@ def analyse_molecule(molecule: Molecule) -> MoleculeAnalysis:
 
 def _small_rings(molecule: Molecule, index: int) -> tuple[tuple[str, str, int], ...]:
     found = []
-    around = molecule.neighbours(index)
+    around = [other for other in molecule.neighbours(index) if len(molecule.neighbours(other)) >= 2]  # ring atoms only
     for position, first in enumerate(around):
         for second in around[position + 1:]:
             size = molecule.ring_size(index, first, second, largest=4)
@@ -140,6 +142,8 @@ def _small_rings(molecule: Molecule, index: int) -> tuple[tuple[str, str, int], 
 
 
 def _graph_notes(molecule: Molecule, index: int, model: CentreModel) -> tuple[str, ...]:
+    if not model.unpaired and not molecule.has_delocalised_bond(index):
+        return ()
     notes = []
     label = model.label
     delocalised = [molecule.atoms[other].label for other, _ in molecule.bonds_of(index)

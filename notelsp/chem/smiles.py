@@ -65,15 +65,14 @@ def _first_line(message: object) -> str:
 
 
 def _molecule(mol, smiles: str) -> Molecule | str:
-    symbols = []
-    for atom in mol.GetAtoms():
-        if atom.GetAtomicNum() == 0:
-            return f"the SMILES {smiles!r} has a wildcard or dummy atom: no element to analyse"
-        symbols.append(atom.GetSymbol())
+    read = list(mol.GetAtoms())
+    if any(atom.GetAtomicNum() == 0 for atom in read):
+        return f"the SMILES {smiles!r} has a wildcard or dummy atom: no element to analyse"
+    symbols = [atom.GetSymbol() for atom in read]
     labels = label_atoms(symbols)
     atoms = tuple(
         MoleculeAtom(symbol, label, atom.GetFormalCharge(), atom.GetNumRadicalElectrons())
-        for symbol, label, atom in zip(symbols, labels, mol.GetAtoms(), strict=True)
+        for symbol, label, atom in zip(symbols, labels, read, strict=True)
     )
     bonds = []
     for bond in mol.GetBonds():
