@@ -139,3 +139,34 @@ def test_a_lone_pair_beside_a_possible_pi_system_is_uncertain(formula):
 @pytest.mark.parametrize("formula", ["NH3", "H2O", "PH3", "ClF3", "SF4", "XeF4", "CH4", "IF7"])
 def test_plain_vsepr_species_have_no_exception(formula):
     assert centre_of(formula).exception is None
+
+
+def _ligand(symbol: str, label: str, order: int = 1):
+    from notelsp import elements
+    from notelsp.chem.model import Ligand
+
+    return Ligand(symbol, label, order, elements.element(symbol).electronegativity)
+
+
+def test_a_graph_conjugated_lone_pair_is_planar_and_sp2():
+    # amide N (common practice, no source): the graph says its lone pair is beside C=O
+    from notelsp.chem.exceptions import known_exception
+    from notelsp.chem.model import Conjugation
+
+    amide = Conjugation("amide-type", "a lone pair on N is conjugated with the C2=O π bond, so N is planar and sp2", True)
+    ligands = (_ligand("C", "C2"), _ligand("H", "H1"), _ligand("H", "H2"))
+    found = known_exception("N", ligands, 1, 0, 0, conjugation=amide, bonds_known=True)
+    assert (found.shape, found.electron_geometry, found.hybridization) == ("trigonal-planar", "trigonal-planar", "sp2")
+    assert found.confidence == USUAL and found.also_plausible == () and "C2=O" in found.reason
+    shallow = Conjugation("aniline-type", "a lone pair on N is conjugated with the aromatic ring", False)
+    assert known_exception("N", ligands, 1, 0, 0, conjugation=shallow, bonds_known=True).also_plausible == (
+        "trigonal-pyramidal",)
+
+
+def test_with_a_graph_the_written_group_guess_is_not_made():
+    from notelsp.chem.exceptions import known_exception
+
+    ligands = (_ligand("C", "COCH3"), _ligand("H", "H"), _ligand("H", "H"))
+    guessed = known_exception("N", ligands, 1, 0, 0)
+    assert guessed is not None and guessed.confidence == UNCERTAIN  # formula text: a π system may be there
+    assert known_exception("N", ligands, 1, 0, 0, bonds_known=True) is None  # graph: it is known not to be
