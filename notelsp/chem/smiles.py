@@ -12,6 +12,7 @@ from __future__ import annotations
 from .molecule import Molecule, MoleculeAtom, MoleculeBond, label_atoms, mark_delocalised_groups
 
 _VALENCE_PROBLEMS = frozenset({"AtomValenceException"})
+MAX_ATOMS = 1000  # hydrogens included: far beyond a molecule analysed centre by centre in a note, and still fast
 _ORDERS = {1.0: 1, 2.0: 2, 3.0: 3}
 
 
@@ -37,6 +38,9 @@ def read_smiles(text: str) -> Molecule | str:
         except Exception as error:  # noqa: BLE001 - RDKit raises its own exception types
             return f"no Kekulé structure for the aromatic atoms of {smiles!r} ({_first_line(error)})"
         mol = Chem.AddHs(mol)
+    if mol.GetNumAtoms() > MAX_ATOMS:
+        return (f"the SMILES {smiles[:40]!r}{'...' if len(smiles) > 40 else ''} has {mol.GetNumAtoms()} atoms with "
+                f"its hydrogens; centres are analysed for molecules of up to {MAX_ATOMS} atoms")
     return _molecule(mol, smiles)
 
 

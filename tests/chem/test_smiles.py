@@ -156,3 +156,12 @@ def test_random_text_from_the_smiles_alphabet_never_raises():
         text = "".join(generator.choice(alphabet) for _ in range(generator.randint(1, 14)))
         found = read_smiles(text)
         assert isinstance(found, (str, Molecule))
+
+
+def test_a_molecule_too_large_to_analyse_centre_by_centre_is_refused_with_the_count():
+    from notelsp.chem.smiles import MAX_ATOMS
+
+    chain = "C" * (MAX_ATOMS // 3 + 1)  # CnH2n+2: more than MAX_ATOMS atoms with hydrogens
+    found = read_smiles(chain)
+    assert isinstance(found, str) and f"up to {MAX_ATOMS} atoms" in found and "..." in found
+    assert isinstance(read_smiles("C" * 100), Molecule)
