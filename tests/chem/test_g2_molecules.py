@@ -1,8 +1,8 @@
 """Every centre of every molecule of ASE's G2 set, read as SMILES, against its geometry.
 
-Source of every geometry: ASE G2 set (Curtiss et al., J. Chem. Phys. 106,
-1063 (1997)), ``ase.collections.g2``: 162 entries, 148 of them molecules
-(the others are single atoms).
+Source of every geometry: ASE G2 set (Curtiss et al., J. Chem. Phys. 106, 1063 (1997)),
+``ase.collections.g2``: 162 entries, 148 of them molecules (the others are
+single atoms).
 
 How each molecule becomes SMILES (RDKit's bond perception, ``rdDetermineBonds``):
 
