@@ -45,21 +45,21 @@ def conjugation(molecule: Molecule, index: int) -> Conjugation | None:
             or len(bonds) + nonbonding // 2 != 4 or any(order != 1 for _, order in bonds)):
         return None
     name = atom.label
+    outcome = (f"so {name} is planar and sp2" if len(bonds) == 3
+               else f"so {name} is sp2, its bonds in the plane of the π system")
     if any(molecule.bond_between(index, other).delocalised for other, _ in bonds):
         return Conjugation(
             "aromatic ring",
             f"a lone pair on {name} is part of the aromatic ring's π system (pyrrole-, furan- or thiophene-type), "
-            f"so {name} is planar and sp2", True)
+            + outcome, True)
     found = [_pi_partner(molecule, index, other) for other, _ in bonds]
     found = [f for f in found if f is not None]
     if not found:
         return None
-    rank, kind, neighbour, partner, firmly = min(found)
-    del rank
-    return Conjugation(
-        _kind_name(kind, atom.element),
-        f"a lone pair on {name} is conjugated with the {neighbour}{'=' if kind != 'aryl' else '–'}{partner} "
-        f"{'π bond' if kind != 'aryl' else 'aromatic ring'}, so {name} is planar and sp2", firmly)
+    _, kind, neighbour, partner, firmly = min(found)
+    system = f"the aromatic ring at {neighbour}" if kind == "aryl" else f"the {neighbour}={partner} π bond"
+    return Conjugation(_kind_name(kind, atom.element),
+                       f"a lone pair on {name} is conjugated with {system}, {outcome}", firmly)
 
 
 def _pi_partner(molecule: Molecule, centre: int, neighbour: int):
