@@ -77,7 +77,12 @@ def _parser() -> argparse.ArgumentParser:
         action="store_true",
         help="also optimise each annotated species with a small quantum-chemistry calculation (needs notelsp[qc])",
     )
-    check.add_argument("--level", metavar="METHOD/BASIS", help="level of theory for --cross-check (default HF/3-21G)")
+    check.add_argument("--level", metavar="METHOD/BASIS", help="level of theory for --cross-check (default: see README)")
+    check.add_argument(
+        "--rules-only",
+        action="store_true",
+        help="judge by the rules alone, at once: compute no geometries (also NOTELSP_COMPUTE=off)",
+    )
 
     explain = commands.add_parser("explain", help="show the full analysis of one species")
     explain.add_argument("formula", metavar="FORMULA", help="e.g. ClF3, 'SO4^2-', 'HOCl @O'")
@@ -150,6 +155,7 @@ class CheckOptions:
     indent: int | None = None
     source_root: str = "."
     stdin_name: str | None = None
+    compute: bool = True  # compute each species' geometry (GFN2-xTB) and judge claims against it too
 
 
 def _check_command(args: argparse.Namespace, out: TextIO) -> int:
@@ -176,6 +182,7 @@ def _check_command(args: argparse.Namespace, out: TextIO) -> int:
         indent=args.indent,
         source_root=args.source_root,
         stdin_name=args.stdin_name,
+        compute=not args.rules_only,
     )
     return _check(paths, options, out)
 
@@ -193,7 +200,24 @@ def _paths_from(source: str) -> list[str]:
     return [os.fsdecode(name) for name in data.split(b"\0") if name]
 
 
+_stdin_read: list = []  # standard input as first read (or why it could not be): read once, used twice
+
+
 def _read_stdin() -> str:
+    if _stdin_read:
+        found = _stdin_read[0]
+        if isinstance(found, UsageError):
+            raise found
+        return found
+    try:
+        _stdin_read.append(_read_stdin_once())
+    except UsageError as problem:
+        _stdin_read.append(problem)
+        raise
+    return _stdin_read[0]
+
+
+def _read_stdin_once() -> str:
     try:
         data = sys.stdin.buffer.read()
     except (AttributeError, OSError) as error:  # no standard input at all, or a closed one
@@ -236,6 +260,9 @@ def _check(paths: Sequence[str], options: CheckOptions, out: TextIO) -> int:
         items.extend([None] if name == STDIN else found.named[name])
     notes = sum(item is not None for item in items)
     workers = 1 if options.output == "html" else _workers_for(notes)  # the page needs whole reviews
+    computed = _computed_for(items, options) if options.compute and not computing_switched_off() else {}
+    _computed.clear()
+    _computed.update(computed)
     thresholds = gc.get_threshold()
     gc.freeze()  # what the imports made is kept to the end: no collection need walk it
     gc.set_threshold(*BATCH_GC_THRESHOLD)
@@ -358,7 +385,8 @@ def _review_note(note: Any, reported: Any) -> _Outcome:
             return [reported(cell) for cell in _notebook_reviews(str(note.path), text, note.settings)], None, True, ""
         except UsageError as problem:
             return [], str(problem), True, ""
-    return [reported(ReviewedFile(str(note.path), review_text(text, note.kind, note.settings)))], None, False, ""
+    return [reported(ReviewedFile(str(note.path), review_text(text, note.kind, note.settings, computed=_computed)))], \
+        None, False, ""
 
 
 def _review_stdin(options: CheckOptions, settings: Any, reported: Any) -> _Outcome:
@@ -375,7 +403,8 @@ def _review_stdin(options: CheckOptions, settings: Any, reported: Any) -> _Outco
             return [reported(cell) for cell in _notebook_reviews(stdin_name, text, settings)], None, True, ""
         except UsageError as problem:
             return [], str(problem), True, ""
-    return [reported(ReviewedFile(stdin_name, review_text(text, kind_of_path(stdin_name), settings)))], None, False, ""
+    return [reported(ReviewedFile(stdin_name, review_text(text, kind_of_path(stdin_name), settings,
+                                                          computed=_computed)))], None, False, ""
 
 
 def _review_notes_in_worker(notes: list, wants_cautions: bool, wants_annotation_texts: bool) -> list[_Outcome]:
@@ -395,10 +424,11 @@ def _review_notes_in_worker(notes: list, wants_cautions: bool, wants_annotation_
     return outcomes
 
 
-def _worker_started() -> None:
+def _worker_started(computed: dict | None = None) -> None:
     import gc
     import signal
 
+    _computed.update(computed or {})
     signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl-C is the parent's to handle: it ends the workers
     gc.freeze()
     gc.set_threshold(*BATCH_GC_THRESHOLD)
@@ -431,7 +461,7 @@ def _pooled(items: list, workers: int, writer: Any, options: CheckOptions, setti
     context = multiprocessing.get_context("forkserver" if "forkserver" in methods else "spawn")
     if context.get_start_method() == "forkserver":
         context.set_forkserver_preload(["notelsp.cli", "notelsp.formats", "notelsp.review.document"])
-    pool = ProcessPoolExecutor(workers, mp_context=context, initializer=_worker_started)
+    pool = ProcessPoolExecutor(workers, mp_context=context, initializer=_worker_started, initargs=(dict(_computed),))
     tasks: list[tuple[Any, list]] = []  # (None, []) for standard input, (None, notes) for a task of notes
     for item in items:
         if item is None:
@@ -550,7 +580,106 @@ def _notebook_reviews(path: str, text: str, settings: Any) -> list:
         raise UsageError(f"cannot read {path}: {problem}") from None
     if not cells:  # still listed in the report, with nothing found
         return [ReviewedFile(path, review_text("", "markdown", settings))]
-    return [ReviewedFile(path, review_text(cell.source, "markdown", settings), cell.number) for cell in cells]
+    return [ReviewedFile(path, review_text(cell.source, "markdown", settings, computed=_computed), cell.number)
+            for cell in cells]
+
+
+# --- computed geometries ----------------------------------------------------
+
+
+COMPUTE_VARIABLE = "NOTELSP_COMPUTE"  # "off" (or 0, false, no): every check is rules-only (the server reads it too)
+
+# The computed species of this run, keyed by the species as written (what review_text's ``computed``
+# takes); set by _check before reviewing, and handed to review workers when they start.
+_computed: dict[str, Any] = {}
+
+
+def computing_switched_off() -> bool:
+    return os.environ.get(COMPUTE_VARIABLE, "").strip().lower() in ("off", "0", "false", "no")
+
+
+def _computed_for(items: list, options: CheckOptions) -> dict[str, Any]:
+    """Every species the notes name, computed (from the disk cache where it can) over every core.
+
+    Reading the notes twice (once here for their species, once to review them) keeps the review
+    streaming; what cannot be read here is reported when it is reviewed.
+    """
+    import contextlib
+    import io
+
+    from .notation import scan
+    from .review.document import species_to_compute
+
+    wanted: dict[str, None] = {}
+    with contextlib.redirect_stderr(io.StringIO()):  # what reading a note says is printed when it is reviewed
+        for item in items:
+            for text, kind in _texts_of(item, options):
+                wanted.update(dict.fromkeys(species_to_compute(scan(text, kind))))
+    if not wanted:
+        return {}
+    from .compute import GeometryPool
+    from .compute.method import missing_packages
+
+    missing = missing_packages()
+    if missing:
+        print(f"notelsp: computing no geometries ({' and '.join(missing)} not installed); the rules judge alone",
+              file=sys.stderr)
+        return {}
+    progress = _Progress(len(wanted), sys.stderr)
+    with GeometryPool() as pool:
+        try:
+            results = pool.compute(list(wanted), on_species=lambda _: progress.step())
+        finally:
+            progress.done()
+    return dict(zip(wanted, results))
+
+
+def _texts_of(item: Any, options: CheckOptions) -> list[tuple[str, str]]:
+    """(text, kind) of each part of a note that is reviewed on its own (a notebook's cells); [] if unreadable."""
+    from .review.document import kind_of_path
+
+    try:
+        if item is None:
+            name = options.stdin_name or STDIN_NAME
+            text, kind = _read_stdin(), ("notebook" if name.lower().endswith(".ipynb") else kind_of_path(name))
+        else:
+            text, kind = _read_note(item), item.kind
+        if kind == "notebook":
+            from .notation.notebook import NotebookError, markdown_cells
+
+            try:
+                return [(cell.source, "markdown") for cell in markdown_cells(text)]
+            except NotebookError:
+                return []
+        return [(text, kind)]
+    except UsageError:
+        return []
+
+
+class _Progress:
+    """"computing geometries 12/40" on a terminal's standard error, rewritten in place; nothing elsewhere."""
+
+    def __init__(self, total: int, stream: TextIO) -> None:
+        self.total, self.stream, self.count = total, stream, 0
+        self.shown = bool(getattr(stream, "isatty", lambda: False)())
+        self._draw()
+
+    def step(self) -> None:
+        self.count += 1
+        self._draw()
+
+    def _draw(self) -> None:
+        if self.shown:
+            width = 24
+            filled = width * self.count // max(self.total, 1)
+            self.stream.write(f"\rcomputing geometries [{'#' * filled}{'.' * (width - filled)}] "
+                              f"{self.count}/{self.total} species")
+            self.stream.flush()
+
+    def done(self) -> None:
+        if self.shown:
+            self.stream.write("\r\x1b[K")  # the line cleared: the report follows as if nothing was drawn
+            self.stream.flush()
 
 
 # --- explain, rules, demo -----------------------------------------------------

@@ -1,8 +1,15 @@
+import os
 import subprocess
 import sys
 from pathlib import Path
 
 import pytest
+
+from notelsp.cli import COMPUTE_VARIABLE
+
+# The command line's tests are rules-only unless a test asks (tests/cli/test_computed.py): computing starts
+# worker processes and changes findings. tests/conftest.py sets the same switch for the whole suite.
+os.environ[COMPUTE_VARIABLE] = "off"
 
 
 def run_notelsp(*args: str, cwd: Path | None = None) -> subprocess.CompletedProcess:

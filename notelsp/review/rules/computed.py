@@ -84,7 +84,7 @@ def _computed_pair(context: RuleContext, claim: AngleOrderClaim):
 
 @rule("angle-order-against-calculation", severity=Severity.WARNING, claims=(AngleOrderClaim,))
 def angle_order_against_calculation(context: RuleContext) -> Iterator[Finding]:
-    """A claimed order of two bond angles, in one species or across two (``NF3 vs NH3``), contradicts the computed angles.
+    """A claimed order of two bond angles, in one species or across two (NF3 vs NH3), contradicts the computed angles.
 
     Trends between molecules (F-N-F in NF3 below H-N-H in NH3) lie beyond the
     rules; the computed geometries decide them.  A computed difference larger
