@@ -42,7 +42,10 @@ _SAME_DIRECTION = math.cos(math.radians(6.0))  # axes closer than this are one a
 _PERPENDICULAR = math.sin(math.radians(6.0))
 _BATCH_ENTRIES = 200_000  # atom pairs compared per numpy step when many operations are tested at once
 _PROFILE_STRIDE = 1e4  # Å; sets the distances to each element apart when they are sorted together
-SPHERICAL_SPREAD = 0.1  # relative spread of the moments of inertia below which a cubic group is looked for
+# Moments of inertia within this relative spread count as equal.  An axis of order three or more makes the
+# two moments about perpendicular axes equal, and a cubic group all three; the test is loose because the
+# distance test decides, and it only keeps a C4 out of a rectangle whose sides differ by less than the tolerance.
+DEGENERATE_MOMENTS = 0.15
 
 Points = Sequence[Sequence[float]]
 
@@ -75,7 +78,8 @@ class _Finder:
         moments, axes = np.linalg.eigh(inertia)
         self.principal = axes.T  # rows are unit axes
         # every cubic group makes the inertia isotropic; a loose test, the operations decide
-        self.spherical = bool(moments[2] - moments[0] <= SPHERICAL_SPREAD * max(moments[2], 1e-9))
+        self.moments = moments
+        self.spherical = _equal_moments(moments[0], moments[2])
 
     # --- testing one operation -------------------------------------------------
 
@@ -108,7 +112,7 @@ class _Finder:
             found.append(close & distinct)
         return np.concatenate(found) if found else np.zeros(0, dtype=bool)
 
-    def rotation_order(self, axis: np.ndarray) -> int:
+    def rotation_order(self, axis: np.ndarray, highest: int = HIGHEST_AXIS_ORDER) -> int:
         """The highest n with a proper Cn about ``axis`` (1 when there is none).
 
         A rotation by a small angle moves an atom near the axis by less than
@@ -121,7 +125,7 @@ class _Finder:
         common = math.gcd(*(int(n) for n in np.bincount(self.kinds[off_axis]))) if off_axis.any() else 0
         if np.any(off_axis & self.lonely):
             return 1
-        for order in range(HIGHEST_AXIS_ORDER, 1, -1):
+        for order in range(highest, 1, -1):
             if common % order:
                 continue
             permutation = self.permutation(rotation(axis, 2 * math.pi / order))
@@ -186,8 +190,9 @@ class _Finder:
             return cubic
 
         principal, order = None, 1
-        for axis in self.principal:
-            found = self.rotation_order(axis)
+        for index, axis in enumerate(self.principal):
+            others = [self.moments[k] for k in range(3) if k != index]
+            found = self.rotation_order(axis, HIGHEST_AXIS_ORDER if _equal_moments(*others) else 2)
             if found > order:
                 principal, order = axis, found
         if principal is None and twofold:
@@ -266,6 +271,10 @@ class _Finder:
         return "Td" if mirrors else "T"
 
 
+def _equal_moments(first: float, second: float) -> bool:
+    return abs(first - second) <= DEGENERATE_MOMENTS * max(abs(first), abs(second), 1e-9)
+
+
 def _weight(symbol: str) -> float:
     # Any weight that depends on the element alone puts the centre on every symmetry element.
     try:
@@ -286,21 +295,26 @@ def _cycles_of_length(permutation: np.ndarray, length: int, which: np.ndarray) -
 
 
 def _distinct(directions: list[np.ndarray]) -> list[np.ndarray]:
-    """The directions in order, leaving out any within a few degrees of (or opposite to) an earlier one."""
+    """One direction per group of directions within a few degrees of each other (or opposite).
+
+    Each group is led by its first member and reported as the sign-aligned
+    mean of its members, which carries less noise than any one of them.  The
+    groups are found at once rather than one by one: axes of a point group
+    are at least 15° apart, so the few-degree groups never chain.
+    """
     if not directions:
         return []
     stacked = np.array(directions)
-    close = np.abs(stacked @ stacked.T) >= _SAME_DIRECTION
-    covered = np.zeros(len(directions), dtype=bool)
-    kept: list[np.ndarray] = []
-    while not covered.all():
-        index = int(np.argmin(covered))  # the first direction not yet covered
-        # the mean of the directions that agree with it (signs aligned): less noise than any one of them
-        members = stacked[close[index] & ~covered]
-        mean = np.sum(members * np.sign(members @ stacked[index])[:, None], axis=0)
-        kept.append(mean / np.linalg.norm(mean))
-        covered |= close[index]
-    return kept
+    dots = stacked @ stacked.T
+    leader = np.argmax(np.abs(dots) >= _SAME_DIRECTION, axis=1)  # the first direction close to each
+    leader = leader[leader]  # a member whose first neighbour is itself led elsewhere joins that leader
+    signs = np.sign(dots[np.arange(len(stacked)), leader])
+    signs[signs == 0] = 1.0
+    sums = np.zeros_like(stacked)
+    np.add.at(sums, leader, stacked * signs[:, None])
+    kept = np.unique(leader)
+    means = sums[kept]
+    return list(means / np.linalg.norm(means, axis=1)[:, None])
 
 
 def _perpendicular_triple(axes: list[np.ndarray]) -> tuple[np.ndarray, np.ndarray, np.ndarray] | None:
