@@ -46,6 +46,7 @@ FORCE_FIELD_STEPS = 2000  # enough for a 30-atom molecule to converge from an ET
 NEAR_DEGENERATE_KCAL = 0.3
 TORSION_HOLD = 1.0e4  # kcal/mol/rad^2: holds an end group at its eclipsed or staggered setting while the rest relaxes
 MAX_ROTORS_COMBINED = 3  # every eclipsed/staggered combination up to this many end groups; beyond, all one or all the other
+CAGE_RING_SIZE = 8  # rings up to this size hold a cage corner's configuration (in/out isomers need larger ones)
 MAX_STEREOISOMERS = 8  # stereoisomers modelled when the molecule leaves the choice open; more is too slow
 PLACED_FROM_DOMAINS = 5  # a single centre with this many electron domains or more is placed, not embedded
 _MODEL_CACHE = 512  # models kept (each is a few hundred floats)
@@ -416,7 +417,8 @@ def _stereoisomer_groups(molecule: Molecule) -> list[tuple[str, str]] | str | No
         open_bonds, open_atoms = [], []
         for item in Chem.FindPotentialStereo(mol):
             if item.type == Chem.StereoType.Atom_Tetrahedral:
-                open_atoms.append(item.centeredOn)
+                if not _cage_vertex(molecule, item.centeredOn):
+                    open_atoms.append(item.centeredOn)
             elif item.type == Chem.StereoType.Bond_Double:
                 index = item.centeredOn
                 if ring_info.NumBondRings(index) and ring_info.MinBondRingSize(index) <= 8:
@@ -437,6 +439,41 @@ def _stereoisomer_groups(molecule: Molecule) -> list[tuple[str, str]] | str | No
                 continue  # a form that cannot be built (a trans-fused small bicycle)
             found.append((point_group(symbols, coordinates), _describe_stereo(isomer, molecule, open_bonds, open_atoms)))
     return found or None
+
+
+def _cage_vertex(molecule: Molecule, index: int) -> bool:
+    """True when every two of the atom's ring neighbours close a ring of at most CAGE_RING_SIZE through it.
+
+    Such an atom (a corner of cubane, a bridgehead of adamantane or of
+    bicyclo[1.1.0]butane) cannot be inverted without its substituent pointing
+    into the cage, so its configuration is fixed by the rest of the cage.  A
+    ring-fusion atom of decalin is not one: two of its neighbours are joined
+    only round the ten-membered rim, and cis- and trans-decalin both exist.
+    """
+    neighbours = molecule.neighbours(index)
+    reach = {n: _distances_avoiding(molecule, n, index) for n in neighbours}
+    in_rings = [n for n in neighbours if any(m != n and m in reach[n] for m in neighbours)]
+    if len(in_rings) < 3:
+        return False
+    return all(
+        reach[a].get(b, CAGE_RING_SIZE) + 2 <= CAGE_RING_SIZE
+        for position, a in enumerate(in_rings) for b in in_rings[position + 1:]
+    )
+
+
+def _distances_avoiding(molecule: Molecule, start: int, avoided: int) -> dict[int, int]:
+    """Bonds from ``start`` to every atom it reaches without passing through ``avoided``."""
+    distances = {start: 0}
+    frontier = [start]
+    while frontier:
+        grown = []
+        for atom in frontier:
+            for neighbour in molecule.neighbours(atom):
+                if neighbour != avoided and neighbour not in distances:
+                    distances[neighbour] = distances[atom] + 1
+                    grown.append(neighbour)
+        frontier = grown
+    return distances
 
 
 def _describe_stereo(isomer, molecule: Molecule, bonds: list[int], atoms: list[int]) -> str:

@@ -51,6 +51,14 @@ EXPECTED = {
     "[NH2]": ("C2v", True),  # amidogen radical
     "OO": ("C2", True),  # hydrogen peroxide, skew
     "CC(C)=O": ("C2v", True),  # acetone
+    "C12C3C4C1C5C2C3C45": ("Oh", False),  # cubane (its corners look like stereocentres but are fixed by the cage)
+    "C1C2CC3CC1CC(C2)C3": ("Td", False),  # adamantane
+    "C1CC2CCC1CC2": ("D3h", False),  # bicyclo[2.2.2]octane
+    "c1ccc2ccccc2c1": ("D2h", False),  # naphthalene
+    "S1SSSSSSS1": ("D4d", False),  # cyclooctasulfur, crown
+    "C12(CC1)CC2": ("D2d", False),  # spiropentane
+    "Oc1cc(O)cc(O)c1": ("C3h", False),  # phloroglucinol, hydroxyls all one way round
+    "FS(F)(F)(F)(F)Cl": ("C4v", True),  # sulfur chloride pentafluoride
 }
 
 
@@ -144,6 +152,8 @@ def test_reasons_instead_of_models():
         ("CC(Br)C(Br)C", {"Ci (nonpolar) as C2 S, C3 R", "C2 (polar) as C2 R, C3 R or C2 S, C3 S"}),
         # 1,4-dimethylcyclohexane: cis (one methyl axial) Cs, trans (both equatorial) C2h
         ("CC1CCC(C)CC1", {"Cs (polar) as C2 s, C5 s", "C2h (nonpolar) as C2 r, C5 r"}),
+        # decalin: cis C2, trans C2h
+        ("C1CCC2CCCCC2C1", {"C2 (polar) as C4 s, C9 s", "C2h (nonpolar) as C4 r, C9 r"}),
     ],
 )
 def test_stereo_the_molecule_does_not_fix_is_said_not_guessed(smiles, alternatives):
