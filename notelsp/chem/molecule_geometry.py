@@ -3,8 +3,8 @@
 Two ways to a model:
 
 - a molecule with one centre and five or more electron domains on it (SF4,
-  ClF3, XeF4, PF5, SF6, XeF2, I3-), or a lone pair on it (NH3, H2O, CH2,
-  NH2), has its ligands placed on the VSEPR polyhedron, in the arrangement
+  ClF3, XeF4, PF5, SF6, XeF2, I3-), a lone pair on it (NH3, H2O, CH2, NH2)
+  or delocalised bonds round it (CO3 2-, NO3-, SO4 2-) has its ligands placed on the VSEPR polyhedron, in the arrangement
   the isomer ranking expects, lone-pair sites left empty.  Force fields have
   few parameters for hypervalent centres and distance geometry has no notion
   of lone pairs, so embedding gives poor shapes there (a linear carbene);
@@ -136,7 +136,7 @@ def _single_centre(molecule: Molecule) -> int | None:
 
 
 def _placed_not_embedded(molecule: Molecule, centre: int) -> bool:
-    """Five or more domains, or a lone pair (or two unpaired electrons) on the centre.
+    """Five or more domains, a lone pair (or two unpaired electrons) on the centre, or delocalised bonds.
 
     Force fields know lone pairs only through atom types, and a carbene or a
     radical such as NH2 comes out linear from them; VSEPR places it bent.  A
@@ -144,7 +144,15 @@ def _placed_not_embedded(molecule: Molecule, centre: int) -> bool:
     electron matters less than the force field's planar or bent atom type.
     """
     nonbonding = molecule.nonbonding_electrons(centre)
-    return _domains(molecule, centre) >= PLACED_FROM_DOMAINS or (nonbonding is not None and nonbonding >= 2)
+    if _domains(molecule, centre) >= PLACED_FROM_DOMAINS or (nonbonding is not None and nonbonding >= 2):
+        return True
+    # a delocalised set (carbonate, nitrate, sulfate): the force field sees one Kekulé structure
+    return any(_delocalised(molecule, centre, neighbour) for neighbour in molecule.neighbours(centre))
+
+
+def _delocalised(molecule: Molecule, first: int, second: int) -> bool:
+    bond = molecule.bond_between(first, second)
+    return bond is not None and bond.delocalised
 
 
 def _domains(molecule: Molecule, centre: int) -> int:
@@ -171,10 +179,19 @@ def _placed(molecule: Molecule, centre: int) -> Coordinates | str:
     geometry = ELECTRON_GEOMETRY.get(len(bonds) + lone_pairs + odd)
     if geometry is None:
         return f"{centre_atom.label} has {len(bonds) + lone_pairs + odd} electron domains: no VSEPR polyhedron for that"
+    # delocalised bonds to one element are one kind of ligand, with the mean length of their Kekulé orders
+    shared: dict[str, list[int]] = {}
+    for neighbour, order in bonds:
+        if _delocalised(molecule, centre, neighbour):
+            shared.setdefault(molecule.atoms[neighbour].element, []).append(order)
     ligands = []
     for neighbour, order in bonds:
         symbol = molecule.atoms[neighbour].element
-        ligands.append(Ligand(symbol, _site_label(symbol, order), order, elements.element(symbol).electronegativity))
+        if _delocalised(molecule, centre, neighbour):
+            orders = shared[symbol]
+            ligands.append(Ligand(symbol, symbol + "~", max(orders), elements.element(symbol).electronegativity))
+        else:
+            ligands.append(Ligand(symbol, _site_label(symbol, order), order, elements.element(symbol).electronegativity))
     try:
         isomers = isomers_for(geometry, ligands, lone_pairs + odd,
                               centre_electronegativity=elements.element(centre_atom.element).electronegativity)
@@ -186,10 +203,12 @@ def _placed(molecule: Molecule, centre: int) -> Coordinates | str:
     for (neighbour, order), ligand in zip(bonds, ligands, strict=True):
         site = next(s for s in free if s.label == ligand.label)
         free.remove(site)
-        length = predict_bond_length(centre_atom.element, ligand.symbol, order)
-        if length is None:
+        orders = shared[ligand.symbol] if _delocalised(molecule, centre, neighbour) else [order]
+        lengths = [predict_bond_length(centre_atom.element, ligand.symbol, each) for each in orders]
+        if any(length is None for length in lengths):
             return f"no covalent radii for a {centre_atom.element}-{ligand.symbol} bond of order {order}"
-        coordinates[neighbour] = tuple(length.angstrom * v for v in site.vector)  # type: ignore[assignment]
+        distance = sum(length.angstrom for length in lengths if length is not None) / len(lengths)
+        coordinates[neighbour] = tuple(distance * v for v in site.vector)  # type: ignore[assignment]
     return tuple(coordinates)
 
 

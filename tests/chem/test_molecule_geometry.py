@@ -59,6 +59,10 @@ EXPECTED = {
     "C12(CC1)CC2": ("D2d", False),  # spiropentane
     "Oc1cc(O)cc(O)c1": ("C3h", False),  # phloroglucinol, hydroxyls all one way round
     "FS(F)(F)(F)(F)Cl": ("C4v", True),  # sulfur chloride pentafluoride
+    "[O-]C(=O)[O-]": ("D3h", False),  # carbonate (delocalised: three equal C-O bonds)
+    "[O-][N+](=O)[O-]": ("D3h", False),  # nitrate
+    "[O-]S(=O)(=O)[O-]": ("Td", False),  # sulfate
+    "O=[N+]([O-])F": ("C2v", True),  # nitryl fluoride
 }
 
 
