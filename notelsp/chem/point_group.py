@@ -53,12 +53,18 @@ Points = Sequence[Sequence[float]]
 def point_group(symbols: Sequence[str], coordinates: Points, tolerance: float = TOLERANCE) -> str:
     """The Schoenflies symbol ("C2v", "D3d", "C∞v", "Kh" for one atom) of atoms at these coordinates (Å).
 
-    Raises ValueError when the symbols and coordinates differ in number or
-    there are none.
+    Raises ValueError when the symbols and coordinates differ in number,
+    there are none, a coordinate is not a finite number or the tolerance is
+    not positive.
     """
     if len(symbols) != len(coordinates) or not symbols:
         raise ValueError("one coordinate triple per atom, and at least one atom")
-    return _Finder(symbols, np.asarray(coordinates, dtype=float).reshape(len(symbols), 3), tolerance).name()
+    points = np.asarray(coordinates, dtype=float)
+    if points.shape != (len(symbols), 3) or not np.all(np.isfinite(points)):
+        raise ValueError("coordinates must be finite (x, y, z) triples")
+    if not tolerance > 0:
+        raise ValueError("the tolerance must be a positive distance")
+    return _Finder(symbols, points, tolerance).name()
 
 
 class _Finder:

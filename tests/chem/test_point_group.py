@@ -128,6 +128,12 @@ def test_single_atom_and_bad_input():
         point_group(["H", "H"], [(0.0, 0.0, 0.0)])
     with pytest.raises(ValueError):
         point_group([], [])
+    with pytest.raises(ValueError):
+        point_group(["H", "H"], [(0.0, 0.0, 0.0), (0.0, 0.0, float("nan"))])
+    with pytest.raises(ValueError):
+        point_group(["H", "H"], [(0.0, 0.0), (0.0, 0.7)])
+    with pytest.raises(ValueError):
+        point_group(["H", "H"], [(0.0, 0.0, 0.0), (0.0, 0.0, 0.74)], tolerance=0.0)
 
 
 def test_linear_molecules():
