@@ -14,6 +14,12 @@ found:
   by their count of twofold axes (T 3, O 9, I 15), a C3 along a diagonal of
   three perpendicular twofold axes and their mirrors and inversion.
 
+Two further checks keep a loose tolerance from granting too much: a
+rotation by a small angle moves atoms near the axis by less than the
+tolerance, so a Cn also needs every atom off the axis to go round a cycle of
+n like atoms; and an axis of order three or more needs the two moments of
+inertia about axes perpendicular to it to agree.
+
 Coordinates from a force field or from experiment are never exactly
 symmetric, so an operation counts when it moves every atom to within
 ``tolerance`` of a like atom.  The same distance test decides every element,
