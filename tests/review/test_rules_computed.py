@@ -159,3 +159,14 @@ def test_species_to_compute_lists_each_species_as_written_once_in_order():
     scanned = scan("{NF3 vs NH3: F-N-F < H-N-H} and {H2O: bent} then {NH3: pyramidal}", "markdown")
     assert species_to_compute(scanned) == ("NF3", "NH3", "H2O")
     assert species_to_compute(review_text("{SF4: seesaw}")) == ("SF4",)
+
+
+def test_a_computed_order_within_the_uncertainty_softens_the_rules_finding_without_deciding():
+    # CH2Cl2: Cl-C-Cl 112.0° and H-C-H 111.8° measured (from memory): all but equal
+    text = "{CH2Cl2: Cl-C-Cl < H-C-H}"
+    (rules_only,) = review_text(text).findings
+    assert rules_only.code == "angle-order-against-bent" and rules_only.fixes
+    (finding,) = _review(text)
+    assert finding.code == "angle-order-against-bent"
+    assert finding.severity == Severity.INFORMATION and finding.fixes == ()
+    assert "predicted Cl-C-Cl > H-C-H" in finding.message and "by less than the method's uncertainty" in finding.message

@@ -177,7 +177,9 @@ def angle_order_against_bent(context: RuleContext) -> Iterator[Finding]:
             f"± {_degrees(found.uncertainty)}°")
     against, _ = order_contradicts(claim.relation, pair[0] - pair[1], found.uncertainty)
     if not against:  # the calculation sides with the claim: both said, nothing rewritten
-        yield context.finding(f"{head}; but {said} agrees with the claim", at_most=Severity.INFORMATION)
+        firmly = abs(pair[0] - pair[1]) > found.uncertainty
+        sides = "agrees with the claim" if firmly else "leans toward the claim, by less than the method's uncertainty"
+        yield context.finding(f"{head}; but {said} {sides}", at_most=Severity.INFORMATION)
         return
     yield context.finding(f"{head}; {said}", fixes=[context.replace_claim(f"{left} {predicted} {right}")])
 
