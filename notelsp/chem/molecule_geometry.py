@@ -28,6 +28,7 @@ from functools import lru_cache
 
 from .. import elements
 from .bondlength import predict_bond_length
+from .exceptions import KnownException, known_exception
 from .isomers import expected, isomers_for
 from .model import LONE_PAIR, Ligand
 from .molecule import Molecule
@@ -109,16 +110,30 @@ def model_3d(molecule: Molecule) -> Coordinates | str:
         return ((0.0, 0.0, 0.0),)
     if not _connected(molecule):
         return "the molecule falls into separate parts: no single 3D model (write one species at a time)"
+    for index in molecule.centres:
+        atom = molecule.atoms[index]
+        nonbonding = molecule.nonbonding_electrons(index)
+        if nonbonding is None:
+            return (f"{atom.label} is a centre outside the main group: force fields and VSEPR give no "
+                    "trustworthy 3D shape for it, so no model is made")
+        if nonbonding < 0:
+            return (f"{atom.label} has more bonds than valence electrons (multicentre bonding?): "
+                    "no electron count to build a model from")
     centre = _single_centre(molecule)
-    if centre is not None and _placed_not_embedded(molecule, centre):
-        placed = _placed(molecule, centre)
-        if not isinstance(placed, str):
-            return placed
-        embedded = _embedded(molecule)
-        return embedded if not isinstance(embedded, str) else placed
+    if centre is not None:
+        exception = _centre_exception(molecule, centre)
+        if exception is not None and exception.lone_pair_sites is None:
+            return (f"{molecule.atoms[centre].label} is outside plain VSEPR ({exception.name}): "
+                    f"{exception.reason}; no 3D model is made, so no point group is claimed")
+        if exception is not None or _placed_not_embedded(molecule, centre):
+            placed = _placed(molecule, centre, exception)
+            if not isinstance(placed, str):
+                return placed
+            embedded = _embedded(molecule)
+            return embedded if not isinstance(embedded, str) else placed
     embedded = _embedded(molecule)
     if isinstance(embedded, str) and centre is not None:
-        placed = _placed(molecule, centre)
+        placed = _placed(molecule, centre, None)
         return placed if not isinstance(placed, str) else embedded
     return embedded
 
@@ -163,10 +178,44 @@ def _domains(molecule: Molecule, centre: int) -> int:
     return len(molecule.neighbours(centre)) + lone_pairs + odd
 
 
-def _placed(molecule: Molecule, centre: int) -> Coordinates | str:
+def _ligands(molecule: Molecule, centre: int) -> tuple[list[Ligand], dict[str, list[int]]]:
+    """The centre's ligands, and the Kekulé orders of its delocalised bonds to each element.
+
+    Delocalised bonds to one element are one kind of ligand (carbonate's three O).
+    """
+    shared: dict[str, list[int]] = {}
+    for neighbour, order in molecule.bonds_of(centre):
+        if _delocalised(molecule, centre, neighbour):
+            shared.setdefault(molecule.atoms[neighbour].element, []).append(order)
+    ligands = []
+    for neighbour, order in molecule.bonds_of(centre):
+        symbol = molecule.atoms[neighbour].element
+        electronegativity = elements.element(symbol).electronegativity
+        if _delocalised(molecule, centre, neighbour):
+            ligands.append(Ligand(symbol, symbol + "~", max(shared[symbol]), electronegativity))
+        else:
+            ligands.append(Ligand(symbol, _site_label(symbol, order), order, electronegativity))
+    return ligands, shared
+
+
+def _centre_exception(molecule: Molecule, centre: int) -> KnownException | None:
+    """Where plain VSEPR is known to fail for this centre (a carbene, a pyramidal radical, XeF6)."""
+    nonbonding = molecule.nonbonding_electrons(centre)
+    if nonbonding is None or nonbonding < 0:
+        return None
+    lone_pairs, odd = divmod(nonbonding, 2)
+    atom = molecule.atoms[centre]
+    ligands, _ = _ligands(molecule, centre)
+    return known_exception(atom.element, tuple(ligands), lone_pairs, odd, atom.charge, bonds_known=True)
+
+
+def _placed(molecule: Molecule, centre: int, exception: KnownException | None) -> Coordinates | str:
     """Ligands on the sites the expected isomer gives them; a lone pair's site stays empty.
 
-    An odd electron takes a site of its own, as a lone pair does (its domain is smaller, but it is one).
+    An odd electron takes a site of its own, as a lone pair does (its domain
+    is smaller, but it is one).  A known exception to VSEPR (a planar or a
+    pyramidal radical, a carbene) decides the polyhedron and the lone-pair
+    sites instead.
     """
     centre_atom = molecule.atoms[centre]
     nonbonding = molecule.nonbonding_electrons(centre)
@@ -174,32 +223,23 @@ def _placed(molecule: Molecule, centre: int) -> Coordinates | str:
         return f"{centre_atom.element} is outside the main group: no VSEPR polyhedron to place its ligands on"
     if nonbonding < 0:
         return f"{centre_atom.label} has more bonds than valence electrons: no electron count to place them by"
-    lone_pairs, odd = divmod(nonbonding, 2)
     bonds = molecule.bonds_of(centre)
-    geometry = ELECTRON_GEOMETRY.get(len(bonds) + lone_pairs + odd)
-    if geometry is None:
-        return f"{centre_atom.label} has {len(bonds) + lone_pairs + odd} electron domains: no VSEPR polyhedron for that"
-    # delocalised bonds to one element are one kind of ligand, with the mean length of their Kekulé orders
-    shared: dict[str, list[int]] = {}
-    for neighbour, order in bonds:
-        if _delocalised(molecule, centre, neighbour):
-            shared.setdefault(molecule.atoms[neighbour].element, []).append(order)
-    ligands = []
-    for neighbour, order in bonds:
-        symbol = molecule.atoms[neighbour].element
-        if _delocalised(molecule, centre, neighbour):
-            orders = shared[symbol]
-            ligands.append(Ligand(symbol, symbol + "~", max(orders), elements.element(symbol).electronegativity))
-        else:
-            ligands.append(Ligand(symbol, _site_label(symbol, order), order, elements.element(symbol).electronegativity))
+    if exception is not None and exception.lone_pair_sites is not None:
+        geometry, empty_sites = exception.electron_geometry, exception.lone_pair_sites
+    else:
+        lone_pairs, odd = divmod(nonbonding, 2)
+        empty_sites = lone_pairs + odd
+        geometry = ELECTRON_GEOMETRY.get(len(bonds) + empty_sites)
+        if geometry is None:
+            return f"{centre_atom.label} has {len(bonds) + empty_sites} electron domains: no VSEPR polyhedron for that"
+    ligands, shared = _ligands(molecule, centre)
     try:
-        isomers = isomers_for(geometry, ligands, lone_pairs + odd,
+        isomers = isomers_for(geometry, ligands, empty_sites,
                               centre_electronegativity=elements.element(centre_atom.element).electronegativity)
     except ValueError as error:
         return f"no arrangement of the ligands of {centre_atom.label} on the {geometry} polyhedron ({error})"
-    sites = [site for site in expected(isomers)[0].sites if site.label != LONE_PAIR]
+    free = [site for site in expected(isomers)[0].sites if site.label != LONE_PAIR]
     coordinates: list[tuple[float, float, float]] = [(0.0, 0.0, 0.0)] * len(molecule.atoms)
-    free = list(sites)
     for (neighbour, order), ligand in zip(bonds, ligands, strict=True):
         site = next(s for s in free if s.label == ligand.label)
         free.remove(site)
@@ -227,7 +267,15 @@ def _embedded(molecule: Molecule) -> Coordinates | str:
         mol = _rdkit_molecule(molecule, Chem)
         if isinstance(mol, str):
             return mol
-        return _embed(mol, [atom.element for atom in molecule.atoms])
+        try:
+            return _embed(mol, [atom.element for atom in molecule.atoms])
+        except Exception as error:  # noqa: BLE001 - RDKit raises its own exception types
+            return f"RDKit could not build a 3D model ({_first_line(error)})"
+
+
+def _first_line(message: object) -> str:
+    text = str(message).strip()
+    return text.splitlines()[0] if text else "no detail"
 
 
 def _embed(mol, symbols: list[str]) -> Coordinates | str:

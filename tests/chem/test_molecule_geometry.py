@@ -185,6 +185,34 @@ def test_hydrazine_is_gauche():
     assert whole_molecule_symmetry(_molecule("NN")) == ("C2", True)
 
 
+@pytest.mark.parametrize(
+    ("smiles", "words"),
+    [
+        ("Cl[Pt](Cl)([NH3])[NH3]", "outside the main group"),  # square planar, which no force field here knows
+        ("F[Xe](F)(F)(F)(F)F", "outside plain VSEPR"),  # XeF6: fluxional, C3v in the gas phase
+        ("F[Ba]F", "outside plain VSEPR"),  # bent in the gas phase, against VSEPR
+        ("[CH5+]", "more bonds than valence electrons"),  # three-centre bonding the graph cannot hold
+    ],
+)
+def test_no_model_where_none_would_be_trusted(smiles, words):
+    molecule = _molecule(smiles)
+    assert words in model_3d(molecule)
+    assert words in whole_molecule_symmetry(molecule)
+
+
+@pytest.mark.parametrize(
+    ("smiles", "group"),
+    [
+        ("[SiH3]", "C3v"),  # silyl radical: pyramidal, unlike methyl (common practice, no source)
+        ("Cl[Sn]Cl", "C2v"),  # tin(II) chloride: bent, an inert pair
+    ],
+)
+def test_known_exceptions_to_vsepr_decide_the_placement(smiles, group):
+    molecule = _molecule(smiles)
+    assert whole_molecule_symmetry(molecule)[0] == group
+    assert normalised_symbol(group) == normalised_symbol(_pymatgen(molecule, model_3d(molecule)))
+
+
 def test_one_atom_and_one_bond():
     neon = Molecule((MoleculeAtom("Ne", "Ne"),), ())
     assert whole_molecule_symmetry(neon) == ("Kh", False)
