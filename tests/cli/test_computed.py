@@ -78,3 +78,24 @@ def test_standard_input_is_read_once_for_both_computing_and_reviewing(tmp_path):
     done = _run("-", cache=tmp_path / "cache", stdin=NOTE)
     assert done.returncode == 0, done.stderr
     assert "[angle-against-calculation]" in done.stdout and "1 file, 2 annotations" in done.stdout
+
+
+def test_the_progress_bar_is_drawn_on_a_terminal_only_and_cleared_at_the_end():
+    import io
+
+    from notelsp.cli import _Progress
+
+    class Terminal(io.StringIO):
+        def isatty(self) -> bool:
+            return True
+
+    terminal, pipe = Terminal(), io.StringIO()
+    for stream in (terminal, pipe):
+        progress = _Progress(2, stream)
+        progress.step()
+        progress.step()
+        progress.done()
+    assert pipe.getvalue() == ""
+    drawn = terminal.getvalue()
+    assert "\r" in drawn and "2/2 species" in drawn and "\n" not in drawn
+    assert drawn.endswith("\r\x1b[K")  # ANSI "erase to end of line" (ECMA-48 EL): the report starts on a clean line
