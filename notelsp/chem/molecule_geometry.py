@@ -501,7 +501,10 @@ def _stereoisomer_groups(molecule: Molecule) -> list[tuple[str, str]] | str | No
         symbols = [atom.element for atom in molecule.atoms]
         found = []
         for isomer in EnumerateStereoisomers(mol, options=options):
-            coordinates = _embed(isomer, symbols)
+            try:
+                coordinates = _embed(isomer, symbols)
+            except Exception as error:  # noqa: BLE001 - RDKit raises its own exception types
+                return f"the point group depends on the stereoisomer, and one could not be modelled ({_first_line(error)})"
             if isinstance(coordinates, str):
                 continue  # a form that cannot be built (a trans-fused small bicycle)
             found.append((point_group(symbols, coordinates), _describe_stereo(isomer, molecule, open_bonds, open_atoms)))
