@@ -18,7 +18,8 @@ Two ways to a model:
   kept.
 
 Either way the model is one conformer, deterministic for a given molecule.
-RDKit is imported only when a model is made.
+RDKit is imported only when a model is made, and numpy (through the point
+group and the isomer ranking) only when one is asked for.
 """
 
 from __future__ import annotations
@@ -29,11 +30,8 @@ from functools import lru_cache
 from .. import elements
 from .bondlength import predict_bond_length
 from .exceptions import KnownException, known_exception
-from .isomers import expected, isomers_for
 from .model import LONE_PAIR, Ligand
 from .molecule import Molecule
-from .point_group import point_group
-from .polarity import is_polar
 from .vsepr import ELECTRON_GEOMETRY
 
 Coordinates = tuple[tuple[float, float, float], ...]  # Å, one triple per atom in the molecule's order
@@ -71,6 +69,9 @@ def whole_molecule_symmetry(molecule: Molecule) -> tuple[str, bool] | str:
     be.  A double bond inside a ring of up to eight atoms is taken as Z (the
     usual form) and not varied.
     """
+    from .point_group import point_group
+    from .polarity import is_polar
+
     model = model_3d(molecule)
     if isinstance(model, str):
         return model
@@ -91,6 +92,8 @@ def whole_molecule_symmetry(molecule: Molecule) -> tuple[str, bool] | str:
 
 
 def _depends_on_stereo(alternatives: list[tuple[str, str]]) -> str:
+    from .polarity import is_polar
+
     by_group: dict[str, list[str]] = {}
     for group, description in alternatives:
         by_group.setdefault(group, []).append(description)
@@ -217,6 +220,8 @@ def _placed(molecule: Molecule, centre: int, exception: KnownException | None) -
     pyramidal radical, a carbene) decides the polyhedron and the lone-pair
     sites instead.
     """
+    from .isomers import expected, isomers_for
+
     centre_atom = molecule.atoms[centre]
     nonbonding = molecule.nonbonding_electrons(centre)
     if nonbonding is None:
@@ -282,6 +287,8 @@ def _embed(mol, symbols: list[str]) -> Coordinates | str:
     """The chosen conformer of an RDKit molecule (its stereo tags, if any, kept)."""
     from rdkit import Chem
     from rdkit.Chem import rdDistGeom, rdForceFieldHelpers, rdMolDescriptors
+
+    from .point_group import point_group
 
     params = rdDistGeom.ETKDGv3()
     params.randomSeed = EMBEDDING_SEED
@@ -475,6 +482,8 @@ def _stereoisomer_groups(molecule: Molecule) -> list[tuple[str, str]] | str | No
     open; a sentence when there are too many stereoisomers to model."""
     from rdkit import Chem, rdBase
     from rdkit.Chem.EnumerateStereoisomers import EnumerateStereoisomers, StereoEnumerationOptions
+
+    from .point_group import point_group
 
     with rdBase.BlockLogs():
         mol = _rdkit_molecule(molecule, Chem)
