@@ -99,3 +99,14 @@ def test_the_progress_bar_is_drawn_on_a_terminal_only_and_cleared_at_the_end():
     drawn = terminal.getvalue()
     assert "\r" in drawn and "2/2 species" in drawn and "\n" not in drawn
     assert drawn.endswith("\r\x1b[K")  # ANSI "erase to end of line" (ECMA-48 EL): the report starts on a clean line
+
+
+def test_review_workers_get_the_computed_results(note, tmp_path, monkeypatch):
+    (tmp_path / "second.md").write_text("Water {H2O: H-O-H 115°}.\n", encoding="utf-8")
+    cache = tmp_path / "cache"
+    alone = _run(str(note), str(tmp_path / "second.md"), cache=cache)
+    monkeypatch.setenv("NOTELSP_WORKERS", "2")  # review in a pool of two processes (notelsp/cli.py)
+    pooled = _run(str(note), str(tmp_path / "second.md"), cache=cache)
+    assert alone.returncode == pooled.returncode == 0, alone.stderr + pooled.stderr
+    assert pooled.stdout == alone.stdout
+    assert pooled.stdout.count("[angle-against-calculation]") == 2
