@@ -7,7 +7,8 @@ computes them with a :class:`~notelsp.compute.GeometryPool` made on first need
 (its worker processes start then, never at start-up), as many species at a
 time as the pool has workers, so a species that no open document names any
 more is dropped before it starts.  Results stay in memory for the session,
-shared by every document, beside the pool's disk cache.
+shared by every document, beside the pool's disk cache; the worker processes
+end after IDLE_SECONDS with nothing to compute and start again on the next need.
 
 An arriving result republishes the diagnostics of the documents that name it,
 through the one publication path of :mod:`.diagnostics` (which passes the
@@ -41,6 +42,7 @@ if TYPE_CHECKING:  # the compute package (and its pool) is imported on first nee
 log = logging.getLogger("notelsp.server")
 
 SWITCH_VARIABLE = "NOTELSP_COMPUTE"  # "off" (or 0, false, no) turns computing off for the whole process
+IDLE_SECONDS = 120.0  # worker processes asked nothing for this long are ended (each holds tblite's memory)
 REMEMBERED_SPECIES = 4096  # results kept in memory (a few kB each); the disk cache keeps more
 _tokens = itertools.count(1)
 
@@ -60,6 +62,8 @@ class Geometries:
         self.batch_cancelled = False
         self.pool: GeometryPool | None = None
         self.task: asyncio.Task | None = None
+        self.idle: asyncio.TimerHandle | None = None  # ends the workers when nothing is asked for a while
+        self.dropped = 0  # species unqueued during the current run: no open note names them any more
         self.stopped = False
 
     def wanted_anywhere(self) -> set[str]:
@@ -181,6 +185,9 @@ def want(ls: NoteServer, uri: str, species: tuple[str, ...], used: dict[str, Any
             state.queued.setdefault(name, None)
     _drop_unwanted(state)
     if state.queued and (state.task is None or state.task.done()):
+        if state.idle is not None:
+            state.idle.cancel()
+        state.dropped = 0
         state.task = asyncio.get_running_loop().create_task(_compute_queued(ls, state))
     return any(name in state.results and name not in used for name in species)
 
@@ -197,6 +204,7 @@ def _drop_unwanted(state: Geometries) -> None:
     wanted = state.wanted_anywhere()
     for name in [n for n in state.queued if n not in wanted]:
         del state.queued[name]
+        state.dropped += 1
     if state.running and not wanted.intersection(state.running) and state.pool is not None:
         state.batch_cancelled = True
         state.pool.cancel()  # structures not started are dropped; running ones end within their bound
@@ -213,7 +221,6 @@ def _new_pool() -> GeometryPool:
 
 async def _compute_queued(ls: NoteServer, state: Geometries) -> None:
     progress = _Progress(ls)
-    done = 0
     loop = asyncio.get_running_loop()
     try:
         while state.queued and not state.stopped:
@@ -227,7 +234,7 @@ async def _compute_queued(ls: NoteServer, state: Geometries) -> None:
             for name in batch:
                 del state.queued[name]
             state.running, state.batch_cancelled = batch, False
-            await progress.begin(done, done + len(batch) + len(state.queued))
+            await progress.begin(len(batch) + len(state.queued))
 
             def heard(result: ComputedSpecies, batch=batch) -> None:  # in the pool's thread
                 loop.call_soon_threadsafe(_arrived, ls, state, batch, result, progress)
@@ -236,39 +243,56 @@ async def _compute_queued(ls: NoteServer, state: Geometries) -> None:
                 results = await asyncio.to_thread(pool.compute, batch, heard)
             finally:
                 state.running = ()
-            for name, result in zip(batch, results):  # any the callback could not place by name
-                if name not in state.results:
-                    _keep(ls, state, name, result)
-            done += len(batch)
-        progress.end(f"{done} species computed")
+            # Arrivals were handed to the loop before the batch's end: any not placed by name is placed here.
+            for name, result in zip(batch, results):
+                if name not in progress.heard:
+                    progress.heard.add(name)
+                    if _keep(ls, state, name, result):
+                        progress.report(name)
+        progress.end(f"{progress.kept} species computed" + ("" if not state.dropped else
+                     f"; {state.dropped} no open note names any more"))
     except asyncio.CancelledError:
         progress.end("cancelled")
         raise
     except Exception:
         log.exception("computing geometries failed")
         progress.end("failed")
+    finally:
+        if not state.stopped:
+            state.idle = loop.call_later(IDLE_SECONDS, _close_when_idle, state)
+
+
+def _close_when_idle(state: Geometries) -> None:
+    """Nothing asked for a while: end the worker processes (the next need starts them again)."""
+    if state.task is not None and not state.task.done():
+        return
+    pool, state.pool = state.pool, None
+    if pool is not None:
+        asyncio.get_running_loop().run_in_executor(None, pool.close)  # no structure is running: quick
 
 
 def _arrived(ls: NoteServer, state: Geometries, batch: tuple[str, ...], result: ComputedSpecies,
              progress: _Progress) -> None:
-    name = result.species if result.species in batch else None
-    if name is None:
+    if result.species not in batch:
         return  # named otherwise by the analysis: placed when the batch ends
-    progress.report(name)
-    _keep(ls, state, name, result)
+    progress.heard.add(result.species)
+    if _keep(ls, state, result.species, result):
+        progress.report(result.species)
 
 
-def _keep(ls: NoteServer, state: Geometries, name: str, result: ComputedSpecies | None) -> None:
+def _keep(ls: NoteServer, state: Geometries, name: str, result: ComputedSpecies | None) -> bool:
+    """Keep the result and show it in the documents that name it; False when it is not one to keep."""
     if result is None or state.stopped:
-        return
+        return False
     if state.batch_cancelled and result.failed is not None:
-        return  # possibly cancelled before it started: not a result to keep
+        return False  # possibly cancelled before it started: not a result to keep
     state.remember(name, result)
     from .diagnostics import republish
 
     for uri, named in list(state.wanted.items()):
         if name in named:
             republish(ls, uri)
+    return True
 
 
 class _Progress:
@@ -278,11 +302,13 @@ class _Progress:
         self.ls = ls
         self.token: str | None = None
         self.asked = False
-        self.done = 0
+        self.kept = 0  # results kept (reported)
+        self.heard: set[str] = set()  # species of this run whose result came back
         self.total = 0
 
-    async def begin(self, done: int, total: int) -> None:
-        self.done, self.total = done, total
+    async def begin(self, left: int) -> None:
+        """A batch starts; ``left``: it and the species queued after it."""
+        self.total = self.kept + left
         if self.asked:
             return
         self.asked = True
@@ -297,14 +323,14 @@ class _Progress:
             return
         self.token = token
         self.ls.work_done_progress.begin(token, types.WorkDoneProgressBegin(
-            title="Computing geometries (GFN2-xTB)", message=f"{total} species", percentage=0, cancellable=False))
+            title="Computing geometries (GFN2-xTB)", message=f"{self.total} species", percentage=0, cancellable=False))
 
     def report(self, name: str) -> None:
-        self.done += 1
+        self.kept += 1
         if self.token is not None:
-            total = max(self.total, self.done)
+            total = max(self.total, self.kept)
             self.ls.work_done_progress.report(self.token, types.WorkDoneProgressReport(
-                message=f"{name} ({self.done} of {total})", percentage=round(100 * self.done / total)))
+                message=f"{name} ({self.kept} of {total})", percentage=round(100 * self.kept / total)))
 
     def end(self, message: str) -> None:
         if self.token is not None:
