@@ -194,9 +194,26 @@ def review_around(text: str, kind: DocumentKind, settings: Settings, span: Span,
     return DocumentReview(text, ScannedDocument(tuple(found)), tuple(findings), None)
 
 
+class _Same:
+    """A computed result in a cache key, compared by identity: hashing a result by content walks every
+    coordinate (tens of microseconds for a species with isomers).  The key holds the result, so while the
+    entry lives no other object can take its id; an equal result computed again is merely a cache miss."""
+
+    __slots__ = ("value",)
+
+    def __init__(self, value: Any) -> None:
+        self.value = value
+
+    def __hash__(self) -> int:
+        return id(self.value)
+
+    def __eq__(self, other: object) -> bool:
+        return isinstance(other, _Same) and other.value is self.value
+
+
 def _computed_key(computed: Computed) -> tuple:
-    """``computed`` as a hashable value (results are frozen values, compared by content)."""
-    return tuple(sorted(computed.items(), key=lambda item: item[0])) if computed else ()
+    """``computed`` as a hashable value (see _Same)."""
+    return tuple(sorted((name, _Same(result)) for name, result in computed.items())) if computed else ()
 
 
 def _review_found(found_in_order, text: str, settings: Settings, reviews: "Relative", placed: "Placed",
@@ -207,14 +224,14 @@ def _review_found(found_in_order, text: str, settings: Settings, reviews: "Relat
         source = text[start:end]
         # An annotation's findings depend on its text, form and settings, and on the computed
         # results of its own species: those join the cache key (nothing when none is computed).
-        own = tuple(computed.get(f.text) for f in parsed.formulas) if computed else ()
-        if not any(own):
-            own = ()
+        results = tuple(computed.get(f.text) for f in parsed.formulas) if computed else ()
+        own = tuple(None if r is None else _Same(r) for r in results) if any(results) else ()
         relative = reviews.get((source, form, own))
         if relative is None:
             if len(reviews) >= _REVIEWS_LIMIT:  # full: the oldest goes (see _evict_oldest)
                 _evict_oldest(reviews)
-            relative = reviews[(source, form, own)] = _review_relative(_relative_annotation(found), settings, own)
+            relative = reviews[(source, form, own)] = _review_relative(_relative_annotation(found), settings,
+                                                                       results if own else ())
         if relative:  # most annotations have no findings: nothing to place
             key = (source, form, start, own)
             here = placed.get(key)
