@@ -170,3 +170,10 @@ def test_a_computed_order_within_the_uncertainty_softens_the_rules_finding_witho
     assert finding.code == "angle-order-against-bent"
     assert finding.severity == Severity.INFORMATION and finding.fixes == ()
     assert "predicted Cl-C-Cl > H-C-H" in finding.message and "by less than the method's uncertainty" in finding.message
+
+
+def test_a_finished_review_is_reused_for_the_same_results_and_not_for_others():
+    text = "Again {NF3: F-N-F 112.5°}."
+    first = review_text(text, computed=_computed())
+    assert review_text(text, computed=dict(_computed())) is first  # the same results, in another mapping
+    assert review_text(text, computed={"NF3": stored()["NH3 unconverged"]}) is not first
