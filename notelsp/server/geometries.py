@@ -125,7 +125,7 @@ def hover_lines(ls: NoteServer, uri: str, species: Iterable[str]) -> list[str]:
         if result is not None:
             lines.append(computed_markdown(name, result))
         elif state is not None and (name in state.queued or name in state.running):
-            lines.append(f"{name} computed with GFN2-xTB: computing…")
+            lines.append(f"{name}: geometry (GFN2-xTB) computing…")
     return lines
 
 
@@ -141,8 +141,9 @@ def computed_markdown(name: str, result: ComputedSpecies) -> str:
         isomer = f" {structure.isomer}" if structure.isomer else ""
         gap = gaps.get(structure.isomer)
         above = f", {gap:.1f} kJ/mol above the lowest" if gap else ""
-        lines.append(f"{name}{isomer} computed, {result.method}: {angles}{above}")
-    return "\n\n".join(lines)
+        spin = f" ({structure.spin})" if structure.unpaired else ""  # open shells say which state was taken
+        lines.append(f"{name}{isomer} computed, {result.method}: {angles}{above}{spin}")
+    return "\n\n".join(lines + list(result.notes))
 
 
 def _angle_text(angles) -> str:

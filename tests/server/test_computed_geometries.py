@@ -134,6 +134,17 @@ async def test_without_the_progress_capability_results_still_arrive(session, tmp
     assert client.progress_reports == {}
 
 
+async def test_hover_says_why_a_species_has_no_computed_geometry(session, tmp_path):
+    client = await session(progress=False)
+    text = "Iron pentacarbonyl {Fe(CO)5: trigonal bipyramidal}.\n"
+    uri = file_uri(tmp_path / "iron.md")
+    open_note(client, uri, text)
+    await wait_for(lambda: client.diagnostics.count.get(uri, 0) >= 2, timeout=COMPUTE_TIMEOUT)
+    reason = compute_species("Fe(CO)5").failed  # the library's own reason (nothing is computed: it is skipped)
+    assert reason
+    assert f"Fe(CO)5: no computed geometry (GFN2-xTB): {reason}" in await _hover(client, uri, text, "Fe(CO)5")
+
+
 async def test_a_settings_file_turns_it_off(session, tmp_path):
     (tmp_path / ".notelsp.toml").write_text("[review]\ncompute = false\n")
     client = await session()
