@@ -28,8 +28,10 @@ class Received:
 class StdioClient:
     def __init__(self, command: list[str], cwd: str | None = None) -> None:
         self.started = time.perf_counter()
+        # The rules-only path is measured: no geometries computed in the background (workers would share the cores).
         self.process = subprocess.Popen(
-            command, cwd=cwd, stdin=subprocess.PIPE, stdout=subprocess.PIPE, stderr=subprocess.DEVNULL
+            command, cwd=cwd, stdin=subprocess.PIPE, stdout=subprocess.PIPE, stderr=subprocess.DEVNULL,
+            env={**os.environ, "NOTELSP_COMPUTE": "off"},
         )
         self._next_id = 0
         self._responses: dict[int, queue.Queue[Received]] = {}
