@@ -64,6 +64,12 @@ class Calculation:
         shown = " or ".join(f"{degrees_text(v)}°" for v in values)
         return f"computed ({self.method}) {shown} ± {degrees_text(self.uncertainty)}°"
 
+    @property
+    def assumed_spin(self) -> str | None:
+        """"triplet assumed" where the spin state was a choice between two close ones (CH2), else None."""
+        head = self.geometry.spin.partition(":")[0].strip()
+        return head if "assumed" in head else None
+
 
 def calculation(computed: Any) -> Calculation | None:
     """The calculation of a species when it has a usable structure; else None."""

@@ -18,7 +18,7 @@ from notelsp.compute.result import ComputedSpecies, geometry_from_dict, geometry
 
 FIXTURE = Path(__file__).parent / "data" / "computed_species.json"
 
-SPECIES = ("NF3", "NH3", "H2O", "PF3", "PH3", "NCl3", "OF2", "Cl2O", "CH3", "CF3", "CH2F2", "CH2Cl2", "PCl3F2", "SF4")
+SPECIES = ("NF3", "NH3", "H2O", "PF3", "PH3", "NCl3", "OF2", "Cl2O", "CH3", "CF3", "CH2F2", "CH2Cl2", "PCl3F2", "SF4", "CH2")
 # NH3 stopped after two optimiser steps: a real unconverged run, for the failure finding
 UNCONVERGED = ("NH3", 2)
 

@@ -177,3 +177,11 @@ def test_a_finished_review_is_reused_for_the_same_results_and_not_for_others():
     first = review_text(text, computed=_computed())
     assert review_text(text, computed=dict(_computed())) is first  # the same results, in another mapping
     assert review_text(text, computed={"NF3": stored()["NH3 unconverged"]}) is not first
+
+
+def test_a_claim_about_the_spin_state_the_calculation_did_not_choose_is_information():
+    # CH2: triplet ground state near 134°, singlet about 102° (from memory); the pool assumes the triplet
+    assert "assumed" in stored()["CH2"].lowest.spin
+    (finding,) = _review("{CH2: H-C-H 102°}")
+    assert finding.code == "angle-against-calculation"
+    assert finding.severity == Severity.INFORMATION and "triplet assumed" in finding.message

@@ -115,7 +115,8 @@ def implausible_angle(context: RuleContext) -> Iterator[Finding]:
         return
     head = f"{context.analysis.formula}: {claim.text} is implausible; {window.said}"
     found = context.calculation()
-    values = found.angles(claim.atoms) if found is not None else ()
+    # a computed spin state that was a choice (CH2's triplet) does not overrule the rules for a claim
+    values = found.angles(claim.atoms) if found is not None and not found.assumed_spin else ()
     if not values:
         yield context.finding(head, fixes=[context.replace_claim(f"{window.prefix}~{_degrees(window.estimate)}°")])
         return

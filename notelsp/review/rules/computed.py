@@ -45,9 +45,10 @@ def angle_against_calculation(context: RuleContext) -> Iterator[Finding]:
     with one lone pair, say), so a claim 10° off the real angle can lie inside
     them.  The computed geometry (GFN2-xTB, optimised from the predicted
     structure) is specific to the molecule; a claim further from it than the
-    method's measured angle uncertainty (see README, "Computed geometries")
+    method's measured angle uncertainty (README, "Computed geometries")
     is reported with both the computed value and the rules' range.  No fix is
-    offered: the rules would have let the claim pass.
+    offered: the rules would have let the claim pass.  Where the spin state
+    was a choice between two close ones (CH2), this is information.
     """
     claim = context.claim
     if not isinstance(claim, AngleClaim):
@@ -62,7 +63,11 @@ def angle_against_calculation(context: RuleContext) -> Iterator[Finding]:
     if window is not None and not window.fits:
         return  # the rules flag it too: implausible-angle reports both
     rules_said = f"; the rules' range admits it ({window.said})" if window is not None else ""
-    yield _finding(context, f"{found.species.species}: {claim.text} is off the {found.said(values)}{rules_said}")
+    message = f"{found.species.species}: {claim.text} is off the {found.said(values)}{rules_said}"
+    if found.assumed_spin:  # the claim may be about the other spin state
+        yield _finding(context, f"{message} ({found.assumed_spin}; the other state differs)", Severity.INFORMATION)
+        return
+    yield _finding(context, message)
 
 
 def _computed_pair(context: RuleContext, claim: AngleOrderClaim):
@@ -118,7 +123,10 @@ def angle_order_against_calculation(context: RuleContext) -> Iterator[Finding]:
         message += " (the difference is within the method's uncertainty)"
     if bent is not None:
         message += "; Bent's rule predicts as claimed"
-    yield _finding(context, message, Severity.WARNING if firmly else Severity.INFORMATION)
+    assumed = [c.assumed_spin for c in (left_of, right_of) if c.assumed_spin]
+    if assumed:  # the claim may be about the other spin state
+        message += f" ({assumed[0]}; the other state differs)"
+    yield _finding(context, message, Severity.WARNING if firmly and not assumed else Severity.INFORMATION)
 
 
 @rule("placement-against-calculation", severity=Severity.INFORMATION, claims=(PlacementClaim,))
