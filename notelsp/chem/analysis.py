@@ -6,6 +6,7 @@ from __future__ import annotations
 import threading
 from dataclasses import dataclass
 from itertools import combinations_with_replacement
+from typing import TYPE_CHECKING
 
 from .. import elements
 from ..notation.model import Formula
@@ -17,8 +18,13 @@ from .exceptions import USUAL, KnownException, known_exception
 from .hazards import cautions as hazard_cautions
 from .model import Ligand
 from .on_demand import CoulsonRequest, IsomerRequest, OnDemand
+from .condensed import is_condensed, read_condensed
+from .molecule import Molecule
 from .species import CentreModel, build_species
 from .vsepr import SiteAngle, vsepr
+
+if TYPE_CHECKING:
+    from .molecule_analysis import MoleculeAnalysis
 
 
 @dataclass(frozen=True, slots=True)
@@ -106,6 +112,9 @@ class SpeciesAnalysis:
     centres: tuple[CentreAnalysis, ...]
     outside_model: str | None
     cautions: tuple[str, ...]
+    # The whole molecule, when the species was read as a graph (a condensed formula, SMILES, or a
+    # symmetric two-centre formula); then ``centres`` are its centres' analyses in atom order.
+    molecule: MoleculeAnalysis | None = None
 
     @property
     def centre(self) -> CentreAnalysis | None:
@@ -131,12 +140,28 @@ def analyse(formula: Formula) -> SpeciesAnalysis:
 
 
 def _analyse(formula: Formula) -> SpeciesAnalysis:
-    composition = formula.composition()
-    known = {s: n for s, n in composition.items() if elements.is_symbol(s)}
-    caution = hazard_cautions(formula.text, known)
+    if formula.smiles is not None:
+        from .smiles import read_smiles  # RDKit, loaded only when a note gives SMILES
+
+        read = read_smiles(formula.smiles)
+        if isinstance(read, str):
+            return SpeciesAnalysis(formula.text, formula.charge, (), f"SMILES not read: {read}", ())
+        return _molecule_species(formula, read)
+    caution = _cautions(formula.text, formula.composition())
+    condensed = read_condensed(formula) if is_condensed(formula) else None
+    if condensed is not None and condensed.molecule is not None:
+        return _molecule_species(formula, condensed.molecule)
     model = build_species(formula)
+    if condensed is not None and (condensed.ambiguous or model.outside_model is not None):
+        # unread as a structure: the single-centre model may still read it (TeFClBrIH(OH)^-), never an ambiguity
+        return SpeciesAnalysis(formula.text, formula.charge, (), condensed.reason or "not read", caution)
     if model.outside_model is not None:
         return SpeciesAnalysis(formula.text, formula.charge, (), model.outside_model, caution)
+    if len(model.centres) > 1:
+        # two equal centres (C2H4, N2H6, H2O2): the molecule's own graph, so its point group is the whole one's
+        reading = read_condensed(formula)
+        if reading.molecule is not None:
+            return _molecule_species(formula, reading.molecule)
     centres = []
     for centre in model.centres:
         analysed = analyse_centre(centre, formula.text)
@@ -144,6 +169,23 @@ def _analyse(formula: Formula) -> SpeciesAnalysis:
             return SpeciesAnalysis(formula.text, formula.charge, (), analysed, caution)
         centres.append(analysed)
     return SpeciesAnalysis(formula.text, formula.charge, tuple(centres), None, caution)
+
+
+def _cautions(text: str, composition: dict[str, int]) -> tuple[str, ...]:
+    return hazard_cautions(text, {s: n for s, n in composition.items() if elements.is_symbol(s)})
+
+
+def _molecule_species(formula: Formula, molecule: Molecule) -> SpeciesAnalysis:
+    """A species read as a molecule graph: every centre analysed."""
+    from .molecule_analysis import analyse_molecule  # it builds on analyse_centre below
+
+    whole = analyse_molecule(molecule)
+    composition: dict[str, int] = {}
+    for atom in molecule.atoms:
+        composition[atom.element] = composition.get(atom.element, 0) + 1
+    centres = tuple(c.analysis for c in whole.centres if c.analysis is not None)
+    return SpeciesAnalysis(formula.text, molecule.charge, centres, whole.outside_model,
+                           _cautions(formula.text, composition), whole)
 
 
 def analyse_centre(centre: CentreModel, formula_text: str, *, with_isomers: bool = True) -> CentreAnalysis | str:

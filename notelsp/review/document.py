@@ -20,6 +20,7 @@ from ..notation.model import Annotation, Found, ScannedDocument, Span, annotatio
 from ..positions import LineIndex
 from .findings import Finding
 from .settings import Settings
+from .target import TARGET_RULES, focus
 
 if TYPE_CHECKING:  # only the type: the review reads computed results, it never computes
     from ..compute.result import ComputedSpecies
@@ -325,7 +326,17 @@ def _review_relative(annotation: Annotation, settings: Settings,
     analyses = analyses_of(annotation)
     found: list[Finding] = []
     for claim in (None, *annotation.claims):
+        # the rules judge the claim against the one centre it is about (see target.py); where that
+        # cannot be settled only the rules that say so run
+        target = focus(analyses, claim)
         for rule in rules.rules_for(claim):
-            if settings.enabled(rule.code):
+            if not settings.enabled(rule.code):
+                continue
+            if rule.code in TARGET_RULES:
                 found.extend(rule.check(rules.RuleContext(rule, annotation, claim, analyses, settings, computed)))
+            elif target.problem is None:
+                judged = rule.check(rules.RuleContext(rule, annotation, target.claim, target.analyses, settings,
+                                                      computed))
+                # a fix would write the claim back with the names the rules use (H-C-H for H-C1-H): none then
+                found.extend(f._replace(fixes=()) if target.translated else f for f in judged)
     return tuple(sorted(found, key=_ORDER))

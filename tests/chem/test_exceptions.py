@@ -129,11 +129,16 @@ def test_trimethylamine_stays_pyramidal():
     assert centre.shape == "trigonal-pyramidal" and centre.exception is None
 
 
-@pytest.mark.parametrize("formula", ["NH2(COCH3)", "NH2(C6H5)", "OH(C6H5)"])
-def test_a_lone_pair_beside_a_possible_pi_system_is_uncertain(formula):
+@pytest.mark.parametrize("formula, shape, also", [
+    ("NH2(COCH3)", "trigonal-planar", ()),  # amide N planar (common practice, no source)
+    ("NH2(C6H5)", "trigonal-planar", ("trigonal-pyramidal",)),  # aniline N nearly planar, slightly pyramidal
+    ("OH(C6H5)", "bent", ()),  # phenol O: still bent, its lone pair in the ring's π system
+])
+def test_a_lone_pair_beside_a_pi_system_read_from_the_graph_is_conjugated(formula, shape, also):
+    # read as a molecule, the N or O is the first centre and its neighbour's π bond is known, not guessed
     centre = centre_of(formula)
-    assert centre.confidence == UNCERTAIN
-    assert any(shape in centre.plausible_shapes for shape in ("trigonal-planar", "bent"))
+    assert centre.confidence == USUAL and centre.hybridization == "sp2"
+    assert centre.plausible_shapes == (shape, *also)
 
 
 @pytest.mark.parametrize("formula", ["NH3", "H2O", "PH3", "ClF3", "SF4", "XeF4", "CH4", "IF7"])

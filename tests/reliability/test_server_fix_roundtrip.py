@@ -35,6 +35,7 @@ FIXABLE_NOTES = {
     "wrong-unpaired-electrons": "{NO2: diamagnetic}",
     "charge-missing": "{ClO4}",
     "annotation-not-read": "{sf4: seesaw}",
+    "unknown-atom": "{CH3OH: O1 bent}",
 }
 # Put each note in a line of prose with a wide character before it, so the edit's columns matter.
 PROSE = "Line one.\r\nWe write \N{TEST TUBE} {note} in the log; ok\r\n"
@@ -67,7 +68,7 @@ def _apply(text: str, edit: dict) -> str:
 
 # Rules whose findings have no single correct replacement (the writer must decide).
 WITHOUT_FIXES = {"formula-too-large", "impossible-count", "malformed-claim", "malformed-formula", "outside-model",
-                 "unknown-element", "isomers-not-enumerated", "note-too-large", "review-continues",
+                 "unknown-element", "isomers-not-enumerated", "note-too-large", "review-continues", "centre-not-named",
                  "implausible-bond-length", "coupling-against-s-character", "outer-d-convention",
                  "angle-against-calculation", "angle-order-against-calculation", "placement-against-calculation",
                  "calculation-failed"}

@@ -29,6 +29,7 @@ note = "{ClF3: trigonal planar}"  # code is never read
 Fluorides: {PCl3F2: F equatorial, 2 isomers}, {SF2Cl2: nonpolar}, {SF4: D2d}, {H2O: H-O-H 104°, sp^2.5}.
 Bent's rule: {CH2F2: F-C-F > H-C-H} and {CF4 vs CH3F: C-F longer}.
 Counting: {ClF3: AX3E}, {NO2: diamagnetic} and a salt of {ClO4}; lower case: {sf4: seesaw}.
+Atoms by name: {NH3: H1 is sp3} and {CH3OH: O1 bent}.
 
 ```bonding
 XeF4: tetrahedral   # from a hand sketch
@@ -42,11 +43,13 @@ FIXABLE = {
     "implausible-angle", "angle-order-against-bent", "bond-length-against-bent",
     "index-angle-mismatch", "s-character-mismatch",
     "misplaced-ligand", "wrong-polarity", "wrong-point-group", "wrong-isomer-count",
-    "wrong-axe-class", "wrong-unpaired-electrons", "charge-missing", "annotation-not-read",
+    "wrong-axe-class", "wrong-unpaired-electrons", "charge-missing", "annotation-not-read", "unknown-atom",
 }
 # no correct replacement exists for these: the writer must say what was meant
 WITHOUT_FIXES = {"malformed-formula", "malformed-claim", "impossible-count", "formula-too-large", "outside-model",
                  "isomers-not-enumerated", "note-too-large", "review-continues",
+                 # which of several centres a claim means is the writer's to say
+                 "centre-not-named",
                  # predictions too rough to write a value for the writer, and a hint about a spelling
                  "implausible-bond-length", "coupling-against-s-character", "outer-d-convention",
                  # judged against a computed geometry, only where the rules let the claim pass: the writer decides

@@ -17,7 +17,6 @@ from .helpers import review, with_code
 @pytest.mark.parametrize("note, code", [
     ("{XeF6: square planar}", "wrong-shape"),          # distorted octahedron, detail uncertain
     ("{CH2: H-C-H 150°}", "implausible-angle"),        # triplet ~132°, singlet ~102°: beyond both still unsure
-    ("{NH2(COCH3): tetrahedral}", "wrong-shape"),      # amide-like group may make N planar
     ("{CCl3: T-shaped}", "wrong-shape"),               # between planar and pyramidal radicals
 ])
 def test_an_uncertain_prediction_gives_information_without_a_fix(note, code):
@@ -27,9 +26,18 @@ def test_an_uncertain_prediction_gives_information_without_a_fix(note, code):
     assert "uncertain:" in finding.message
 
 
+def test_a_claim_that_could_mean_several_unlike_centres_is_information_without_a_fix():
+    # the amide's N and carbonyl C are trigonal planar, its methyl C tetrahedral (common practice, no source)
+    (finding,) = with_code("{NH2(COCH3): tetrahedral}", "centre-not-named")
+    assert finding.severity is Severity.INFORMATION and finding.fixes == ()
+    assert "N trigonal planar" in finding.message and "tetrahedral" in finding.message
+    assert [f.code for f in review("{NH2(COCH3): tetrahedral}").findings] == ["centre-not-named"]
+
+
 @pytest.mark.parametrize("note", [
     "{XeF6: octahedral}", "{XeF6: pentagonal pyramidal}", "{BaF2: linear}", "{BaF2: bent}", "{CaF2: linear}",
-    "{NH2(COCH3): trigonal planar, sp2}", "{NH2(C6H5): sp2}", "{SnCl2: sp2}", "{SnCl2: unhybridized}",
+    "{NH2(COCH3): N trigonal planar, N sp2}", "{NH2(C6H5): N sp2}", "{NH2(C6H5): N trigonal pyramidal}",
+    "{SnCl2: sp2}", "{SnCl2: unhybridized}",
 ])
 def test_what_the_exception_allows_is_not_flagged(note):
     assert not [f for f in review(note).findings if f.code != "isomers-not-enumerated"]
@@ -37,6 +45,7 @@ def test_what_the_exception_allows_is_not_flagged(note):
 
 @pytest.mark.parametrize("note, code", [
     ("{CH3: trigonal pyramidal}", "wrong-shape"),  # planar as a rule (G2), but only "usually"
+    ("{NH2(COCH3): N trigonal pyramidal}", "wrong-shape"),  # the amide N's lone pair is conjugated: planar, usually
     ("{SnCl2: Cl-Sn-Cl 119°}", "implausible-angle"),
 ])
 def test_a_usual_exception_is_at_most_a_warning_and_says_usually(note, code):

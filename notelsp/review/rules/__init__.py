@@ -196,4 +196,5 @@ def rules_for(claim: Claim | None) -> Iterator[Rule]:
 from . import notation  # noqa: E402,F401
 from . import placement  # noqa: E402,F401
 from . import vsepr, angles, hybrid, measured  # noqa: E402,F401
+from . import atoms  # noqa: E402,F401
 from . import computed  # noqa: E402,F401

@@ -51,7 +51,13 @@ def isomers_not_enumerated(context: RuleContext) -> Iterator[Finding]:
             continue
         # the isomer rules judge the first species only, so only its claims go unchecked
         claims = context.annotation.claims if index == 0 else ()
-        unchecked = [f"'{claim.text}'" for claim in claims if isinstance(claim, _NEEDS_ISOMERS)]
+        needs = _NEEDS_ISOMERS
+        if _several_centres(analysis):
+            # a molecule's polarity and point group come from its 3D model, not from isomers
+            needs = (PlacementClaim, IsomerCountClaim)
+            if not any(isinstance(claim, needs) for claim in claims):
+                continue
+        unchecked = [f"'{claim.text}'" for claim in claims if isinstance(claim, needs)]
         if not unchecked and any(c.exception is not None for c in analysis.centres):
             continue  # a known exception without fixed sites: only worth saying when a claim goes unchecked
         consequence = (f"not checked: {', '.join(unchecked)}" if unchecked
@@ -173,6 +179,34 @@ def misplaced_ligand(context: RuleContext) -> Iterator[Finding]:
     yield context.finding(message, fixes=[context.replace_claim(replacement)] if replacement else [])
 
 
+def _several_centres(analysis) -> bool:
+    whole = getattr(analysis, "molecule", None)
+    return whole is not None and len(whole.centres) > 1
+
+
+def _whole_molecule(context: RuleContext) -> tuple[str, bool] | str | None:
+    """(point group, polar) of a species read as a molecule of several centres, from its 3D model, or
+    why there is none; None for a single-centre species (judged by its isomers)."""
+    analysis = context.analysis
+    if analysis is None or analysis.outside_model is not None or not _several_centres(analysis):
+        return None
+    from ...chem.molecule_geometry import whole_molecule_symmetry  # RDKit's embedding, only when asked
+
+    return whole_molecule_symmetry(analysis.molecule.molecule)
+
+
+def _judge_whole_molecule(context: RuleContext, whole: tuple[str, bool] | str, claimed: str, agrees: bool,
+                          predicted: str) -> Iterator[Finding]:
+    if isinstance(whole, str):
+        yield context.finding(f"{_formula(context)} is claimed {claimed}; not checked: {whole}",
+                              at_most=Severity.INFORMATION)
+    elif not agrees:
+        yield context.finding(
+            f"{_formula(context)} is claimed {claimed}; predicted {predicted} (point group {whole[0]} "
+            "of the whole molecule, from one 3D model of it)",
+            fixes=[context.replace_claim(predicted)])
+
+
 def _polarity_word(polar: bool) -> str:
     return "polar" if polar else "nonpolar"
 
@@ -196,6 +230,12 @@ def wrong_polarity(context: RuleContext) -> Iterator[Finding]:
     """
     claim = context.claim
     assert isinstance(claim, PolarityClaim)
+    whole = _whole_molecule(context)
+    if whole is not None:
+        polar = not isinstance(whole, str) and whole[1]
+        yield from _judge_whole_molecule(context, whole, _polarity_word(claim.polar), polar == claim.polar,
+                                         _polarity_word(polar))
+        return
     isomer = _agreed_expected(context, "polar")
     if isomer is None or isomer.polar == claim.polar:
         return
@@ -219,6 +259,12 @@ def wrong_point_group(context: RuleContext) -> Iterator[Finding]:
 
     claim = context.claim
     assert isinstance(claim, PointGroupClaim)
+    whole = _whole_molecule(context)
+    if whole is not None:
+        group = "" if isinstance(whole, str) else whole[0]
+        yield from _judge_whole_molecule(context, whole, claim.symbol,
+                                         normalised_symbol(group or "C1") == normalised_symbol(claim.symbol), group)
+        return
     isomer = _agreed_expected(context, "point_group")
     if isomer is None or normalised_symbol(isomer.point_group) == normalised_symbol(claim.symbol):
         return

@@ -1,0 +1,50 @@
+"""Rules for a claim whose atom cannot be placed: a name that matches no atom of the
+species, or a claim that could be about several unlike centres.
+
+Which centre a claim is about is worked out once, in ``notelsp/review/target.py``;
+these rules report when it cannot be, and the other rules then leave the claim alone.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterator
+
+from ...notation.model import Claim
+from ..findings import Finding, Fix, Severity
+from ..target import focus
+from . import RuleContext, rule
+
+
+@rule("unknown-atom", severity=Severity.WARNING, claims=(Claim,))
+def unknown_atom(context: RuleContext) -> Iterator[Finding]:
+    """A claim names an atom the species does not have, or a terminal atom.
+
+    Atoms are named by element with their place among that element's atoms as
+    written (``C1``, ``C2`` in CH3COOH; ``N`` where there is one N), as hover and
+    ``notelsp explain`` show them.  A terminal atom (bonded to one other) has no
+    bond angle or shape of its own.  The message lists the species' atoms; the
+    fix writes the one atom the name can mean, where there is one.
+    """
+    found = focus(context.analyses, context.claim)
+    if found.problem is None or not found.unknown:
+        return
+    claim = context.claim
+    span = (claim.atom_span if claim is not None and claim.atom_span is not None else None)
+    fixes = ()
+    if found.suggestion is not None and span is not None:
+        fixes = (Fix(f"Replace with '{found.suggestion}'", span, found.suggestion),)
+    yield context.finding(found.problem, span=span, fixes=fixes)
+
+
+@rule("centre-not-named", severity=Severity.INFORMATION, claims=(Claim,))
+def centre_not_named(context: RuleContext) -> Iterator[Finding]:
+    """A claim about a molecule with several unlike centres does not say which one.
+
+    In CH3COOH the methyl carbon is tetrahedral and the carboxyl carbon trigonal
+    planar, so "trigonal planar" alone is true of one and false of the other.
+    The claim is not judged; name the atom (``C2 trigonal planar``, ``H-C1-H
+    109°``) and it is.
+    """
+    found = focus(context.analyses, context.claim)
+    if found.problem is not None and not found.unknown:
+        yield context.finding(found.problem)
