@@ -71,7 +71,7 @@ HALOGENS = frozenset({"F", "Cl", "Br", "I", "At"})
 # any other atom continues the backbone, as the text's order says (CNO- is C-N-O).
 TERMINAL_WITHOUT_PARENTHESES = frozenset({"O", "S", "Se"})
 MAX_ATOMS = 120  # beyond this a condensed formula is unreadable prose anyway; SMILES is the way
-MAX_CANDIDATES = 4096  # readings built before giving up (each is judged by its bond orders)
+MAX_CANDIDATES = 1024  # readings built before giving up (each is judged by its bond orders)
 _MAX_RESONANCE = 64  # equally good bond-order assignments kept to find delocalised bonds
 _SUGGESTION = "write the bonds (e.g. CH2=CH2) or give the molecule as SMILES"
 
@@ -172,17 +172,25 @@ class _Build:
     aromatic: set[tuple[int, int]] = field(default_factory=set)
     cost: int = 0  # departures from the default reading
 
+    degrees: list[int] = field(default_factory=list)
+
     def copy(self) -> "_Build":
-        return _Build(list(self.symbols), dict(self.edges), set(self.aromatic), self.cost)
+        return _Build(list(self.symbols), dict(self.edges), set(self.aromatic), self.cost, list(self.degrees))
 
     def add(self, symbol: str) -> int:
         self.symbols.append(symbol)
+        self.degrees.append(0)
         return len(self.symbols) - 1
 
     def bond(self, a: int, b: int, order: int | None = None) -> bool:
+        """Join two atoms; False (a dead reading) when they are joined already or one has no room left."""
         key = (a, b) if a < b else (b, a)
         if a == b or key in self.edges:
             return False
+        for atom in (a, b):
+            self.degrees[atom] += 1
+            if self.degrees[atom] > _most_bonds(self.symbols[atom]):
+                return False
         if order is None and "H" in (self.symbols[a], self.symbols[b]):
             order = 1
         self.edges[key] = order
@@ -372,8 +380,8 @@ def _read_level(items: list[_Item], build: _Build, attach: int | None,
                 continue
             seen.add(key)
             split = nb.copy()
-            for h in pool:
-                split.bond(a if h in on_first else z, h)
+            if not all(split.bond(a if h in on_first else z, h) for h in pool):
+                continue
             yield from step(j, split, _Level(z, z, False, None, (), first))
 
     def ring(i: int, b: _Build, lv: _Level) -> Iterator[tuple[_Build, int, int]]:
@@ -466,11 +474,8 @@ def _oxoacid(items: list[_Item]) -> _Build | None:
     hs = [b.add("H") for _ in range(hydrogens.count)]
     x = b.add(centre.symbol)
     os_ = [b.add("O") for _ in range(oxygens.count)]
-    for o in os_:
-        b.bond(x, o)
-    for h, o in zip(hs, os_[len(os_) - len(hs):]):
-        b.bond(o, h)
-    return b
+    joined = all(b.bond(x, o) for o in os_) and all(b.bond(o, h) for h, o in zip(hs, os_[len(os_) - len(hs):]))
+    return b if joined else None
 
 
 # --- bond orders from valence -----------------------------------------------------------
@@ -528,6 +533,19 @@ def _solve(build: _Build, charge: int) -> _Solved | None:
         if full == best[0] and len(best[1]) < _MAX_RESONANCE:
             best[1].append((score[4], tuple(chosen), states))
 
+    # an atom whose last undecided bond is settled must have a valence it can take: checked there, the
+    # search stays near-linear on chains instead of trying every order of every bond
+    last_edge = {}
+    for k, (a, c) in enumerate(free):
+        last_edge[a] = k
+        last_edge[c] = k
+    settled: list[list[int]] = [[] for _ in free]
+    for atom, k in last_edge.items():
+        settled[k].append(atom)
+    allowed = [set(v) for v in by_valence]
+    if any(base[k] not in allowed[k] for k in range(len(symbols)) if k not in last_edge):
+        return None
+
     def assign(k: int) -> None:
         if k == len(free):
             finish()
@@ -539,7 +557,8 @@ def _solve(build: _Build, charge: int) -> _Solved | None:
             sums[a] += extra
             sums[c] += extra
             chosen[k] = 1 + extra
-            assign(k + 1)
+            if all(sums[atom] in allowed[atom] for atom in settled[k]):
+                assign(k + 1)
             sums[a] -= extra
             sums[c] -= extra
         chosen[k] = 1
@@ -555,6 +574,11 @@ def _solve(build: _Build, charge: int) -> _Solved | None:
     for k, edge in enumerate(free):
         orders[edge] = first_orders[k]
     return _Solved(best[0], orders, states, frozenset(varying | build.aromatic))
+
+
+@lru_cache(maxsize=256)
+def _most_bonds(symbol: str) -> int:
+    return max((state.valence for state in _states(symbol)), default=0)
 
 
 @lru_cache(maxsize=256)
