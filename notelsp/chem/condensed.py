@@ -6,7 +6,8 @@ like with the conventions chemists use:
 - the backbone is read left to right: each atom bonds to the backbone atom
   before it;
 - H and halogens written after an atom are its substituents; written before the
-  first atom (``HCOOH``, ``ClCH2CH2Cl``) they belong to that first atom;
+  first atom (``HCOOH``, ``ClCH2CH2Cl``) they belong to that first atom, except
+  a halogen followed by O2, O3, O4 (``ClO2-``, ``HClO4``), which carries them;
 - a parenthesised group is a branch on the atom before it, joined by its first
   atom (``CH3C(O)NH2``, ``NH2(COCH3)``); groups written first are branches of
   the first atom, joined by their last backbone atom (``(CH3)2CO``,
@@ -153,6 +154,12 @@ def _items(parts: tuple) -> list[_Item]:
         elif isinstance(part, Atom):
             kind = "sub" if part.symbol in SUBSTITUENTS else "heavy"
             items.append(_Item(kind, part.symbol, part.count))
+    for index, item in enumerate(items[:-1]):
+        following = items[index + 1]
+        if item.kind == "sub" and item.symbol in HALOGENS and item.count == 1 \
+                and following.kind == "heavy" and following.symbol == "O" and following.count >= 2:
+            # a halogen's oxo-acid or -anion (ClO2-, HClO4, BrO3-): the halogen carries the oxygens
+            items[index] = _Item("heavy", item.symbol, 1)
     if not any(item.kind in ("heavy", "group") for item in items):
         # only H and halogens (HF, ClF3, Br2): the first non-hydrogen atom is the backbone
         for index, item in enumerate(items):
@@ -735,6 +742,9 @@ def read_condensed(formula: Formula) -> CondensedReading:
     oxoacid = _oxoacid(items)
     if oxoacid is not None:
         candidates.append(oxoacid)
+        if items[1].symbol in HALOGENS:
+            # a halogen's oxoacid has every hydrogen on oxygen (HClO3 is HO-ClO2); nothing else to weigh
+            return _best_of(candidates, formula)
     try:
         for build, _, _ in _read_level(items, _Build(), None, None):
             candidates.append(build)
@@ -745,6 +755,11 @@ def read_condensed(formula: Formula) -> CondensedReading:
             return _unreadable(f"{formula.text}: {error}")
     except RecursionError:
         return _unreadable(f"{formula.text} is nested too deeply to read")
+    return _best_of(candidates, formula)
+
+
+def _best_of(candidates: list[_Build], formula: Formula) -> CondensedReading:
+    """The best-judged readings: one molecule, every equally good one, or why none works."""
     cheapest: dict[frozenset, _Build] = {}
     for build in candidates:
         key = frozenset(build.edges.items())
