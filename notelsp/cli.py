@@ -77,7 +77,7 @@ def _parser() -> argparse.ArgumentParser:
         action="store_true",
         help="also optimise each annotated species with a small quantum-chemistry calculation (needs notelsp[qc])",
     )
-    check.add_argument("--level", metavar="METHOD/BASIS", help="level of theory for --cross-check (default: see README)")
+    check.add_argument("--level", metavar="METHOD/BASIS", help="level of theory for --cross-check (default HF/6-31G*)")
     check.add_argument(
         "--rules-only",
         action="store_true",
@@ -700,7 +700,7 @@ def _explain(formula_text: str, output: str, out: TextIO) -> int:
         raise UsageError(f"cannot read the formula {shown!r}: {problem.error.message}") from None
     analysis = analyse(formula)
     if output == "json":
-        json.dump(analysis_to_dict(analysis), out, ensure_ascii=False, indent=2)
+        json.dump(analysis_to_dict(analysis, formula), out, ensure_ascii=False, indent=2)
         out.write("\n")
     else:
         out.write(species_markdown(analysis) + "\n")

@@ -42,6 +42,7 @@ def limits_note(result: CrossCheckResult) -> str:
     basis = {
         "STO-3G": "a minimal basis (one function per occupied atomic orbital), so angles and energy gaps are rough",
         "3-21G": "a small split-valence basis without polarisation functions, so hypervalent centres are described crudely",
+        "6-31G*": "a split-valence basis with d functions on the heavy atoms only, so hydrogen is described simply",
     }.get(level.basis, f"the {level.basis} basis")
     method = (
         "Hartree-Fock has no electron correlation (bonds come out slightly short, gaps can be off by several kJ/mol)"
@@ -103,8 +104,13 @@ def _angle_finding(result, annotation, claim: AngleClaim, isomer, tolerance: flo
     # a claim near 180 is compared with the largest angle, one below with the nearest
     nearest = min(values, key=lambda v: min(abs(v - claim.low), abs(v - claim.high)))
     miss = max(claim.low - nearest, nearest - claim.high, 0.0)
+    # a difference within the level's own stated error is agreement: the calculation cannot tell them apart
+    stated = result.level.angle_error_deg
+    tolerance = max(tolerance, stated or 0.0)
     agrees = miss <= tolerance
     verdict = f"agrees within {tolerance:g}°" if agrees else f"is {miss:.1f}° away"
+    if stated is not None:
+        verdict += f" (the level's stated angle error is {stated:g}°)"
     expected = rule_ranges(annotation, tuple(name.split("-"))) if name else ""
     rules = f" (rules expect {expected})" if expected else ""
     message = f"{_label(result)}: {name} {_range_text(values)}; the claimed {claimed} {verdict}{rules}"

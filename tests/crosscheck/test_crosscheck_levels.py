@@ -3,10 +3,11 @@ import pytest
 from notelsp.crosscheck.levels import DEFAULT_LEVEL, LevelOfTheory, parse_level
 
 
-def test_default_level_is_hartree_fock_in_a_small_basis():
-    assert DEFAULT_LEVEL == LevelOfTheory("HF", "3-21G")
-    assert DEFAULT_LEVEL.label == "HF/3-21G"
+def test_default_level_is_hartree_fock_with_polarisation_functions_and_a_stated_error():
+    assert DEFAULT_LEVEL == LevelOfTheory("HF", "6-31G*")
+    assert DEFAULT_LEVEL.label == "HF/6-31G*"
     assert DEFAULT_LEVEL.is_hartree_fock
+    assert DEFAULT_LEVEL.angle_error_deg is not None  # held against experiment in test_crosscheck_accuracy.py
 
 
 def test_level_text_is_case_insensitive():

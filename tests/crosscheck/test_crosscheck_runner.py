@@ -15,7 +15,7 @@ import pytest
 from ase.build import molecule
 
 from notelsp.crosscheck import runner
-from notelsp.crosscheck.levels import Limits, parse_level
+from notelsp.crosscheck.levels import DEFAULT_LEVEL, Limits, parse_level
 from notelsp.crosscheck.measure import angles_between, bond_angles
 from notelsp.crosscheck.runner import cross_check
 from notelsp.notation import parse_formula
@@ -73,7 +73,7 @@ def test_wall_time_bound_stops_the_worker():
     result = asyncio.run(cross_check(parse_formula("PF4Cl"), limits=Limits(wall_time_s=0.5)))
     assert result.status == "timeout"
     assert "wall-time bound 0 s" in result.message or "wall-time bound 1 s" in result.message
-    assert "PF4Cl" in result.message and "HF/3-21G" in result.message
+    assert "PF4Cl" in result.message and DEFAULT_LEVEL.label in result.message
 
 
 def test_cancelling_kills_the_worker(monkeypatch):

@@ -1,7 +1,7 @@
 """The cross-check through a real LSP client (pytest-lsp) against ``python -m notelsp serve``.
 
-Water at HF/3-21G (the default level, one worker, a few seconds): its H-O-H
-angle comes out near the 104.0 deg of ASE's G2 set (Curtiss et al., J. Chem.
+Water at the default level (HF/6-31G*, one worker, seconds to tens of seconds): its
+H-O-H angle comes out near the 104.0 deg of ASE's G2 set (Curtiss et al., J. Chem.
 Phys. 1997), so a claimed 120 deg disagrees and a claimed 104.5 deg agrees
 within the default 5 deg tolerance.  The review layer's own expectation for
 water (about 104.5 deg, VSEPR from memory) is not what is tested here.
@@ -146,7 +146,7 @@ async def test_action_runs_with_progress_and_its_findings_survive_the_next_revie
 
     answer = await execute(client, action)
     assert answer["status"] == "done", answer
-    assert "Cross-check of H2O (HF/3-21G)" in answer["markdown"]
+    assert "Cross-check of H2O (HF/6-31G*)" in answer["markdown"]
     assert any(f["code"] == "computed-angle" and f["severity"] == "warning" for f in answer["findings"])
 
     (reports,) = client.progress_reports.values()
@@ -157,7 +157,7 @@ async def test_action_runs_with_progress_and_its_findings_survive_the_next_revie
 
     computed = await wait_for(lambda: [d for d in client.diagnostics.get(uri, []) if d.code == "computed-angle"])
     assert computed[0].range == span_range(NOTE, WRONG_ANGLE) and computed[0].source == "notelsp"
-    assert computed[0].message.startswith("computed (HF/3-21G): H-O-H")
+    assert computed[0].message.startswith("computed (HF/6-31G*): H-O-H")
 
     # An edit elsewhere: the next review keeps the computed finding beside its own.
     added = "\nChlorine trifluoride {ClF3: trigonal planar}.\n"
