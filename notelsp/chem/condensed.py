@@ -16,7 +16,9 @@ like with the conventions chemists use:
 - ``HOOC``, ``HO2C``, ``OHC`` and ``O2N`` written first are read right to left,
   as the carboxyl, formyl or nitro group on the atom after them;
 - an atom written after a backbone atom continues the backbone, except that an
-  O or S may instead be a terminal atom on it (the O of ``CHO`` and ``COOH``);
+  O or S, or an N written with its hydrogens, may instead be a terminal atom on
+  it (the O of ``CHO`` and ``COOH``, the OH of ``CH3CHOHCH3``, the NH2 of
+  ``CH3CHNH2COOH``);
 - ``O2``/``S2`` after an atom are terminal atoms on it (``NO2``, ``CO2H``; the
   last may carry the rest, ``CO2CH3``); ``X2`` otherwise is two bonded atoms
   sharing the substituents written after them (``C2H5OH``, ``N2H4``);
@@ -28,8 +30,8 @@ like with the conventions chemists use:
   be the sum of the formal charges.
 
 Every way of reading the text under these conventions is built and judged by
-(unpaired electrons, carbocations, formal charges, departures from the default
-reading, expanded valences), fewest first; an unpaired electron is allowed only
+(unpaired electrons, carbocations, formal charges, expanded valences, departures
+from the default reading), fewest first; an unpaired electron is allowed only
 when the electron count is odd.  When more than one different molecule is best,
 the reading lists them all and asks for explicit bonds or SMILES; when none
 works, it says why.  Nothing here raises for bad input.
@@ -68,8 +70,9 @@ from .species import build_species
 
 SUBSTITUENTS = frozenset({"H", "F", "Cl", "Br", "I", "At"})  # written after an atom, they sit on it
 HALOGENS = frozenset({"F", "Cl", "Br", "I", "At"})
-# Written in a chain without parentheses, only O and S are read as terminal atoms (the O of CHO, COOH, COCl);
-# any other atom continues the backbone, as the text's order says (CNO- is C-N-O).
+# Written in a chain without parentheses, only O and S (and N written with its hydrogens, CH3CHNH2COOH) may
+# be terminal atoms (the O of CHO, COOH, COCl); any other atom continues the backbone, as the text's order
+# says (CNO- is C-N-O).
 TERMINAL_WITHOUT_PARENTHESES = frozenset({"O", "S", "Se"})
 MAX_ATOMS = 120  # beyond this a condensed formula is unreadable prose anyway; SMILES is the way
 MAX_CANDIDATES = 1024  # readings built before giving up (each is judged by its bond orders)
@@ -323,7 +326,9 @@ def _read_level(items: list[_Item], build: _Build, attach: int | None,
             if not nb.bond(lv.backbone, atom, lv.pending):
                 return
             yield from step(i + 1, nb, _Level(atom, atom, False, None, lv.held, lv.first))
-            if symbol not in TERMINAL_WITHOUT_PARENTHESES:
+            following = items[i + 1] if i + 1 < len(items) else None
+            carries_hydrogen = following is not None and following.kind == "sub" and following.symbol == "H"
+            if symbol not in TERMINAL_WITHOUT_PARENTHESES and not (symbol == "N" and carries_hydrogen):
                 return
             pendant = nb.copy()
             pendant.cost += 1
@@ -490,7 +495,7 @@ def _oxoacid(items: list[_Item]) -> _Build | None:
 
 @dataclass(frozen=True)
 class _Solved:
-    score: tuple[int, int, int, int, int]  # unpaired, sextets, formal charges, departures, expanded valences
+    score: tuple[int, int, int, int, int]  # unpaired, sextets, formal charges, expanded valences, departures
     orders: dict[tuple[int, int], int]
     states: tuple[_State, ...]
     delocalised: frozenset[tuple[int, int]]
@@ -534,7 +539,7 @@ def _solve(build: _Build, charge: int) -> _Solved | None:
         if picked is None:
             return
         score, states = picked
-        full = (score[0], score[1], score[2], build.cost, score[3])
+        full = (score[0], score[1], score[2], score[3], build.cost)
         if best[0] is None or full < best[0]:
             best[0], best[1] = full, []
         if full == best[0] and len(best[1]) < _MAX_RESONANCE:

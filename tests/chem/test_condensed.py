@@ -195,6 +195,13 @@ CONDENSED = [
     ("CH3CH2-O-CO-CH3", "CCOC(C)=O"),
     ("H2C=CH-CH=CH2", "C=CC=C"),
     ("CH3C(=O)OH", "CC(=O)O"),
+    ("CH2OHCH2OH", "OCCO"),
+    ("CH3CHOHCH3", "CC(C)O"),
+    ("CH3CHNH2COOH", "CC(N)C(=O)O"),
+    ("CH3CONHCH3", "CNC(C)=O"),
+    ("CH3COSH", "CC(=O)S"),
+    ("CH3CHBrCH2Br", "CC(Br)CBr"),
+    ("CH3OSO3H", "COS(=O)(=O)O"),
 ]
 
 
