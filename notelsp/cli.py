@@ -260,7 +260,7 @@ def _check(paths: Sequence[str], options: CheckOptions, out: TextIO) -> int:
         items.extend([None] if name == STDIN else found.named[name])
     notes = sum(item is not None for item in items)
     workers = 1 if options.output == "html" else _workers_for(notes)  # the page needs whole reviews
-    computed = _computed_for(items, options) if options.compute and not computing_switched_off() else {}
+    computed = _computed_for(items, options, settings) if options.compute and not computing_switched_off() else {}
     _computed.clear()
     _computed.update(computed)
     thresholds = gc.get_threshold()
@@ -385,8 +385,8 @@ def _review_note(note: Any, reported: Any) -> _Outcome:
             return [reported(cell) for cell in _notebook_reviews(str(note.path), text, note.settings)], None, True, ""
         except UsageError as problem:
             return [], str(problem), True, ""
-    return [reported(ReviewedFile(str(note.path), review_text(text, note.kind, note.settings, computed=_computed)))], \
-        None, False, ""
+    return [reported(ReviewedFile(str(note.path), review_text(text, note.kind, note.settings,
+                                                              computed=_computed_with(note.settings))))], None, False, ""
 
 
 def _review_stdin(options: CheckOptions, settings: Any, reported: Any) -> _Outcome:
@@ -404,7 +404,7 @@ def _review_stdin(options: CheckOptions, settings: Any, reported: Any) -> _Outco
         except UsageError as problem:
             return [], str(problem), True, ""
     return [reported(ReviewedFile(stdin_name, review_text(text, kind_of_path(stdin_name), settings,
-                                                          computed=_computed)))], None, False, ""
+                                                          computed=_computed_with(settings))))], None, False, ""
 
 
 def _review_notes_in_worker(notes: list, wants_cautions: bool, wants_annotation_texts: bool) -> list[_Outcome]:
@@ -580,8 +580,8 @@ def _notebook_reviews(path: str, text: str, settings: Any) -> list:
         raise UsageError(f"cannot read {path}: {problem}") from None
     if not cells:  # still listed in the report, with nothing found
         return [ReviewedFile(path, review_text("", "markdown", settings))]
-    return [ReviewedFile(path, review_text(cell.source, "markdown", settings, computed=_computed), cell.number)
-            for cell in cells]
+    return [ReviewedFile(path, review_text(cell.source, "markdown", settings, computed=_computed_with(settings)),
+                         cell.number) for cell in cells]
 
 
 # --- computed geometries ----------------------------------------------------
@@ -598,7 +598,12 @@ def computing_switched_off() -> bool:
     return os.environ.get(COMPUTE_VARIABLE, "").strip().lower() in ("off", "0", "false", "no")
 
 
-def _computed_for(items: list, options: CheckOptions) -> dict[str, Any]:
+def _computed_with(settings: Any) -> dict[str, Any]:
+    """The run's computed species for a note with these settings (none where its settings say compute = false)."""
+    return _computed if getattr(settings, "compute", True) else {}
+
+
+def _computed_for(items: list, options: CheckOptions, settings: Any) -> dict[str, Any]:
     """Every species the notes name, computed (from the disk cache where it can) over every core.
 
     Reading the notes twice (once here for their species, once to review them) keeps the review
@@ -613,6 +618,8 @@ def _computed_for(items: list, options: CheckOptions) -> dict[str, Any]:
     wanted: dict[str, None] = {}
     with contextlib.redirect_stderr(io.StringIO()):  # what reading a note says is printed when it is reviewed
         for item in items:
+            if not getattr(settings if item is None else item.settings, "compute", True):
+                continue  # its settings file says compute = false
             for text, kind in _texts_of(item, options):
                 wanted.update(dict.fromkeys(species_to_compute(scan(text, kind))))
     if not wanted:

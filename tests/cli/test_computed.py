@@ -110,3 +110,11 @@ def test_review_workers_get_the_computed_results(note, tmp_path, monkeypatch):
     assert alone.returncode == pooled.returncode == 0, alone.stderr + pooled.stderr
     assert pooled.stdout == alone.stdout
     assert pooled.stdout.count("[angle-against-calculation]") == 2
+
+
+def test_a_settings_file_saying_compute_false_keeps_its_notes_rules_only(note, tmp_path):
+    (tmp_path / ".notelsp.toml").write_text("[review]\ncompute = false\n", encoding="utf-8")
+    done = _run(str(note), cache=tmp_path / "cache")
+    assert done.returncode == 0, done.stderr
+    assert "against-calculation" not in done.stdout and "no findings" in done.stdout
+    assert not any((tmp_path / "cache").rglob("computed"))
