@@ -22,7 +22,9 @@ like with the conventions chemists use:
 - ``O2``/``S2`` after an atom are terminal atoms on it (``NO2``, ``CO2H``; the
   last may carry the rest, ``CO2CH3``); ``X2`` otherwise is two bonded atoms
   sharing the substituents written after them (``C2H5OH``, ``N2H4``);
-  ``C6H5`` is phenyl and ``C6H6`` benzene; longer runs (``C3H7``) are not read;
+  ``C6H5`` is phenyl, ``C6H6`` benzene, and ``C6H4`` between two groups a
+  benzene ring whose ortho, meta and para readings are all listed; longer runs
+  (``C3H7``) are not read;
 - written bonds (``=``, ``≡``, ``#``: ``BondMark`` parts) are kept; every other
   bond order is completed from valence: octets, with expanded valences of
   period-3 and heavier atoms allowed, and formal charges where no neutral
@@ -397,29 +399,40 @@ def _read_level(items: list[_Item], build: _Build, attach: int | None,
             yield from step(j, split, _Level(z, z, False, None, (), first))
 
     def ring(i: int, b: _Build, lv: _Level) -> Iterator[tuple[_Build, int, int]]:
+        """C6H6 benzene, C6H5 phenyl, and C6H4 between two groups (ortho, meta or para: each a reading)."""
         following = items[i + 1] if i + 1 < len(items) else None
         hydrogens = following.count if following is not None and following.kind == "sub" and following.symbol == "H" else 0
-        if hydrogens not in (5, 6):
-            raise _Unreadable("C6 is read only as phenyl (C6H5) or benzene (C6H6): "
-                              "for other rings or chains give SMILES")
-        nb = b.copy()
-        ring_atoms = [nb.add("C") for _ in range(6)]
-        for k in range(6):
-            a, c = ring_atoms[k], ring_atoms[(k + 1) % 6]
-            nb.bond(a, c, 2 if k % 2 == 0 else 1)
-            nb.aromatic.add((min(a, c), max(a, c)))
-        ipso = ring_atoms[0]
-        for k in range(6 - hydrogens, 6):
-            nb.bond(ring_atoms[k], nb.add("H"))
-        if lv.backbone is None:
-            level = place_first(nb, ipso, lv)
-            if level is None:
-                return
-        else:
-            if not nb.bond(lv.backbone, ipso, lv.pending):
-                return
-            level = _Level(ipso, ipso, False, None, lv.held, lv.first)
-        yield from step(i + 2, nb, level)
+        joined_before = lv.backbone is not None or bool(lv.held) or attach is not None
+        between = hydrogens == 4 and joined_before and i + 2 < len(items)
+        if hydrogens not in (5, 6) and not between:
+            raise _Unreadable("C6 is read as phenyl (C6H5), benzene (C6H6) or a benzene ring between two groups "
+                              "(CH3C6H4CH3): for other rings or chains give SMILES")
+        for exit_place in (1, 2, 3) if between else (0,):  # ortho, meta, para
+            nb = b.copy()
+            ring_atoms = [nb.add("C") for _ in range(6)]
+            for k in range(6):
+                a, c = ring_atoms[k], ring_atoms[(k + 1) % 6]
+                nb.bond(a, c, 2 if k % 2 == 0 else 1)
+                nb.aromatic.add((min(a, c), max(a, c)))
+            ipso = ring_atoms[0]
+            if between:
+                bearing_h = [ring_atoms[k] for k in range(6) if k not in (0, exit_place)]
+            else:
+                bearing_h = ring_atoms[6 - hydrogens:]  # phenyl: all but the ring atom that joins
+            for atom in bearing_h:
+                nb.bond(atom, nb.add("H"))
+            if lv.backbone is None:
+                level = place_first(nb, ipso, lv)
+                if level is None:
+                    continue
+            else:
+                if not nb.bond(lv.backbone, ipso, lv.pending):
+                    continue
+                level = _Level(ipso, ipso, False, None, lv.held, lv.first)
+            if between:
+                exit_atom = ring_atoms[exit_place]
+                level = _Level(exit_atom, exit_atom, False, None, level.held, level.first)
+            yield from step(i + 2, nb, level)
 
     start, level = _written_backwards(items, build)
     yield from step(start, build, level)

@@ -314,6 +314,9 @@ AMBIGUOUS = [
     ("C2H2Cl2", {"ClC=CCl", "C=C(Cl)Cl"}),
     ("C2H3F3", {"CC(F)(F)F", "FCC(F)F"}),
     ("C2H4Br2", {"BrCCBr", "CC(Br)Br"}),
+    ("CH3C6H4CH3", {"Cc1ccccc1C", "Cc1cccc(C)c1", "Cc1ccc(C)cc1"}),
+    ("ClC6H4Cl", {"Clc1ccccc1Cl", "Clc1cccc(Cl)c1", "Clc1ccc(Cl)cc1"}),
+    ("HOOCC6H4COOH", {"OC(=O)c1ccccc1C(=O)O", "OC(=O)c1cccc(C(=O)O)c1", "OC(=O)c1ccc(C(=O)O)cc1"}),
 ]
 
 
