@@ -33,6 +33,9 @@ def centre_model(molecule: Molecule, index: int) -> CentreModel:
                        conjugation=conjugation(molecule, index), unpaired=atom.unpaired)
 
 
+_PERIOD_TWO = frozenset({"B", "C", "N", "O"})
+
+
 def conjugation(molecule: Molecule, index: int) -> Conjugation | None:
     """The π system a lone pair on this N, O or S centre conjugates with, or None."""
     atom = molecule.atoms[index]
@@ -68,6 +71,10 @@ def _pi_partner(molecule: Molecule, centre: int, neighbour: int):
         return None
     best = None
     near = molecule.atoms[neighbour]
+    if near.element not in _PERIOD_TWO:
+        # S=O, P=O in a Lewis structure are polar σ bonds more than π bonds: no π system for a lone pair
+        # (sulfuric and phosphoric acids' OH oxygens stay sp3, H-O-S about 108°; common practice, no source)
+        return None
     for other, order in molecule.bonds_of(neighbour):
         if other == centre:
             continue

@@ -27,10 +27,10 @@ def _angles(values: Any) -> str:
     return ", ".join(f"{value:g}°" for value in values)
 
 
-def centre_markdown(centre: Any) -> str:
-    """A compact description of one centre."""
+def centre_markdown(centre: Any, name: str | None = None) -> str:
+    """A compact description of one centre (``name``: how the heading names it, e.g. "C2, bonded to C1, O1")."""
     lines = [
-        f"**Centre {centre.central}** — {centre.valence_electrons} valence electrons, "
+        f"**Centre {name or centre.central}** — {centre.valence_electrons} valence electrons, "
         f"steric number {centre.steric_number} ({centre.bonded_atoms} bonded, "
         f"{centre.lone_pairs} lone pair{'s' if centre.lone_pairs != 1 else ''}"
         + (f", {centre.odd_electrons} odd electron" if getattr(centre, "odd_electrons", 0) else "")
@@ -77,26 +77,60 @@ def _summary(value: Any) -> str:
     return str(value) if value else ""
 
 
-def species_markdown(analysis: Any) -> str:
-    """Everything the analyser says about one species."""
+def species_markdown(analysis: Any, first: str | None = None) -> str:
+    """Everything the analyser says about one species (``first``: the atom to describe first, by name)."""
     parts = [f"### {analysis.formula}" + (f" (charge {analysis.charge:+d})" if analysis.charge else "")]
     if analysis.outside_model:
         parts.append(f"Outside the model: {analysis.outside_model}")
-    # Symmetric two-centre molecules (N2H4, C2F6) have equal centres: describe each kind once.
-    described: dict[str, int] = {}
-    for centre in analysis.centres:
-        text = centre_markdown(centre)
-        described[text] = described.get(text, 0) + 1
-    for text, count in described.items():
-        parts.append(text if count == 1 else f"{text}\n\n(the same for each of the {count} equivalent centres)")
+    whole = getattr(analysis, "molecule", None)
+    if whole is not None:
+        parts.append(_molecule_line(whole))
+        parts.extend(_molecule_centres(whole, first))
+    else:
+        # Symmetric two-centre molecules (N2H4, C2F6) have equal centres: describe each kind once.
+        described: dict[str, int] = {}
+        for centre in analysis.centres:
+            text = centre_markdown(centre)
+            described[text] = described.get(text, 0) + 1
+        for text, count in described.items():
+            parts.append(text if count == 1 else f"{text}\n\n(the same for each of the {count} equivalent centres)")
     if analysis.cautions:
         parts.append("\n".join(f"> ⚠ {c}" for c in analysis.cautions))
     return "\n\n".join(parts)
 
 
+_BOND_MARK = {1: "-", 2: "=", 3: "≡"}
+
+
+def _molecule_line(whole: Any) -> str:
+    """The molecule's atoms by name and its bonds, as claims name them."""
+    atoms = whole.molecule.atoms
+    bonds = ", ".join(f"{atoms[b.first].label}{_BOND_MARK.get(b.order, '-')}{atoms[b.second].label}"
+                      + (" (delocalised)" if b.delocalised else "")
+                      for b in whole.molecule.bonds if "H" not in (atoms[b.first].element, atoms[b.second].element))
+    names = " ".join(a.label + (f"({a.charge:+d})" if a.charge else "") for a in atoms)
+    return f"Atoms: {names}" + (f"  \nBonds between heavy atoms: {bonds}" if bonds else "")
+
+
+def _molecule_centres(whole: Any, first: str | None) -> list[str]:
+    """Each centre of a molecule, the named one first; alike centres (a ring's CH) described once."""
+    centres = sorted(whole.centres, key=lambda c: c.label != first)
+    blocks: dict[str, list[str]] = {}
+    for centre in centres:
+        if centre.analysis is None:
+            blocks.setdefault(f"**Centre {centre.label}**: outside the model: {centre.outside_model}", [])
+            continue
+        body = centre_markdown(centre.analysis, "\0")
+        blocks.setdefault(body, []).append(f"{centre.label} (bonded to {', '.join(centre.neighbours)})")
+    return [body.replace("\0", "; ".join(names)) if names else body for body, names in blocks.items()]
+
+
 def hover_markdown(review: DocumentReview, annotation: Annotation, offset: int) -> str:
-    """Hover text for a position inside an annotation."""
-    parts = [species_markdown(a) for a in review.analyses_of(annotation)]
+    """Hover text for a position inside an annotation (a centre named by a claim there comes first)."""
+    claim = next((c for c in annotation.claims if c.span.start <= offset <= c.span.end
+                  or (c.atom_span is not None and c.atom_span.start <= offset <= c.atom_span.end)), None)
+    named = claim.atom if claim is not None else None
+    parts = [species_markdown(a, named) for a in review.analyses_of(annotation)]
     findings = review.findings_in(annotation.span)
     if findings:
         parts.append("---")
