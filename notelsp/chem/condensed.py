@@ -79,7 +79,7 @@ TERMINAL_WITHOUT_PARENTHESES = frozenset({"O", "S", "Se"})
 MAX_ATOMS = 120  # beyond this a condensed formula is unreadable prose anyway; SMILES is the way
 MAX_CANDIDATES = 1024  # readings built before giving up (each is judged by its bond orders)
 _MAX_RESONANCE = 64  # equally good bond-order assignments kept to find delocalised bonds
-_SUGGESTION = "write the bonds (e.g. CH2=CH2) or give the molecule as SMILES"
+_SUGGESTION = 'write the bonds (e.g. CH2=CHCl) or give the molecule as SMILES (smiles "C=CCl")'
 
 
 @dataclass(frozen=True)
@@ -807,9 +807,10 @@ def _best_of(candidates: list[_Build], formula: Formula) -> CondensedReading:
     readings = tuple(distinct.values())
     if len(readings) == 1:
         return CondensedReading(molecule=readings[0])
-    listed = ", ".join(molecule_smiles(m) for m in readings)
+    listed = " or ".join(f'smiles "{molecule_smiles(m)}"' for m in readings)
     return CondensedReading(readings=readings, reason=(
-        f"{formula.text} can be read {len(readings)} ways ({listed} as SMILES): {_SUGGESTION}"))
+        f"{formula.text} can be read {len(readings)} ways: {listed}; write the one meant as SMILES "
+        f"or write its bonds (e.g. CH2=CHCl)"))
 
 
 def _top_level(parts: tuple) -> list:
