@@ -7,6 +7,8 @@ brace groups — the floor any scanner has to pay.  scan_ratio_first_check: the
 same with every result cache emptied.
 explain_us: mean time of one uncached analysis of a seven-domain mixed-ligand
 species, isomer enumeration included.
+molecule_us: reading a 33-atom molecule from SMILES and analysing every centre (no 3D work),
+median of repeated uncached runs.
 edit_check_ms_p50: re-check of the note after a one-line edit in its middle,
 every edit a new text (analysis only: the incremental path, no server).
 """
@@ -104,6 +106,21 @@ def explain_us() -> float:
     return statistics.mean(samples) * 1e6
 
 
+def molecule_us(repeats: int = 30) -> float:
+    from notelsp.chem.molecule_analysis import analyse_molecule
+    from notelsp.chem.smiles import read_smiles
+
+    smiles = "CC(C)Cc1ccc(cc1)C(C)C(=O)O"  # 13 heavy atoms and 18 hydrogens: 33 atoms, 15 centres
+    read_smiles(smiles)  # RDKit's import is start-up, not reading
+    samples = []
+    for _ in range(repeats):
+        start = time.perf_counter()
+        whole = analyse_molecule(read_smiles(smiles))
+        samples.append(time.perf_counter() - start)
+    assert len(whole.molecule.atoms) == 33 and whole.outside_model is None
+    return statistics.median(samples) * 1e6
+
+
 def main() -> None:
     from notelsp.notation import scan
 
@@ -116,6 +133,7 @@ def main() -> None:
         print(f"{name}: {value}")
     print(f"edit_check_ms_p50: {edit_check_ms_p50(text):.1f}")
     print(f"explain_us: {explain_us():.0f}")
+    print(f"molecule_us: {molecule_us():.0f}")
 
 
 if __name__ == "__main__":
