@@ -45,9 +45,9 @@ A formula is read here instead when
 
 1. it writes a bond (``=``, ``≡``, ``#``); or
 2. a hydrogen written after the first non-hydrogen atom is followed by another
-   non-hydrogen, non-halogen atom or a group (CH3OH, NH2OH, CH3CN, C6H5NH2):
-   the hydrogens then sit on the atom before them, so the order is the
-   connectivity; or
+   non-hydrogen, non-halogen atom or a group (CH3OH, NH2OH, CH3CN, C6H5NH2),
+   or a hydrogen is written after a later such atom (HCO2H): the hydrogens
+   then sit on the atom before them, so the order is the connectivity; or
 3. a non-hydrogen element is written at two separate places, groups included
    (HCOOCH3, CH3OCH3, (CH3)2CO, HC(O)OH); or
 4. three or more non-hydrogen, non-halogen atoms are written one after another,
@@ -828,16 +828,19 @@ def is_condensed(formula: Formula) -> bool:
     if _has_bond(formula.parts):
         return True
     parts = _top_level(formula.parts)
-    # 2. hydrogens after the first non-hydrogen atom, followed by another backbone atom or a group
-    seen_heavy = False
+    # 2. hydrogens after the first non-hydrogen atom, followed by another backbone atom or a group, or
+    #    hydrogens after any later one (HCO2H)
+    heavy_seen = 0
     hydrogen_after = False
     for part in parts:
         if isinstance(part, Atom) and part.symbol == "H":
-            hydrogen_after = hydrogen_after or seen_heavy
+            if heavy_seen >= 2:
+                return True
+            hydrogen_after = hydrogen_after or heavy_seen > 0
         elif isinstance(part, Group) or part.symbol not in HALOGENS:
             if hydrogen_after:
                 return True
-            seen_heavy = True
+            heavy_seen += 1
     # 3. an element written at two separate places (COOH's OO, two atoms side by side, is one place)
     places = [(part, {part.symbol} if isinstance(part, Atom) else set(_all_symbols(part.parts)) - {"H"})
               for part in parts if isinstance(part, Group) or part.symbol != "H"]

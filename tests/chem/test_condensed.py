@@ -179,6 +179,7 @@ CONDENSED = [
     ("CH3NC", "C[N+]#[C-]"),
     ("OCS", "O=C=S"),
     ("HCOOH", "OC=O"),
+    ("HCO2H", "OC=O"),
     ("H2CO", "C=O"),
     ("H2CO3", "OC(=O)O"),
     ("HNO3", "O=[N+]([O-])O"),
@@ -367,7 +368,7 @@ def test_reading_never_raises_on_odd_formulas():
     "text",
     ["CH3COOH", "CH3CO2H", "CH3CH2OH", "CH3OCH3", "(CH3)2CO", "CH3CHO", "CH3CN", "CH3NO2", "HCOOCH3", "NH2OH",
      "HNO2", "HNCO", "CF3CH2OH", "CH3C(O)NH2", "C6H5NH2", "CH2=CHCl", "HC≡CH", "HC(O)OH", "NH2(COCH3)", "CNO-",
-     "C6H6", "HOCN", "OCS", "CH3OH"],
+     "C6H6", "HOCN", "OCS", "CH3OH", "HCO2H", "HClO"],
 )
 def test_condensed_structures_are_dispatched_here(text):
     assert is_condensed(formula_of(text))
