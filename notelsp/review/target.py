@@ -28,7 +28,9 @@ from ..notation.model import (
     BondLengthValueClaim,
     Claim,
     CouplingClaim,
+    HybridizationClaim,
     IsomerCountClaim,
+    LonePairClaim,
     MagnetismClaim,
     PointGroupClaim,
     PolarityClaim,
@@ -36,7 +38,8 @@ from ..notation.model import (
 )
 from .predictions import written_shape
 
-TARGET_RULES = frozenset({"unknown-atom", "centre-not-named"})  # the rules that report a claim with no centre
+TARGET_RULES = frozenset({"unknown-atom", "centre-not-named", "terminal-atom"})  # the rules that report a claim with no centre
+TERMINAL_CLAIMS = (LonePairClaim, HybridizationClaim)
 WHOLE_MOLECULE = (PolarityClaim, PointGroupClaim, IsomerCountClaim, MagnetismClaim, UnpairedElectronClaim)
 
 
@@ -48,6 +51,7 @@ class Focus:
     unknown: bool = False  # the problem is a name that matches no atom (not several alike candidates)
     suggestion: str | None = None  # the name the writer probably meant, where one is clear
     translated: bool = False  # atom names in the claim were rewritten for the rules
+    terminal: int | None = None  # a lone-pair or hybridization claim about this terminal atom (molecule index)
 
 
 def focus(analyses: tuple[Any, ...], claim: Claim | None) -> Focus:
@@ -64,6 +68,11 @@ def focus(analyses: tuple[Any, ...], claim: Claim | None) -> Focus:
         return _formula_focus(analysis, claim, name, unchanged)
     found = _resolve(analysis, molecule, name, others)
     if isinstance(found, Focus):
+        if found.unknown and name is not None and isinstance(claim, TERMINAL_CLAIMS):
+            index = molecule.molecule.index_of(name)
+            if index is not None and index in molecule.molecule.terminals:
+                # a terminal atom has lone pairs and, by convention, a hybridization: the terminal-atom rule judges them
+                return Focus(analyses, claim, f"{name} is a terminal atom", terminal=index)
         return found
     if isinstance(claim, AngleOrderClaim) and claim.right[1] != claim.left[1]:
         other = _resolve(analysis, molecule, claim.right[1], others[2:])

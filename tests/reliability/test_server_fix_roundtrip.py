@@ -36,6 +36,7 @@ FIXABLE_NOTES = {
     "charge-missing": "{ClO4}",
     "annotation-not-read": "{sf4: seesaw}",
     "unknown-atom": "{CH3OH: O1 bent}",
+    "terminal-atom": '{smiles "CC#N": N has 2 lone pairs}',
 }
 # Put each note in a line of prose with a wide character before it, so the edit's columns matter.
 PROSE = "Line one.\r\nWe write \N{TEST TUBE} {note} in the log; ok\r\n"

@@ -29,7 +29,7 @@ note = "{ClF3: trigonal planar}"  # code is never read
 Fluorides: {PCl3F2: F equatorial, 2 isomers}, {SF2Cl2: nonpolar}, {SF4: D2d}, {H2O: H-O-H 104°, sp^2.5}.
 Bent's rule: {CH2F2: F-C-F > H-C-H} and {CF4 vs CH3F: C-F longer}.
 Counting: {ClF3: AX3E}, {NO2: diamagnetic} and a salt of {ClO4}; lower case: {sf4: seesaw}.
-Atoms by name: {NH3: H1 is sp3} and {CH3OH: O1 bent}.
+Atoms by name: {NH3: H1 is sp3}, {CH3OH: O1 bent} and {smiles "CC#N": N has 2 lone pairs}.
 
 ```bonding
 XeF4: tetrahedral   # from a hand sketch
@@ -44,6 +44,7 @@ FIXABLE = {
     "index-angle-mismatch", "s-character-mismatch",
     "misplaced-ligand", "wrong-polarity", "wrong-point-group", "wrong-isomer-count",
     "wrong-axe-class", "wrong-unpaired-electrons", "charge-missing", "annotation-not-read", "unknown-atom",
+    "terminal-atom",
 }
 # no correct replacement exists for these: the writer must say what was meant
 WITHOUT_FIXES = {"malformed-formula", "malformed-claim", "impossible-count", "formula-too-large", "outside-model",

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from collections.abc import Iterator
 
-from ...notation.model import Claim
+from ...notation.model import Claim, HybridizationClaim, LonePairClaim
 from ..findings import Finding, Fix, Severity
 from ..target import focus
 from . import RuleContext, rule
@@ -26,7 +26,7 @@ def unknown_atom(context: RuleContext) -> Iterator[Finding]:
     fix writes the one atom the name can mean, where there is one.
     """
     found = focus(context.analyses, context.claim)
-    if found.problem is None or not found.unknown:
+    if found.problem is None or not found.unknown or found.terminal is not None:
         return
     claim = context.claim
     span = (claim.atom_span if claim is not None and claim.atom_span is not None else None)
@@ -46,5 +46,47 @@ def centre_not_named(context: RuleContext) -> Iterator[Finding]:
     109°``) and it is.
     """
     found = focus(context.analyses, context.claim)
-    if found.problem is not None and not found.unknown:
+    if found.problem is not None and not found.unknown and found.terminal is None:
         yield context.finding(found.problem)
+
+
+_HYBRID_BY_DOMAINS = {2: "sp", 3: "sp2", 4: "sp3"}
+
+
+@rule("terminal-atom", severity=Severity.WARNING, claims=(LonePairClaim, HybridizationClaim))
+def terminal_atom(context: RuleContext) -> Iterator[Finding]:
+    """A claim about a terminal atom's lone pairs or hybridization differs from its electron count.
+
+    A terminal atom (bonded to one other) keeps the valence electrons its bond
+    and charge leave: the N of a nitrile one lone pair, a carbonyl O two.  Its
+    hybridization is a convention, read from its domains (the bond and its lone
+    pairs: carbonyl O three, sp2; nitrile N two, sp); because the convention is
+    not universal (a terminal halogen is often called unhybridized), a
+    different label is only information.
+    """
+    found = focus(context.analyses, context.claim)
+    if found.terminal is None:
+        return
+    claim = context.claim
+    molecule = context.analysis.molecule.molecule
+    atom = molecule.atoms[found.terminal]
+    nonbonding = molecule.nonbonding_electrons(found.terminal)
+    if nonbonding is None:
+        return
+    lone_pairs = max(0, nonbonding - atom.unpaired) // 2
+    where = f"{context.analysis.formula} ({atom.label}, terminal)"
+    if isinstance(claim, LonePairClaim):
+        if claim.count != lone_pairs:
+            plural = "s" if lone_pairs != 1 else ""
+            yield context.finding(
+                f"{where} is claimed to have {claim.count} lone pair{'s' if claim.count != 1 else ''}; its "
+                f"electron count leaves {lone_pairs} lone pair{plural}",
+                fixes=[context.replace_claim(f"{lone_pairs} lone pair{plural}")])
+        return
+    domains = 1 + lone_pairs + (1 if atom.unpaired else 0)
+    label = _HYBRID_BY_DOMAINS.get(domains)
+    if label is not None and claim.label is not None and claim.label != label:
+        yield context.finding(
+            f"{where} is claimed {claim.label}; by its {domains} domains (one bond, {lone_pairs} lone "
+            f"pair{'s' if lone_pairs != 1 else ''}) the usual label is {label}, a convention for terminal atoms",
+            at_most=Severity.INFORMATION)
