@@ -66,7 +66,7 @@ from functools import lru_cache
 from typing import Iterator
 
 from .. import elements
-from ..notation.model import Atom, BondMark, Formula, Group
+from ..notation.model import Atom, BondMark, Formula, Group, Span
 from .molecule import Molecule, MoleculeAtom, MoleculeBond, label_atoms
 from .species import build_species
 
@@ -750,6 +750,39 @@ def read_condensed(formula: Formula) -> CondensedReading:
         return _unreadable("given as SMILES, not as a condensed formula")
     if not formula.parts:
         return _unreadable("nothing written")
+    return _read_cached(_written(formula.parts), formula.charge, formula.text)
+
+
+def _written(parts: tuple) -> tuple:
+    """The parts without their positions: what the reading depends on (a species moved in a note reads the same)."""
+    out = []
+    for part in parts:
+        if isinstance(part, Atom):
+            out.append(("atom", part.symbol, part.count))
+        elif isinstance(part, Group):
+            out.append(("group", _written(part.parts), part.count))
+        else:
+            out.append(("bond", part.order))
+    return tuple(out)
+
+
+def _unwritten(written: tuple) -> tuple:
+    """Parts again from ``_written`` (positions are not read here, so all are zero)."""
+    nowhere = Span(0, 0)
+    parts = []
+    for entry in written:
+        if entry[0] == "atom":
+            parts.append(Atom(entry[1], entry[2], nowhere))
+        elif entry[0] == "group":
+            parts.append(Group(_unwritten(entry[1]), entry[2], nowhere))
+        else:
+            parts.append(BondMark(entry[1], nowhere))
+    return tuple(parts)
+
+
+@lru_cache(maxsize=2048)
+def _read_cached(written: tuple, charge: int, text: str) -> CondensedReading:
+    formula = Formula(text, _unwritten(written), charge, Span(0, len(text)))
     for symbol in _all_symbols(formula.parts):
         if not elements.is_symbol(symbol):
             return _unreadable(f"unknown element {symbol}")
