@@ -56,6 +56,20 @@ class Focus:
 
 def focus(analyses: tuple[Any, ...], claim: Claim | None) -> Focus:
     """The analyses and claim the rules should judge, or the problem that stops them."""
+    found = _focus(analyses, claim)
+    if found.problem is None and not found.translated and _writes_bond_orders(claim):
+        # the rules write angles and bonds with single dashes: a fix would drop the writer's = and ≡
+        return dataclasses.replace(found, translated=True)
+    return found
+
+
+def _writes_bond_orders(claim: Claim | None) -> bool:
+    orders = (*getattr(claim, "orders", ()), *getattr(claim, "left_orders", ()), *getattr(claim, "right_orders", ()),
+              getattr(claim, "order", 1))
+    return any(order != 1 for order in orders)
+
+
+def _focus(analyses: tuple[Any, ...], claim: Claim | None) -> Focus:
     unchanged = Focus(analyses, claim)
     if claim is None or len(analyses) != 1 or isinstance(claim, WHOLE_MOLECULE):
         return unchanged
