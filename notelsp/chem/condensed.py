@@ -846,10 +846,6 @@ def _best_of(candidates: list[_Build], formula: Formula) -> CondensedReading:
         f"or write its bonds (e.g. CH2=CHCl)"))
 
 
-def _top_level(parts: tuple) -> list:
-    return [p for p in parts if not isinstance(p, BondMark)]
-
-
 def _has_bond(parts: tuple) -> bool:
     return any(isinstance(p, BondMark) or (isinstance(p, Group) and _has_bond(p.parts)) for p in parts)
 
@@ -860,7 +856,7 @@ def is_condensed(formula: Formula) -> bool:
         return False
     if _has_bond(formula.parts):
         return True
-    parts = _top_level(formula.parts)
+    parts = formula.parts  # no written bonds from here on
     # 2. hydrogens after the first non-hydrogen atom, followed by another backbone atom or a group, or
     #    hydrogens after any later one (HCO2H)
     heavy_seen = 0
@@ -917,5 +913,5 @@ def _hydrogen_moves_to_oxygen(formula: Formula) -> bool:
     if reading.molecule is None:
         return False
     molecule = reading.molecule
-    centre = next(k for k, atom in enumerate(molecule.atoms) if atom.element not in ("H", "O"))
-    return all(molecule.atoms[n].element != "H" for n in molecule.neighbours(centre))
+    centre = next((k for k, atom in enumerate(molecule.atoms) if atom.element not in ("H", "O")), None)
+    return centre is not None and all(molecule.atoms[n].element != "H" for n in molecule.neighbours(centre))

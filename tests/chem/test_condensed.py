@@ -358,9 +358,11 @@ def test_unreadable_text_gives_a_reason(formula, words):
 
 
 def test_reading_never_raises_on_odd_formulas():
-    odd = [_with_bonds(text, 0) for text in ("((CH3))", "C(=O)", "()", "C#", "H", "H2", "F2", "ClF3", "CH3(CH2)0CH3")]
+    odd = [_with_bonds(text, 0) for text in ("((CH3))", "C(=O)", "()", "C#", "H", "H2", "F2", "ClF3", "CH3(CH2)0CH3",
+                                             "HOO", "HO2", "H2OO", "HFO2", "HHe", "OO")]
     for formula in odd:
         assert isinstance(read_condensed(formula), CondensedReading)
+        assert is_condensed(formula) in (True, False)
 
 
 # Which formulas leave the single-centre model (the rule is in the module docstring).
@@ -368,7 +370,7 @@ def test_reading_never_raises_on_odd_formulas():
     "text",
     ["CH3COOH", "CH3CO2H", "CH3CH2OH", "CH3OCH3", "(CH3)2CO", "CH3CHO", "CH3CN", "CH3NO2", "HCOOCH3", "NH2OH",
      "HNO2", "HNCO", "CF3CH2OH", "CH3C(O)NH2", "C6H5NH2", "CH2=CHCl", "HC≡CH", "HC(O)OH", "NH2(COCH3)", "CNO-",
-     "C6H6", "HOCN", "OCS", "CH3OH", "HCO2H", "HClO"],
+     "C6H6", "HOCN", "OCS", "CH3OH", "HCO2H", "HClO", "C(CH2)2", "CH3C6H4CH3"],
 )
 def test_condensed_structures_are_dispatched_here(text):
     assert is_condensed(formula_of(text))
@@ -405,6 +407,7 @@ def test_every_reading_of_generated_texts_is_a_closed_valence_structure():
             formula = parse_formula(text)
         except Exception:
             continue  # the notation refuses it: nothing reaches the reader
+        assert is_condensed(formula) in (True, False)
         reading = read_condensed(formula)
         assert isinstance(reading, CondensedReading)
         for molecule in (reading.molecule,) if reading.molecule else reading.readings:
