@@ -334,7 +334,9 @@ class _ForceField:
     @classmethod
     def for_molecule(cls, mol, helpers) -> _ForceField | None:
         if helpers.MMFFHasAllMoleculeParams(mol):
-            return cls(helpers, helpers.MMFFGetMoleculeProperties(mol))
+            properties = helpers.MMFFGetMoleculeProperties(mol)
+            if not _radical_typed_linear(mol, properties):
+                return cls(helpers, properties)
         if helpers.UFFHasAllMoleculeParams(mol):
             return cls(helpers, None)
         return None
@@ -353,6 +355,25 @@ class _ForceField:
         field.Initialize()
         field.Minimize(maxIts=FORCE_FIELD_STEPS)
         return float(self._field(mol, cid).CalcEnergy())
+
+
+# MMFF94 atom types of linear (sp) carbon and nitrogen
+_MMFF_LINEAR_TYPES = frozenset({4, 42})
+
+
+def _radical_typed_linear(mol, properties) -> bool:
+    """Whether MMFF94 types a bent radical atom as linear.
+
+    MMFF has no radical types: the vinyl radical's CH and the acetyl
+    radical's C=O carbon (two neighbours, one double bond, an odd electron)
+    get the sp type and come out linear, where they are bent (three domains).
+    UFF follows RDKit's hybridization, which counts the odd electron.
+    """
+    for atom in mol.GetAtoms():
+        if (atom.GetNumRadicalElectrons() and properties.GetMMFFAtomType(atom.GetIdx()) in _MMFF_LINEAR_TYPES
+                and str(atom.GetHybridization()) != "SP"):
+            return True
+    return False
 
 
 def _rotor_settings(mol, start: int, Chem) -> list[tuple[int, tuple[tuple[int, int, int, int, float], ...]]]:  # noqa: N803
