@@ -80,7 +80,8 @@ def _focus(analyses: tuple[Any, ...], claim: Claim | None) -> Focus:
     molecule = getattr(analysis, "molecule", None)
     if molecule is None:
         return _formula_focus(analysis, claim, name, unchanged)
-    found = _resolve(analysis, molecule, name, others)
+    two_centres = isinstance(claim, AngleOrderClaim) and claim.right[1] != claim.left[1]
+    found = _resolve(analysis, molecule, name, others[:2] if two_centres else others)
     if isinstance(found, Focus):
         if found.unknown and name is not None and isinstance(claim, TERMINAL_CLAIMS):
             index = molecule.molecule.index_of(name)
@@ -88,7 +89,7 @@ def _focus(analyses: tuple[Any, ...], claim: Claim | None) -> Focus:
                 # a terminal atom has lone pairs and, by convention, a hybridization: the terminal-atom rule judges them
                 return Focus(analyses, claim, f"{name} is a terminal atom", terminal=index)
         return found
-    if isinstance(claim, AngleOrderClaim) and claim.right[1] != claim.left[1]:
+    if two_centres:
         other = _resolve(analysis, molecule, claim.right[1], others[2:])
         if isinstance(other, Focus):
             return other
@@ -144,11 +145,16 @@ def _resolve(analysis: Any, molecule: Any, name: str | None, others: tuple[str, 
     if name is not None and not candidates:
         return _unknown(analysis, molecule, name)
     if len(candidates) > 1 and others:
-        candidates = [c for c in candidates if _bonded_to(c, others)] or candidates
+        candidates = [c for c in candidates if _bonded_to_each(c, others)] or candidates
     usable_candidates = [c for c in candidates if c.analysis is not None]
     if not usable_candidates:
         reason = candidates[0].outside_model if candidates else analysis.outside_model
         return Focus((analysis,), None, f"{candidates[0].label} is outside the model: {reason}")
+    if others and not any(_bonded_to_each(c, others) for c in usable_candidates):
+        # H-N-O in HNO2 (the H is on O): judging N's angles would answer about an atom the claim did not mean
+        listed = "; ".join(f"{c.label} is bonded to {', '.join(c.neighbours)}" for c in usable_candidates)
+        return Focus((analysis,), None, f"{analysis.formula} has no {name} bonded to {' and '.join(others)} "
+                     f"as the claim writes it ({listed})", unknown=True)
     kinds = {_kind(c.analysis) for c in usable_candidates}
     if len(kinds) > 1:
         listed = ", ".join(f"{c.label} {written_shape(c.analysis.shape)}" for c in usable_candidates)
@@ -185,6 +191,11 @@ def _bonded_to(centre: Any, others: tuple[str, ...]) -> bool:
             return False
         free.remove(match)
     return True
+
+
+def _bonded_to_each(centre: Any, others: tuple[str, ...]) -> bool:
+    """``_bonded_to`` for each pair of names in turn (an angle order names two angles at one centre)."""
+    return all(_bonded_to(centre, others[i:i + 2]) for i in range(0, len(others), 2))
 
 
 def _kind(centre: Any) -> tuple:

@@ -17,13 +17,15 @@ from . import RuleContext, rule
 
 @rule("unknown-atom", severity=Severity.WARNING, claims=(Claim,))
 def unknown_atom(context: RuleContext) -> Iterator[Finding]:
-    """A claim names an atom the species does not have, or a terminal atom.
+    """A claim names an atom the species does not have, a terminal atom, or atoms not bonded as written.
 
     Atoms are named by element with their place among that element's atoms as
     written (``C1``, ``C2`` in CH3COOH; ``N`` where there is one N), as hover and
     ``notelsp explain`` show them.  A terminal atom (bonded to one other) has no
-    bond angle or shape of its own.  The message lists the species' atoms; the
-    fix writes the one atom the name can mean, where there is one.
+    bond angle or shape of its own.  An angle or bond whose atoms are not
+    bonded that way (``H-N-O`` in HNO2, whose H is on O) is about no centre
+    of the molecule.  The message lists the species' atoms or the centre's
+    neighbours; the fix writes the one atom the name can mean, where there is one.
     """
     found = focus(context.analyses, context.claim)
     if found.problem is None or not found.unknown or found.terminal is not None:
