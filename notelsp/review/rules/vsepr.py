@@ -6,7 +6,7 @@ from collections.abc import Iterator
 
 from ...notation.model import ElectronGeometryClaim, HybridizationClaim, LonePairClaim, ShapeClaim
 from ...chem.ions import likely_ion, written_charge
-from ...chem.vsepr import HYBRIDIZATION
+from ...chem.vsepr import HYBRIDIZATION, SHAPES
 from ..predictions import written_shape
 from ..findings import Finding, Fix, Severity
 from . import RuleContext, rule
@@ -82,7 +82,8 @@ def wrong_hybridization(context: RuleContext) -> Iterator[Finding]:
     if claim.label == centre.hybridization:
         return
     exception = centre.exception
-    if exception is not None and (claim.label == HYBRIDIZATION.get(centre.steric_number)
+    if exception is not None and ((claim.label == HYBRIDIZATION.get(centre.steric_number)
+                                   and _plain_shape_allowed(centre, exception))
                                   or claim.label in exception.also_hybridization):
         return  # the textbook label stays acceptable bookkeeping where the exception changes the bonding
     formula = context.analysis.formula
@@ -95,6 +96,13 @@ def wrong_hybridization(context: RuleContext) -> Iterator[Finding]:
     else:
         message = f"{formula} is claimed {claim.label}; steric number {centre.steric_number} predicts {centre.hybridization}"
     yield context.finding(message, fixes=[context.replace_claim(centre.hybridization)])
+
+
+def _plain_shape_allowed(centre, exception) -> bool:
+    """Whether the exception still allows the shape plain VSEPR gives; where it does not (an amide N
+    held planar by conjugation), the steric number's label names that ruled-out shape (sp3)."""
+    plain = SHAPES.get((centre.steric_number, centre.bonded_atoms))
+    return plain is None or plain in (exception.shape, *exception.also_plausible)
 
 
 @rule("wrong-lone-pairs", severity=Severity.ERROR, claims=(LonePairClaim,))
