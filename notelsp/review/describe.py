@@ -13,6 +13,7 @@ from ..notation.model import Annotation
 from .document import DocumentReview
 from .predictions import written_shape
 from .rules import RULES
+from .target import centre_label
 
 # Where each rule is explained to people: the README's rule list (written by rules_markdown below).
 # One base for every consumer (LSP codeDescription, SARIF helpUri), one anchor per rule.
@@ -129,8 +130,11 @@ def hover_markdown(review: DocumentReview, annotation: Annotation, offset: int) 
     """Hover text for a position inside an annotation (a centre named by a claim there comes first)."""
     claim = next((c for c in annotation.claims if c.span.start <= offset <= c.span.end
                   or (c.atom_span is not None and c.atom_span.start <= offset <= c.atom_span.end)), None)
+    analyses = review.analyses_of(annotation)
     named = claim.atom if claim is not None else None
-    parts = [species_markdown(a, named) for a in review.analyses_of(annotation)]
+    if named is None and analyses:  # an angle or a bond names its centre inside the claim (H-C1-H, O=C-O)
+        named = centre_label(analyses[0], claim)
+    parts = [species_markdown(a, named) for a in analyses]
     findings = review.findings_in(annotation.span)
     if findings:
         parts.append("---")

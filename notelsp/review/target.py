@@ -63,6 +63,19 @@ def focus(analyses: tuple[Any, ...], claim: Claim | None) -> Focus:
     return found
 
 
+def centre_label(analysis: Any, claim: Claim | None) -> str | None:
+    """The label of the one centre of a molecule a claim is about (``C2`` for ``O=C-O`` in CH3COOH), or
+    None: a whole-molecule claim, a species read by the single-centre model, or a claim not placed."""
+    molecule = getattr(analysis, "molecule", None)
+    if claim is None or molecule is None or analysis.outside_model is not None or isinstance(claim, WHOLE_MOLECULE):
+        return None
+    name, others = _names(claim)
+    if name is None:
+        return None
+    found = _resolve(analysis, molecule, name, others[:2])
+    return None if isinstance(found, Focus) else found.label
+
+
 def _writes_bond_orders(claim: Claim | None) -> bool:
     orders = (*getattr(claim, "orders", ()), *getattr(claim, "left_orders", ()), *getattr(claim, "right_orders", ()),
               getattr(claim, "order", 1))

@@ -2,7 +2,9 @@
 
 Standard token types of the LSP specification only, so every theme already has
 a colour for them: a formula is a ``type`` (a species is what the claims are
-about), a claim's words are ``keyword``s, its numbers (angles, counts,
+about), and so is the atom a claim names (``C2`` in ``C2 trigonal planar``);
+a claim's words are ``keyword``s (with ``is``/``has`` after an atom and the
+``smiles`` marker), its numbers (angles, counts,
 percentages, indices) are ``number``s, and the notation's punctuation (``:``,
 ``,``, ``vs``, ``<``, ``°`` ...) is ``operator``.  Only annotations are
 tokenised; the rest of the note is left to the editor.  Whole documents and
@@ -29,7 +31,7 @@ LEGEND = types.SemanticTokensLegend(token_types=list(TOKEN_TYPES), token_modifie
 # and single punctuation marks.  Whitespace separates and is not a token.
 _CLAIM_PIECES = re.compile(r"(?P<number>\d+(?:\.\d+)?)|(?P<word>[^\W\d_](?:[\w^-]*\w)?)|(?P<mark>[^\w\s])")
 # Between formulas and claims (the body's own punctuation): "vs" and single marks.
-_GLUE_PIECES = re.compile(r"(?P<word>vs)\b|(?P<mark>[^\w\s])")
+_GLUE_PIECES = re.compile(r"\b(?P<word>vs)\b|\b(?P<keyword>(?i:smiles|is|has))\b|(?P<mark>[^\w\s])")
 
 
 def _claim_tokens(text: str, start: int) -> Iterator[tuple[int, int, int]]:
@@ -40,13 +42,14 @@ def _claim_tokens(text: str, start: int) -> Iterator[tuple[int, int, int]]:
 
 def _glue_tokens(text: str, start: int) -> Iterator[tuple[int, int, int]]:
     for match in _GLUE_PIECES.finditer(text):
-        yield start + match.start(), start + match.end(), OPERATOR
+        yield start + match.start(), start + match.end(), KEYWORD if match.lastgroup == "keyword" else OPERATOR
 
 
 def annotation_tokens(annotation: Annotation, text: str) -> list[tuple[int, int, int]]:
     """(start, end, token type) in document offsets, in order, for one annotation's body."""
     parts = sorted([(f.span.start, f.span.end, TYPE) for f in annotation.formulas]
-                   + [(c.span.start, c.span.end, KEYWORD) for c in annotation.claims])
+                   + [(c.span.start, c.span.end, KEYWORD) for c in annotation.claims]
+                   + [(c.atom_span.start, c.atom_span.end, TYPE) for c in annotation.claims if c.atom_span is not None])
     tokens: list[tuple[int, int, int]] = []
     cursor = annotation.body.start
     for start, end, kind in parts:
