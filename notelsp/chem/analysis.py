@@ -121,14 +121,14 @@ class SpeciesAnalysis:
         return self.centres[0] if self.centres else None
 
 
-_cache: dict[tuple[str, str | None, int], SpeciesAnalysis] = {}
+_cache: dict[tuple[str, str | None, int, bool], SpeciesAnalysis] = {}
 _cache_lock = threading.Lock()
 _CACHE_LIMIT = 20_000
 
 
 def analyse(formula: Formula) -> SpeciesAnalysis:
     """Analyse one species (cached by its text, explicit centre and charge)."""
-    key = (formula.text, formula.centre, formula.charge)
+    key = (formula.text, formula.centre, formula.charge, formula.smiles is not None)  # CO and smiles "CO" differ
     found = _cache.get(key)
     if found is None:
         found = _analyse(formula)
