@@ -17,6 +17,15 @@ from lark import Token, Tree
 from lark.exceptions import UnexpectedCharacters, UnexpectedInput, UnexpectedToken
 
 from .. import elements
+from .errors import (
+    ANNOTATION_NOT_READ,
+    FORMULA_TOO_LARGE,
+    IMPOSSIBLE_COUNT,
+    MALFORMED_CLAIM,
+    MALFORMED_FORMULA,
+    UNKNOWN_CLAIM,
+    UNKNOWN_ELEMENT,
+)
 from .grammar import CLAIM_WORDS, parser
 from .model import (
     ESD_COVERAGE,
@@ -141,9 +150,9 @@ class _FormulaBuilder:
         token = tree.children[0]
         value = _number_of(token)
         if value == 0:
-            self.error("malformed-formula", f"count 0 in '{self.text.strip()}'", _span(token, self.offset))
+            self.error(MALFORMED_FORMULA, f"count 0 in '{self.text.strip()}'", _span(token, self.offset))
         elif value > MAX_COUNT:
-            self.error("formula-too-large", f"count {value} is above {MAX_COUNT}", _span(token, self.offset))
+            self.error(FORMULA_TOO_LARGE, f"count {value} is above {MAX_COUNT}", _span(token, self.offset))
         return value
 
     def parts(self, tree: Tree, depth: int) -> tuple[Part, ...]:
@@ -156,7 +165,7 @@ class _FormulaBuilder:
             else:
                 built.append(self.group(part, depth + 1))
         if built and isinstance(built[-1], BondMark):
-            self.error("malformed-formula", f"bond '{self.text[built[-1].span.start - self.offset]}' "
+            self.error(MALFORMED_FORMULA, f"bond '{self.text[built[-1].span.start - self.offset]}' "
                        "with no atom after it", built[-1].span)
         return tuple(built)
 
@@ -165,9 +174,9 @@ class _FormulaBuilder:
         span = _span(token, self.offset)
         written = str(token)
         if before and isinstance(before[-1], BondMark):
-            self.error("malformed-formula", f"two bonds in a row in '{self.text.strip()}'", span)
+            self.error(MALFORMED_FORMULA, f"two bonds in a row in '{self.text.strip()}'", span)
         elif not before and depth == 0:
-            self.error("malformed-formula", f"bond '{written}' with no atom before it", span)
+            self.error(MALFORMED_FORMULA, f"bond '{written}' with no atom before it", span)
         return BondMark(_BOND_ORDERS[written], span)
 
     def atom(self, tree: Tree, previous: Atom | None) -> Atom:
@@ -185,18 +194,18 @@ class _FormulaBuilder:
         if fix is not None:
             suggestion, previous_span = fix
             self.error(
-                "unknown-element",
+                UNKNOWN_ELEMENT,
                 f"unknown element '{previous.symbol}{symbol}'; did you mean '{suggestion}'?",
                 Span(previous_span.start, span.end),
                 suggestion,
             )
         else:
-            self.error("unknown-element", f"unknown element '{symbol}'", span)
+            self.error(UNKNOWN_ELEMENT, f"unknown element '{symbol}'", span)
 
     def group(self, tree: Tree, depth: int) -> Group:
         opener, inner, closer = tree.children[0], tree.children[1], tree.children[2]
         if depth == MAX_NESTING + 1:  # reported once, at the first group too deep
-            self.error("formula-too-large", f"groups nested deeper than {MAX_NESTING} levels", _span(opener, self.offset))
+            self.error(FORMULA_TOO_LARGE, f"groups nested deeper than {MAX_NESTING} levels", _span(opener, self.offset))
         count_tree = tree.children[3] if len(tree.children) > 3 else None
         count = self.count(count_tree)
         end = count_tree.children[0].end_pos if count_tree is not None else closer.end_pos
@@ -214,11 +223,11 @@ class _FormulaBuilder:
         first, last = tree.children[0], tree.children[-1]
         span = Span(first.start_pos + self.offset, last.end_pos + self.offset)
         if magnitude == 0:
-            self.error("malformed-formula", "charge 0 written with a sign", span)
+            self.error(MALFORMED_FORMULA, "charge 0 written with a sign", span)
         elif magnitude > MAX_CHARGE:
-            self.error("formula-too-large", f"charge {magnitude} is above {MAX_CHARGE}", span)
+            self.error(FORMULA_TOO_LARGE, f"charge {magnitude} is above {MAX_CHARGE}", span)
         if " " in self.text[first.end_pos : last.start_pos] or "\t" in self.text[first.end_pos : last.start_pos]:
-            self.error("malformed-formula", "space inside a charge", span)
+            self.error(MALFORMED_FORMULA, "space inside a charge", span)
         return sign * magnitude
 
     def smiles(self, tree: Tree) -> Formula:
@@ -227,12 +236,12 @@ class _FormulaBuilder:
         smiles = str(quoted)[1:-1]
         span = Span(quoted.start_pos + 1 + self.offset, quoted.end_pos - 1 + self.offset)
         if not smiles.strip():
-            self.error("malformed-formula", 'empty SMILES; write e.g. smiles "CC(=O)O"', _span(quoted, self.offset))
+            self.error(MALFORMED_FORMULA, 'empty SMILES; write e.g. smiles "CC(=O)O"', _span(quoted, self.offset))
         elif re.search(r"\s", smiles):
             at = span.start + re.search(r"\s", smiles).start()
-            self.error("malformed-formula", f"space inside SMILES '{smiles.strip()}' (a SMILES is one word)", Span(at, at + 1))
+            self.error(MALFORMED_FORMULA, f"space inside SMILES '{smiles.strip()}' (a SMILES is one word)", Span(at, at + 1))
         elif len(smiles) > MAX_SMILES_CHARS:
-            self.error("formula-too-large", f"SMILES longer than {MAX_SMILES_CHARS} characters", span)
+            self.error(FORMULA_TOO_LARGE, f"SMILES longer than {MAX_SMILES_CHARS} characters", span)
         return Formula(smiles, (), 0, span, smiles=smiles)
 
     def formula(self, tree: Tree, centre_tree: Tree | None) -> Formula:
@@ -249,15 +258,15 @@ class _FormulaBuilder:
         written = self.text[start:end]
         span = Span(start + self.offset, end + self.offset)
         if len(written) > MAX_FORMULA_CHARS:
-            self.error("formula-too-large", f"formula longer than {MAX_FORMULA_CHARS} characters", span)
+            self.error(FORMULA_TOO_LARGE, f"formula longer than {MAX_FORMULA_CHARS} characters", span)
         centre = None
         if centre_tree is not None:
             centre_token = centre_tree.children[1]
             centre = str(centre_token)
             if not elements.is_symbol(centre):
-                self.error("unknown-element", f"unknown element '{centre}'", _span(centre_token, self.offset))
+                self.error(UNKNOWN_ELEMENT, f"unknown element '{centre}'", _span(centre_token, self.offset))
             elif all(centre not in _symbols(part) for part in parts):
-                self.error("malformed-formula", f"centre '{centre}' is not in '{written}'", _span(centre_token, self.offset))
+                self.error(MALFORMED_FORMULA, f"centre '{centre}' is not in '{written}'", _span(centre_token, self.offset))
         return Formula(written, parts, charge, span, centre, bracketed)
 
     def check_spaces(self, start: int, end: int) -> None:
@@ -265,7 +274,7 @@ class _FormulaBuilder:
         match = re.search(r"\s", core)
         if match is not None:
             at = start + match.start() + self.offset
-            self.error("malformed-formula", f"space inside formula '{core}'", Span(at, at + 1))
+            self.error(MALFORMED_FORMULA, f"space inside formula '{core}'", Span(at, at + 1))
 
 
 def _symbols(part: Part) -> set[str]:
@@ -290,21 +299,21 @@ def _formulas_at_start(text: str) -> tuple[tuple[Formula, ...], tuple[NotationEr
     if len(text) > 2 * (MAX_SMILES_CHARS if smiles else MAX_FORMULA_CHARS) + 16:
         start = len(text) - len(text.lstrip())
         what = f"SMILES longer than {MAX_SMILES_CHARS}" if smiles else f"formula longer than {MAX_FORMULA_CHARS}"
-        return (), (NotationError("formula-too-large", f"{what} characters",
+        return (), (NotationError(FORMULA_TOO_LARGE, f"{what} characters",
                                   Span(offset + start, offset + len(text.rstrip()))),)
     unclosed = _unclosed_smiles(text)
     if unclosed is not None:
-        return (), (NotationError("malformed-formula", f"the SMILES opened at '{text[unclosed:].strip()[:24]}' has no "
+        return (), (NotationError(MALFORMED_FORMULA, f"the SMILES opened at '{text[unclosed:].strip()[:24]}' has no "
                                   "closing '\"'; write e.g. smiles \"CC(=O)O\"", Span(unclosed, unclosed + 1)),)
     unquoted = _UNQUOTED_SMILES.search(text)
     if unquoted is not None:  # smiles CCO: the SMILES must be quoted, or its [ ] ( ) = # : would be read as notation
         word = unquoted.group(1)
-        return (), (NotationError("malformed-formula", f"write the SMILES in double quotes: smiles \"{word}\"",
+        return (), (NotationError(MALFORMED_FORMULA, f"write the SMILES in double quotes: smiles \"{word}\"",
                                   Span(unquoted.start(1), unquoted.end(1)), f'"{word}"'),)
     try:
         tree = parser().parse(text, start="formula_spec")
     except UnexpectedInput as error:
-        return (), (_syntax_error("malformed-formula", text, error, offset, "formula"),)
+        return (), (_syntax_error(MALFORMED_FORMULA, text, error, offset, "formula"),)
     builder = _FormulaBuilder(text, offset)
     formulas = []
     for species in tree.children:
@@ -361,7 +370,7 @@ def parse_formula(text: str) -> Formula:
     if errors:
         raise NotationSyntaxError(errors[0])
     if len(formulas) != 1:
-        raise NotationSyntaxError(NotationError("malformed-formula", "expected one formula, not a comparison",
+        raise NotationSyntaxError(NotationError(MALFORMED_FORMULA, "expected one formula, not a comparison",
                                                 Span(0, len(text))))
     return formulas[0]
 
@@ -438,7 +447,7 @@ class _ClaimBuilder:
         if written in _HYBRID_LABELS:
             return HybridizationClaim(self.text, self.span, written)
         suggestion = difflib.get_close_matches(written, sorted(_HYBRID_LABELS), n=1)
-        self.error("unknown-claim", f"unknown hybridization '{token}'" + (f"; did you mean '{suggestion[0]}'?" if suggestion else ""),
+        self.error(UNKNOWN_CLAIM, f"unknown hybridization '{token}'" + (f"; did you mean '{suggestion[0]}'?" if suggestion else ""),
                    self.at(token), suggestion[0] if suggestion else None)
         return None
 
@@ -452,7 +461,7 @@ class _ClaimBuilder:
             return "all" if word in ("both", "all") else _WORD_NUMBERS[word]
         value = int(tokens[-1])
         if tokens[0].type == "HYPHEN":
-            self.error("impossible-count", f"negative count in '{self.text}'", Span(self.at(tokens[0]).start, self.at(tokens[-1]).end))
+            self.error(IMPOSSIBLE_COUNT, f"negative count in '{self.text}'", Span(self.at(tokens[0]).start, self.at(tokens[-1]).end))
             return -value
         return value
 
@@ -468,7 +477,7 @@ class _ClaimBuilder:
             if element is not None:
                 return element.symbol
         message, suggestion = _unknown_element(word)
-        self.error("unknown-element", message, self.at(token), suggestion)
+        self.error(UNKNOWN_ELEMENT, message, self.at(token), suggestion)
         return None
 
     def placement_claim(self, children: list) -> Claim | None:
@@ -478,7 +487,7 @@ class _ClaimBuilder:
         if subject is None or (isinstance(quantity, int) and quantity < 0):
             return None
         if quantity == 0:
-            self.error("malformed-claim", f"'{self.text}' places nothing; write e.g. 'F axial'")
+            self.error(MALFORMED_CLAIM, f"'{self.text}' places nothing; write e.g. 'F axial'")
             return None
         if quantity is None:
             quantity = "all"
@@ -490,28 +499,28 @@ class _ClaimBuilder:
         if isinstance(children[0], Tree):
             count = self.quantity(children[0])
             if count == "all":
-                self.error("malformed-claim", f"cannot read a count in '{self.text}'; write e.g. '2 lone pairs'")
+                self.error(MALFORMED_CLAIM, f"cannot read a count in '{self.text}'; write e.g. '2 lone pairs'")
                 return None
         else:
             numbers = [token for token in children if token.type == "NUMBER"]
             count = int(numbers[0])
             if any(token.type == "HYPHEN" for token in children):
-                self.error("impossible-count", f"negative count in '{self.text}'", self.at(numbers[0]))
+                self.error(IMPOSSIBLE_COUNT, f"negative count in '{self.text}'", self.at(numbers[0]))
                 count = -count
         if not isinstance(count, int) or count < 0:
             if isinstance(count, int) and not self.errors:
-                self.error("impossible-count", f"negative count in '{self.text}'")
+                self.error(IMPOSSIBLE_COUNT, f"negative count in '{self.text}'")
             return None
         return LonePairClaim(self.text, self.span, count)
 
     def isomer_claim(self, children: list) -> Claim | None:
         count = self.quantity(children[0])
         if count == "all" or count is None:
-            self.error("malformed-claim", f"cannot read a count in '{self.text}'; write e.g. '2 isomers'")
+            self.error(MALFORMED_CLAIM, f"cannot read a count in '{self.text}'; write e.g. '2 isomers'")
             return None
         if count < 1:  # type: ignore[operator]
             if not self.errors:
-                self.error("impossible-count", f"every species has at least one isomer, not '{self.text}'")
+                self.error(IMPOSSIBLE_COUNT, f"every species has at least one isomer, not '{self.text}'")
             return None
         return IsomerCountClaim(self.text, self.span, count)  # type: ignore[arg-type]
 
@@ -523,29 +532,29 @@ class _ClaimBuilder:
             if elements.is_symbol(word):
                 return word
             message, suggestion = _unknown_element(word)
-            self.error("unknown-element", message, self.at(token), suggestion)
+            self.error(UNKNOWN_ELEMENT, message, self.at(token), suggestion)
             return None
         if token.type == "GROUP_NAME":  # "OH", "CH3": every symbol in it must be an element
             for match in re.finditer(r"[A-Z][a-z]?", word):
                 if not elements.is_symbol(match.group()):
                     message, suggestion = _unknown_element(match.group())
                     at = self.at(token).start + match.start()
-                    self.error("unknown-element", message + f" in '{word}'", Span(at, at + len(match.group())))
+                    self.error(UNKNOWN_ELEMENT, message + f" in '{word}'", Span(at, at + len(match.group())))
                     return None
             return word
         name = _ATOM_NAME.fullmatch(word)  # ATOM_NAME, or a POINT_GROUP token that may be one ("C2")
         if name is None:
-            self.error("malformed-claim", f"'{word}' is a point group, not an atom; name an atom by its element and "
+            self.error(MALFORMED_CLAIM, f"'{word}' is a point group, not an atom; name an atom by its element and "
                        "its place among that element's atoms, e.g. 'C2'", self.at(token))
             return None
         symbol, number = name.group(1), int(name.group(2))
         if not elements.is_symbol(symbol):
             message, suggestion = _unknown_element(symbol)
-            self.error("unknown-element", message + f" in '{word}'", self.at(token),
+            self.error(UNKNOWN_ELEMENT, message + f" in '{word}'", self.at(token),
                        suggestion + name.group(2) if suggestion and elements.is_symbol(suggestion) else None)
             return None
         if number == 0:
-            self.error("malformed-claim", f"atoms are numbered from 1, not '{word}'; write e.g. '{symbol}1'",
+            self.error(MALFORMED_CLAIM, f"atoms are numbered from 1, not '{word}'; write e.g. '{symbol}1'",
                        self.at(token), f"{symbol}1")
             return None
         return word
@@ -598,7 +607,7 @@ class _ClaimBuilder:
             degrees[0] = -degrees[0]
         for number, token in zip(degrees, numbers):
             if number <= 0 or number > 180:
-                self.error("impossible-count", f"an angle of {number:g}° is impossible; bond angles lie in (0°, 180°]", self.at(token))
+                self.error(IMPOSSIBLE_COUNT, f"an angle of {number:g}° is impossible; bond angles lie in (0°, 180°]", self.at(token))
                 return None
         low, high = min(degrees), max(degrees)
         allowance = max((self.allowance(u, n) for u, n in _uncertainties(tokens)), default=0.0)
@@ -625,7 +634,7 @@ class _ClaimBuilder:
         scale = _LENGTH_UNITS.get(str(unit), 1.0)
         value = float(number) * scale
         if value <= 0:
-            self.error("impossible-count", f"a bond length of {number} {unit} is impossible", self.at(number))
+            self.error(IMPOSSIBLE_COUNT, f"a bond length of {number} {unit} is impossible", self.at(number))
             return None
         allowance = max((self.allowance(u, n) * scale for u, n in _uncertainties(children)), default=0.0)
         approximate = any(isinstance(t, Token) and t.type == "APPROX" for t in children)
@@ -638,7 +647,7 @@ class _ClaimBuilder:
         for symbol in nuclei:
             if not elements.is_symbol(symbol):
                 message, suggestion = _unknown_element(symbol)
-                self.error("unknown-element", message, self.at(children[0]), suggestion)
+                self.error(UNKNOWN_ELEMENT, message, self.at(children[0]), suggestion)
                 return None
         number = next(t for t in children if isinstance(t, Token) and t.type == "NUMBER")
         allowance = max((self.allowance(u, n) for u, n in _uncertainties(children)), default=0.0)
@@ -647,7 +656,7 @@ class _ClaimBuilder:
     def unpaired_claim(self, children: list) -> Claim | None:
         count = self.quantity(children[0])
         if count == "all" or not isinstance(count, int):
-            self.error("malformed-claim", f"cannot read a count in '{self.text}'; write e.g. '1 unpaired electron'")
+            self.error(MALFORMED_CLAIM, f"cannot read a count in '{self.text}'; write e.g. '1 unpaired electron'")
             return None
         if count < 0:
             return None
@@ -689,7 +698,7 @@ class _ClaimBuilder:
                 return None
             ligand = bond[0][1]
         if percent > 100:
-            self.error("impossible-count", f"s-character of {percent:g}% is above 100%", self.at(number))
+            self.error(IMPOSSIBLE_COUNT, f"s-character of {percent:g}% is above 100%", self.at(number))
             return None
         return SCharacterClaim(self.text, self.span, percent, ligand)
 
@@ -735,12 +744,12 @@ def _unreadable_claim(text: str, offset: int) -> NotationError:
         for close in difflib.get_close_matches(word.lower(), CLAIM_WORDS, n=3, cutoff=0.7):
             suggestion = text[: match.start()] + close + text[match.end():]
             if _reads_as_claim(suggestion):
-                return NotationError("unknown-claim", f"unknown claim '{text}'; did you mean '{suggestion}'?", span, suggestion)
-        return NotationError("unknown-claim", f"unknown claim '{text}'", span)
+                return NotationError(UNKNOWN_CLAIM, f"unknown claim '{text}'; did you mean '{suggestion}'?", span, suggestion)
+        return NotationError(UNKNOWN_CLAIM, f"unknown claim '{text}'", span)
     first = re.match(r"[^\W\d_]+", text)
     example = _EXAMPLES.get(first.group().lower() if first else "angle")
     hint = f"; write e.g. {example}" if example else ""
-    return NotationError("malformed-claim", f"cannot read claim '{text}'{hint}", span)
+    return NotationError(MALFORMED_CLAIM, f"cannot read claim '{text}'{hint}", span)
 
 
 def _reads_as_claim(text: str) -> bool:
@@ -757,7 +766,7 @@ def parse_claim(text: str, offset: int = 0) -> tuple[Claim | None, tuple[Notatio
     lead = len(text) - len(text.lstrip())
     stripped = text.strip()
     if not stripped:
-        return None, (NotationError("malformed-claim", "empty claim between separators", Span(offset, offset + len(text))),)
+        return None, (NotationError(MALFORMED_CLAIM, "empty claim between separators", Span(offset, offset + len(text))),)
     claim, errors = _claim_at_start(stripped)
     return shifted(claim, offset + lead), shifted(errors, offset + lead)
 
@@ -781,7 +790,7 @@ def _claim_at_start(stripped: str) -> tuple[Claim | None, tuple[NotationError, .
 def parse_body(body: str) -> ParsedBody:
     """An annotation body ``FORMULA[: claims]``; spans relative to the body (cached by text)."""
     if len(body) > MAX_BODY_CHARS:
-        return ParsedBody((), (), (NotationError("formula-too-large", f"annotation longer than {MAX_BODY_CHARS} characters",
+        return ParsedBody((), (), (NotationError(FORMULA_TOO_LARGE, f"annotation longer than {MAX_BODY_CHARS} characters",
                                                   Span(0, len(body))),), ":" in body)
     end = formula_end(body)
     formula_text, colon, claims_text = body[:end], body[end : end + 1], body[end + 1 :]
@@ -819,7 +828,6 @@ def split_claims(text: str) -> list[str]:
 
 # --- brace groups meant as annotations but not written as one --------------------------
 
-NOT_READ = "annotation-not-read"
 NEAR_MISS_CHARS = MAX_FORMULA_CHARS * 2  # a longer brace group is not looked at as a slip
 _MAX_REPAIRED_LETTERS = 12  # letters re-cased at most: ≤ 233 readings of a run, each a cached parse
 
@@ -862,10 +870,10 @@ def near_miss_body(body: str) -> ParsedBody | None:
     if len(readings) == 1:
         message = (f"'{{{body}}}' is not read as an annotation (element symbols are case-sensitive, charges are "
                    f"written ^2-); did you mean '{{{readings[0]}}}'?")
-        error = NotationError(NOT_READ, message, span, readings[0])
+        error = NotationError(ANNOTATION_NOT_READ, message, span, readings[0])
     else:
         shown = ", ".join(f"'{{{reading}}}'" for reading in readings[:3])
-        error = NotationError(NOT_READ, f"'{{{body}}}' is not read as an annotation; did you mean one of {shown}?", span)
+        error = NotationError(ANNOTATION_NOT_READ, f"'{{{body}}}' is not read as an annotation; did you mean one of {shown}?", span)
     return ParsedBody((), (), (error,), bool(colon))
 
 

@@ -1,9 +1,22 @@
-"""Rules for problems in the notation itself (reported by the scanner)."""
+"""Rules for problems in the notation itself (reported by the scanner).
+
+One rule per code of :mod:`notelsp.notation.errors`; each reports the notation
+errors of its code as they are.
+"""
 
 from __future__ import annotations
 
 from collections.abc import Iterator
 
+from ...notation.errors import (
+    ANNOTATION_NOT_READ,
+    FORMULA_TOO_LARGE,
+    IMPOSSIBLE_COUNT,
+    MALFORMED_CLAIM,
+    MALFORMED_FORMULA,
+    UNKNOWN_CLAIM,
+    UNKNOWN_ELEMENT,
+)
 from ...notation.model import NotationError, Span
 from ..findings import Finding, Fix, Severity
 from . import DocumentContext, RuleContext, rule
@@ -22,7 +35,7 @@ def _as_finding(context: RuleContext, error: NotationError) -> Finding:
     return context.finding(error.message, span=error.span, fixes=fixes)
 
 
-@rule("unknown-claim", severity=Severity.ERROR)
+@rule(UNKNOWN_CLAIM, severity=Severity.ERROR)
 def unknown_claim(context: RuleContext) -> Iterator[Finding]:
     """A claim the notation does not know.
 
@@ -33,7 +46,7 @@ def unknown_claim(context: RuleContext) -> Iterator[Finding]:
     yield from _errors_with_code(context)
 
 
-@rule("unknown-element", severity=Severity.ERROR)
+@rule(UNKNOWN_ELEMENT, severity=Severity.ERROR)
 def unknown_element(context: RuleContext) -> Iterator[Finding]:
     """A formula names an element that does not exist.
 
@@ -42,7 +55,7 @@ def unknown_element(context: RuleContext) -> Iterator[Finding]:
     yield from _errors_with_code(context)
 
 
-@rule("annotation-not-read", severity=Severity.WARNING)
+@rule(ANNOTATION_NOT_READ, severity=Severity.WARNING)
 def annotation_not_read(context: RuleContext) -> Iterator[Finding]:
     """A brace group clearly meant as an annotation is not read as one, so nothing in it is checked.
 
@@ -55,7 +68,7 @@ def annotation_not_read(context: RuleContext) -> Iterator[Finding]:
     yield from _errors_with_code(context)
 
 
-@rule("malformed-formula", severity=Severity.ERROR)
+@rule(MALFORMED_FORMULA, severity=Severity.ERROR)
 def malformed_formula(context: RuleContext) -> Iterator[Finding]:
     """A formula that cannot be read: a stray character, an unclosed bracket, a zero count.
 
@@ -64,7 +77,7 @@ def malformed_formula(context: RuleContext) -> Iterator[Finding]:
     yield from _errors_with_code(context)
 
 
-@rule("malformed-claim", severity=Severity.ERROR)
+@rule(MALFORMED_CLAIM, severity=Severity.ERROR)
 def malformed_claim(context: RuleContext) -> Iterator[Finding]:
     """A claim whose words are known but whose form is not: an angle without a value, an empty claim.
 
@@ -73,7 +86,7 @@ def malformed_claim(context: RuleContext) -> Iterator[Finding]:
     yield from _errors_with_code(context)
 
 
-@rule("impossible-count", severity=Severity.ERROR)
+@rule(IMPOSSIBLE_COUNT, severity=Severity.ERROR)
 def impossible_count(context: RuleContext) -> Iterator[Finding]:
     """A count no species can have: a negative number of lone pairs, an angle above 180 degrees.
 
@@ -82,7 +95,7 @@ def impossible_count(context: RuleContext) -> Iterator[Finding]:
     yield from _errors_with_code(context)
 
 
-@rule("formula-too-large", severity=Severity.ERROR)
+@rule(FORMULA_TOO_LARGE, severity=Severity.ERROR)
 def formula_too_large(context: RuleContext) -> Iterator[Finding]:
     """A formula beyond the bounds the tool analyses (counts, charge, nesting or length).
 
