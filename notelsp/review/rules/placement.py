@@ -17,6 +17,7 @@ from ...notation.model import IsomerCountClaim, PlacementClaim, PointGroupClaim,
 from ..calculated import energy_gaps_text, lowest_isomer
 from ..findings import Finding, Severity
 from . import RuleContext, rule
+from .vsepr import two_atoms
 
 _POSITIONS = ("axial", "equatorial", "apical", "basal")
 _NEEDS_ISOMERS = (PlacementClaim, PolarityClaim, PointGroupClaim, IsomerCountClaim)
@@ -184,26 +185,29 @@ def _several_centres(analysis) -> bool:
     return whole is not None and len(whole.centres) > 1
 
 
-def _whole_molecule(context: RuleContext) -> tuple[str, bool] | str | None:
+def _whole_molecule(context: RuleContext) -> tuple[str, bool, str] | str | None:
     """(point group, polar) of a species read as a molecule of several centres, from its 3D model, or
     why there is none; None for a single-centre species (judged by its isomers)."""
     analysis = context.analysis
+    two = two_atoms(context)
+    if two is not None:
+        return two.point_group, two.polar, "of any two-atom molecule of this kind"
     if analysis is None or analysis.outside_model is not None or not _several_centres(analysis):
         return None
     from ...chem.molecule_geometry import whole_molecule_symmetry  # RDKit's embedding, only when asked
 
-    return whole_molecule_symmetry(analysis.molecule.molecule)
+    found = whole_molecule_symmetry(analysis.molecule.molecule)
+    return found if isinstance(found, str) else (*found, "of the whole molecule, from one 3D model of it")
 
 
-def _judge_whole_molecule(context: RuleContext, whole: tuple[str, bool] | str, claimed: str, agrees: bool,
+def _judge_whole_molecule(context: RuleContext, whole: tuple[str, bool, str] | str, claimed: str, agrees: bool,
                           predicted: str) -> Iterator[Finding]:
     if isinstance(whole, str):
         yield context.finding(f"{_formula(context)} is claimed {claimed}; not checked: {whole}",
                               at_most=Severity.INFORMATION)
     elif not agrees:
         yield context.finding(
-            f"{_formula(context)} is claimed {claimed}; predicted {predicted} (point group {whole[0]} "
-            "of the whole molecule, from one 3D model of it)",
+            f"{_formula(context)} is claimed {claimed}; predicted {predicted} (point group {whole[0]} {whole[2]})",
             fixes=[context.replace_claim(predicted)])
 
 
@@ -262,7 +266,7 @@ def wrong_point_group(context: RuleContext) -> Iterator[Finding]:
     whole = _whole_molecule(context)
     if whole is not None:
         group = "" if isinstance(whole, str) else whole[0]
-        yield from _judge_whole_molecule(context, whole, claim.symbol,
+        yield from _judge_whole_molecule(context, whole, claim.text,
                                          normalised_symbol(group or "C1") == normalised_symbol(claim.symbol), group)
         return
     isomer = _agreed_expected(context, "point_group")

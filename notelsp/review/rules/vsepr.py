@@ -6,10 +6,20 @@ from collections.abc import Iterator
 
 from ...notation.model import ElectronGeometryClaim, HybridizationClaim, LonePairClaim, ShapeClaim
 from ...chem.ions import likely_ion, written_charge
+from ...chem.diatomic import Diatomic, diatomic
 from ...chem.vsepr import HYBRIDIZATION, SHAPES
 from ..predictions import written_shape
 from ..findings import Finding, Fix, Severity
 from . import RuleContext, rule
+
+
+def two_atoms(context: RuleContext) -> Diatomic | None:
+    """The species when it is two atoms (no centre, yet a shape, point group and polarity), else None."""
+    formula = context.annotation.formula
+    analysis = context.analysis
+    if formula is None or analysis is None or analysis.outside_model is None or formula.smiles is not None:
+        return None
+    return diatomic(formula.composition())
 
 
 def first_centre(context: RuleContext):
@@ -39,6 +49,10 @@ def wrong_shape(context: RuleContext) -> Iterator[Finding]:
     """
     centre = first_centre(context)
     claim = context.claim
+    two = two_atoms(context)
+    if two is not None and isinstance(claim, ShapeClaim) and claim.shape != two.shape:
+        yield context.finding(f"{context.analysis.formula} is claimed {written_shape(claim.shape)}; two atoms "
+                              "always lie on a line: linear", fixes=[context.replace_claim("linear")])
     if centre is None or not isinstance(claim, ShapeClaim) or claim.shape in centre.plausible_shapes:
         return
     source = f"expected as a {centre.exception.name}:" if centre.exception else "VSEPR predicts"
@@ -136,7 +150,9 @@ def outside_model(context: RuleContext) -> Iterator[Finding]:
     """
     for formula, analysis in zip(context.annotation.formulas, context.analyses):
         if analysis.outside_model is not None and likely_ion(formula.composition(), formula.charge) is None:
-            yield context.finding(f"{analysis.formula}: outside the bonding model ({analysis.outside_model}); claims not checked")
+            checked = ("claims not checked, except its shape, polarity and point group"
+                       if diatomic(formula.composition()) is not None else "claims not checked")
+            yield context.finding(f"{analysis.formula}: outside the bonding model ({analysis.outside_model}); {checked}")
 
 
 @rule("charge-missing", severity=Severity.INFORMATION)
