@@ -3,7 +3,9 @@
 Pure: the CLI prints the Markdown, the server publishes the findings and
 shows the Markdown.  Findings are information when the calculation agrees
 with a claim and warnings when it does not, each labelled with the level of
-theory ("computed (HF/3-21G): ...").
+theory ("computed (HF/3-21G): ...").  Every code is a registered rule
+(``review/rules/crosscheck.py``), so settings can disable it or set its
+severity; a finding that only reports agreement stays at most information.
 """
 
 from __future__ import annotations
@@ -13,6 +15,16 @@ from dataclasses import dataclass
 from ..chem import analyse
 from ..notation.model import AngleClaim, Annotation, Claim, PlacementClaim, Span
 from ..review.findings import Finding, Severity
+from ..review.rules import RULES
+from ..review.rules.crosscheck import (
+    COMPUTED_ANGLE,
+    COMPUTED_ISOMERS,
+    COMPUTED_PLACEMENT,
+    COMPUTED_STRUCTURE,
+    CROSS_CHECK_NOT_RUN,
+    cross_check_severity,
+)
+from ..review.settings import Settings
 from .measure import BondAngle, angle_degrees, angles_between, bond_angles, bond_lengths
 from .protocol import OptimisedIsomer
 from .runner import CrossCheckResult
@@ -114,7 +126,7 @@ def _angle_finding(result, annotation, claim: AngleClaim, isomer, tolerance: flo
     expected = rule_ranges(annotation, tuple(name.split("-"))) if name else ""
     rules = f" (rules expect {expected})" if expected else ""
     message = f"{_label(result)}: {name} {_range_text(values)}; the claimed {claimed} {verdict}{rules}"
-    return _finding("computed-angle", Severity.INFORMATION if agrees else Severity.WARNING, message, claim.span, annotation, claim)
+    return _finding(COMPUTED_ANGLE, Severity.INFORMATION if agrees else Severity.WARNING, message, claim.span, annotation, claim)
 
 
 def _placement_holds(isomer: OptimisedIsomer, claim: PlacementClaim) -> bool | None:
@@ -159,13 +171,13 @@ def _placement_finding(result, annotation, claim: PlacementClaim) -> Finding | N
         rival = next((e for e, h in holds if not h), None)
         gap = f", {rival.relative_kj_per_mol:.1f} kJ/mol below {rival.isomer.isomer}" if rival else ""
         message = f"{_label(result)}: the lowest isomer is {lowest.isomer.isomer}{gap}; agrees with '{claim.text}'"
-        return _finding("computed-placement", Severity.INFORMATION, message, claim.span, annotation, claim)
+        return _finding(COMPUTED_PLACEMENT, Severity.INFORMATION, message, claim.span, annotation, claim)
     best_claimed = next((e for e, h in holds if h), None)
     gap = f"{best_claimed.relative_kj_per_mol:.1f} kJ/mol above" if best_claimed else "not among the computed isomers, below"
     message = (
         f"{_label(result)}: '{claim.text}' is {gap} the lowest isomer, {lowest.isomer.isomer}"
     )
-    return _finding("computed-placement", Severity.WARNING, message, claim.span, annotation, claim)
+    return _finding(COMPUTED_PLACEMENT, Severity.WARNING, message, claim.span, annotation, claim)
 
 
 def _structure_message(result: CrossCheckResult, isomer: OptimisedIsomer) -> str:
@@ -184,15 +196,34 @@ def _structure_message(result: CrossCheckResult, isomer: OptimisedIsomer) -> str
     return f"{_label(result)}{which}: " + ", ".join(parts)
 
 
-def cross_check_findings(result: CrossCheckResult, annotation: Annotation, angle_tolerance: float = 5.0) -> tuple[Finding, ...]:
-    """Findings for one annotation's species from its cross-check result."""
+def cross_check_findings(
+    result: CrossCheckResult, annotation: Annotation, angle_tolerance: float = 5.0, settings: Settings | None = None,
+) -> tuple[Finding, ...]:
+    """Findings for one annotation's species from its cross-check result, under ``settings``
+    (default settings when None): disabled codes are left out, configured severities applied."""
+    settings = settings or Settings()
+    return tuple(
+        finding._replace(severity=_configured(finding, settings))
+        for finding in _natural_findings(result, annotation, angle_tolerance)
+        if settings.enabled(finding.code)
+    )
+
+
+def _configured(finding: Finding, settings: Settings) -> Severity:
+    """The configured severity of the finding's rule, capped at the finding's own where that is milder
+    than the rule's (agreement is information however the disagreement is set)."""
+    milder = finding.severity is not RULES[finding.code].severity
+    return cross_check_severity(finding.code, settings, finding.severity if milder else None)
+
+
+def _natural_findings(result: CrossCheckResult, annotation: Annotation, angle_tolerance: float) -> tuple[Finding, ...]:
     span = _formula_span(annotation)
     if result.status != "done" and not result.isomers:
-        return (_finding("cross-check-not-run", Severity.INFORMATION, f"cross-check of {result.species} not run: {result.message}", span, annotation),)
+        return (_finding(CROSS_CHECK_NOT_RUN, Severity.INFORMATION, f"cross-check of {result.species} not run: {result.message}", span, annotation),)
     findings = []
     lowest = _lowest(result)
     assert lowest is not None
-    findings.append(_finding("computed-structure", Severity.INFORMATION, _structure_message(result, lowest), span, annotation))
+    findings.append(_finding(COMPUTED_STRUCTURE, Severity.INFORMATION, _structure_message(result, lowest), span, annotation))
     if len(result.isomers) > 1:
         order = energy_order(result)
         listed = ", ".join(f"{e.isomer.isomer} {e.relative_kj_per_mol:+.1f}" for e in order)
@@ -200,13 +231,13 @@ def cross_check_findings(result: CrossCheckResult, annotation: Annotation, angle
         agree = expected is not None and expected is lowest
         verdict = "as the rules expect" if agree else f"the rules expected {expected.isomer if expected else '?'} lowest"
         severity = Severity.INFORMATION if agree else Severity.WARNING
-        findings.append(_finding("computed-isomers", severity, f"{_label(result)}: isomer energies (kJ/mol) {listed}; {verdict}", span, annotation))
+        findings.append(_finding(COMPUTED_ISOMERS, severity, f"{_label(result)}: isomer energies (kJ/mol) {listed}; {verdict}", span, annotation))
     unconverged = [i for i in result.isomers if not i.converged]
     if unconverged:
         names = ", ".join(i.isomer or i.species for i in unconverged)
-        findings.append(_finding("computed-structure", Severity.WARNING, f"{_label(result)}: optimisation of {names} did not converge within the step bound", span, annotation))
+        findings.append(_finding(COMPUTED_STRUCTURE, Severity.WARNING, f"{_label(result)}: optimisation of {names} did not converge within the step bound", span, annotation))
     if result.status != "done":
-        findings.append(_finding("cross-check-not-run", Severity.INFORMATION, f"cross-check of {result.species} incomplete: {result.message}", span, annotation))
+        findings.append(_finding(CROSS_CHECK_NOT_RUN, Severity.INFORMATION, f"cross-check of {result.species} incomplete: {result.message}", span, annotation))
     for claim in annotation.claims:
         if isinstance(claim, AngleClaim):
             found = _angle_finding(result, annotation, claim, lowest, angle_tolerance)
@@ -219,12 +250,14 @@ def cross_check_findings(result: CrossCheckResult, annotation: Annotation, angle
     return tuple(findings)
 
 
-def cross_check_markdown(result: CrossCheckResult, annotation: Annotation, angle_tolerance: float = 5.0) -> str:
+def cross_check_markdown(
+    result: CrossCheckResult, annotation: Annotation, angle_tolerance: float = 5.0, settings: Settings | None = None,
+) -> str:
     """A short Markdown report: findings, the isomer table, computed angles beside
     the rules' ranges and the claims, the method's limits and any hazard caution."""
     lines = [f"### Cross-check of {result.species} ({result.level.label})", ""]
-    for finding in cross_check_findings(result, annotation, angle_tolerance):
-        marker = "⚠" if finding.severity is Severity.WARNING else "ℹ"
+    for finding in cross_check_findings(result, annotation, angle_tolerance, settings):
+        marker = "⚠" if finding.severity in (Severity.ERROR, Severity.WARNING) else "ℹ"
         lines.append(f"- {marker} {finding.message}")
     if len(result.isomers) > 1:
         lines += ["", "| isomer | rule rank | ΔE (kJ/mol) | converged |", "|---|---|---|---|"]

@@ -103,3 +103,47 @@ def test_a_check_that_could_not_run_says_why():
     result = CrossCheckResult("SF6", LEVEL, "unsupported", (), "SF6 has 7 atoms; the cross-check is bounded to 4")
     (finding,) = cross_check_findings(result, annotation_of("{SF6: octahedral}"))
     assert finding.code == "cross-check-not-run" and "bounded to 4" in finding.message
+
+
+def test_every_code_the_cross_check_reports_is_a_rule_the_settings_accept():
+    from notelsp.review.rules import RULES
+    from notelsp.review.settings import settings_from_toml
+
+    result = CrossCheckResult(
+        "PF4Cl", LEVEL, "done",
+        (tbp("Cl equatorial", 1, "equatorial", -1183.0), tbp("Cl axial", 2, "axial", -1183.005)),
+    )
+    findings = cross_check_findings(result, annotation_of("{PF4Cl: Cl axial, F-P-F 100°}"))
+    findings += cross_check_findings(CrossCheckResult("SF6", LEVEL, "unsupported", (), "too large"),
+                                     annotation_of("{SF6: octahedral}"))
+    codes = sorted({f.code for f in findings})
+    assert codes == ["computed-angle", "computed-isomers", "computed-placement", "computed-structure",
+                     "cross-check-not-run"]
+    for code in codes:
+        assert RULES[code].reported_outside and RULES[code].title
+    listed = ", ".join(f'"{code}"' for code in codes)
+    severities = "\n".join(f'"{code}" = "hint"' for code in codes)
+    _, problems = settings_from_toml(f"[review]\ndisabled = [{listed}]\n[review.severity]\n{severities}\n")
+    assert problems == []
+
+
+def test_settings_disable_a_cross_check_code_and_set_its_severity():
+    from notelsp.review.settings import settings_from_toml
+
+    settings, problems = settings_from_toml('[review]\ndisabled = ["computed-structure"]\n'
+                                            '[review.severity]\n"computed-angle" = "error"\n')
+    assert problems == []
+    wrong = cross_check_findings(water_result(), annotation_of("{H2O: H-O-H 120°}"), settings=settings)
+    assert "computed-structure" not in {f.code for f in wrong}
+    (angle,) = [f for f in wrong if f.code == "computed-angle"]
+    assert angle.severity is Severity.ERROR
+    # agreement stays information whatever the disagreement is set to
+    right = cross_check_findings(water_result(), annotation_of("{H2O: H-O-H 104.5°}"), settings=settings)
+    (angle,) = [f for f in right if f.code == "computed-angle"]
+    assert angle.severity is Severity.INFORMATION
+
+
+def test_the_review_never_runs_the_cross_check_rules():
+    from notelsp.review.document import review_text
+
+    assert not any(f.code == "computed-angle" for f in review_text("{H2O: H-O-H 120°}").findings)

@@ -33,6 +33,9 @@ class Rule:
     check: Check
     whole_note: bool = False  # checks the note itself (a DocumentContext), not an annotation
     judges_geometry: bool = False  # compares a claim with the predicted geometry: capped where the model is unsure
+    # Its findings are made outside the review (the PySCF cross-check): registered so that settings,
+    # the README and SARIF know the code; the review never runs its check.
+    reported_outside: bool = False
 
 
 RULES: dict[str, Rule] = {}
@@ -40,12 +43,14 @@ RULES: dict[str, Rule] = {}
 
 def rule(
     code: str, *, severity: Severity, claims: tuple[type[Claim], ...] = (), whole_note: bool = False,
-    judges_geometry: bool = False,
+    judges_geometry: bool = False, reported_outside: bool = False,
 ) -> Callable[[Check], Check]:
     """Register ``check`` as the rule ``code`` (``whole_note``: it is given a :class:`DocumentContext`).
 
     ``judges_geometry``: the rule compares a claim with the predicted shape or angles, so where the
     species is a known exception to plain VSEPR its findings are capped (see :meth:`RuleContext.finding`).
+    ``reported_outside``: the findings come from outside the review (the cross-check); ``check`` only
+    documents the rule and is never run.
     """
 
     def register(check: Check) -> Check:
@@ -56,7 +61,7 @@ def rule(
         if not title:
             raise ValueError(f"rule {code!r} has no docstring")
         RULES[code] = Rule(code, title.strip(), explanation.strip(), severity, claims, check, whole_note,
-                           judges_geometry)
+                           judges_geometry, reported_outside)
         return check
 
     return register
@@ -177,14 +182,14 @@ class DocumentContext:
 def whole_note_findings(text: str, reviewed_chars: int, settings: Any) -> list[Finding]:
     found: list[Finding] = []
     for candidate in RULES.values():
-        if candidate.whole_note and settings.enabled(candidate.code):
+        if candidate.whole_note and not candidate.reported_outside and settings.enabled(candidate.code):
             found.extend(candidate.check(DocumentContext(candidate, text, reviewed_chars, settings)))
     return found
 
 
 def rules_for(claim: Claim | None) -> Iterator[Rule]:
     for candidate in RULES.values():
-        if candidate.whole_note:
+        if candidate.whole_note or candidate.reported_outside:
             continue
         if claim is None and not candidate.claims:
             yield candidate
@@ -198,3 +203,4 @@ from . import placement  # noqa: E402,F401
 from . import vsepr, angles, hybrid, measured  # noqa: E402,F401
 from . import atoms  # noqa: E402,F401
 from . import computed  # noqa: E402,F401
+from . import crosscheck  # noqa: E402,F401
