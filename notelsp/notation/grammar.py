@@ -140,27 +140,3 @@ def save_cached_parser(built: Lark, path: Path, fingerprint: str) -> None:
             except OSError:
                 pass
 
-
-# Every word the claim grammar knows, for suggestions on unknown words.
-CLAIM_WORDS = frozenset(
-    """
-    linear bent angular v shaped see saw seesaw t trigonal planar pyramidal bipyramidal
-    tetrahedral octahedral square pentagonal electron domain pair geometry
-    sp d unhybridized unhybridised hybridized hybridised no hybridization hybridisation pure p
-    polar nonpolar non apolar zero dipole moment
-    axial equatorial apical basal cis trans fac mer lone pairs isomer isomers
-    a an one single two three four five six both all bond angle index i s character
-    point group shorter longer equal deg degree degrees in
-    distorted sawhorse saw horse dsp length distance unpaired electron electrons
-    paramagnetic diamagnetic hz pm nm angstrom is has
-    """.split()
-)
-
-# Whole claims as commonly written, the targets of "did you mean" for one-word slips.
-CLAIM_PHRASES = (
-    "linear", "bent", "trigonal planar", "trigonal pyramidal", "tetrahedral", "seesaw",
-    "T-shaped", "trigonal bipyramidal", "square pyramidal", "square planar", "octahedral",
-    "pentagonal bipyramidal", "pentagonal planar", "pentagonal pyramidal",
-    "sp", "sp2", "sp3", "sp3d", "sp3d2", "sp3d3", "unhybridized",
-    "polar", "nonpolar", "axial", "equatorial", "apical", "basal", "cis", "trans", "fac", "mer",
-)

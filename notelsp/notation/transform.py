@@ -26,7 +26,8 @@ from .errors import (
     UNKNOWN_CLAIM,
     UNKNOWN_ELEMENT,
 )
-from .grammar import CLAIM_WORDS, parser
+from .claim_vocabulary import HYBRID_LABELS, canonical_shape, claim_words
+from .grammar import parser
 from .model import (
     ESD_COVERAGE,
     AngleClaim,
@@ -377,14 +378,11 @@ def parse_formula(text: str) -> Formula:
 
 # --- claims -------------------------------------------------------------------
 
-_SHAPE_ALIASES = {"angular": "bent", "v-shaped": "bent", "vshaped": "bent", "see-saw": "seesaw", "tshaped": "t-shaped",
-                  "sawhorse": "seesaw", "saw-horse": "seesaw"}
 _D_FIRST_LABELS = {"dsp3": "sp3d", "d2sp3": "sp3d2"}  # older spellings of the same labels
 _LENGTH_UNITS = {"pm": 0.01, "nm": 10.0}  # to ångström; every other unit word is ångström
 _SUPERSCRIPT_DIGITS = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹", "0123456789")
 _LINK_ORDERS = {"DOUBLE_BOND": 2, "TRIPLE_BOND": 3}  # every dash is a single bond
 _ATOM_NAME = re.compile(r"([A-Z][a-z]?)([0-9]+)")
-_HYBRID_LABELS = {"sp", "sp2", "sp3", "sp3d", "sp3d2", "sp3d3"}
 _WORD_NUMBERS = {"a": 1, "an": 1, "one": 1, "single": 1, "two": 2, "three": 3, "four": 4, "five": 5, "six": 6, "no": 0}
 _EXAMPLES = {
     "angle": "'H-N-H 107°' or 'angle 107°'",
@@ -401,8 +399,7 @@ def _hyphenated(words: str) -> str:
 
 
 def _shape(token: Token) -> str:
-    name = _hyphenated(token)
-    return _SHAPE_ALIASES.get(name, name)
+    return canonical_shape(token)
 
 
 class _ClaimBuilder:
@@ -444,9 +441,9 @@ class _ClaimBuilder:
             written = "sp"
         if token.type == "HYBRID_FRACTION":  # "sp^2.4": the index follows "sp"
             return HybridizationClaim(self.text, self.span, None, float(written[2:]))
-        if written in _HYBRID_LABELS:
+        if written in HYBRID_LABELS:
             return HybridizationClaim(self.text, self.span, written)
-        suggestion = difflib.get_close_matches(written, sorted(_HYBRID_LABELS), n=1)
+        suggestion = difflib.get_close_matches(written, sorted(HYBRID_LABELS), n=1)
         self.error(UNKNOWN_CLAIM, f"unknown hybridization '{token}'" + (f"; did you mean '{suggestion[0]}'?" if suggestion else ""),
                    self.at(token), suggestion[0] if suggestion else None)
         return None
@@ -738,10 +735,10 @@ def _unreadable_claim(text: str, offset: int) -> NotationError:
     span = Span(offset, offset + len(text))
     for match in re.finditer(r"[^\W\d_]+", text):
         word = match.group()
-        if word.lower() in CLAIM_WORDS or elements.is_symbol(word) or elements.by_name(word) is not None:
+        if word.lower() in claim_words() or elements.is_symbol(word) or elements.by_name(word) is not None:
             continue
         # offer only a suggestion that is itself a claim the notation reads
-        for close in difflib.get_close_matches(word.lower(), CLAIM_WORDS, n=3, cutoff=0.7):
+        for close in difflib.get_close_matches(word.lower(), claim_words(), n=3, cutoff=0.7):
             suggestion = text[: match.start()] + close + text[match.end():]
             if _reads_as_claim(suggestion):
                 return NotationError(UNKNOWN_CLAIM, f"unknown claim '{text}'; did you mean '{suggestion}'?", span, suggestion)

@@ -1,7 +1,10 @@
 """Words an editor can offer inside an annotation, and where the cursor is.
 
-The words themselves are the notation's own (``notelsp.notation.grammar.
-CLAIM_PHRASES``), sorted into shapes and other claims by parsing each with the
+The words themselves come from the grammar (``notelsp.notation.claim_vocabulary``
+reads them off its terminals): the shapes the VSEPR model predicts, in the order
+of their steric number, the textbook hybridization labels and the placement
+sites; the one spelling offered for "no hybrid" and for each polarity is chosen
+here.  Each is sorted into shapes and other claims by parsing it with the
 grammar, so completion never offers a word the parser would reject.  Only the
 one-line descriptions live here (standard VSEPR geometry, from memory).
 Element symbols come from ``notelsp.elements``.
@@ -14,7 +17,8 @@ from functools import cache
 from typing import Literal
 
 from .. import elements
-from ..notation.grammar import CLAIM_PHRASES
+from ..chem.vsepr import SHAPES
+from ..notation.claim_vocabulary import HYBRID_LABELS, shape_names, site_words
 from ..notation.model import ShapeClaim
 from ..notation.transform import parse_claim
 
@@ -52,6 +56,23 @@ DETAILS: dict[str, str] = {
     "mer": "placement: three ligands on a meridian of an octahedron",
 }
 NO_DETAIL = "a claim word of the notation"
+# The spelling offered where the grammar reads several (unhybridised, no hybridization, pure p; apolar, ...).
+OFFERED_SPELLINGS = ("unhybridized", "polar", "nonpolar")
+
+
+def _shown(shape: str) -> str:
+    """A canonical shape name as written in prose: 'trigonal planar', 'T-shaped' (a letter's shape)."""
+    first, *rest = shape.split("-")
+    return f"{first.upper()}-{' '.join(rest)}" if len(first) == 1 else " ".join([first, *rest])
+
+
+@cache
+def claim_phrases() -> tuple[str, ...]:
+    """Whole claims as commonly written, the words completion offers."""
+    predicted = sorted(SHAPES, key=lambda key: (key[0], key[1]))  # (steric number, bonded atoms)
+    order = {shape: index for index, shape in reversed(list(enumerate(SHAPES[key] for key in predicted)))}
+    shapes = sorted((name for name in shape_names() if name in order), key=order.__getitem__)
+    return (*map(_shown, shapes), *HYBRID_LABELS, *OFFERED_SPELLINGS, *site_words())
 
 
 @dataclass(frozen=True, slots=True)
@@ -100,7 +121,7 @@ def _is_shape(phrase: str) -> bool:
 @cache
 def claim_words() -> tuple[Word, ...]:
     """The notation's claim phrases, shapes first (parsed once per process)."""
-    words = [Word(p, DETAILS.get(p, NO_DETAIL), "shape" if _is_shape(p) else "claim") for p in CLAIM_PHRASES]
+    words = [Word(p, DETAILS.get(p, NO_DETAIL), "shape" if _is_shape(p) else "claim") for p in claim_phrases()]
     return tuple(sorted(words, key=lambda w: w.kind != "shape"))
 
 

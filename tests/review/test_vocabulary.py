@@ -1,13 +1,25 @@
 """Completion words: taken from the notation, every one of them readable by the parser."""
 
-from notelsp.notation.grammar import CLAIM_PHRASES
 from notelsp.notation.model import ShapeClaim
 from notelsp.notation.transform import parse_body
-from notelsp.review.vocabulary import claim_words, place_in_annotation, word_start, words_for
+from notelsp.review.vocabulary import claim_phrases, claim_words, place_in_annotation, word_start, words_for
 
 
 def test_claim_words_are_the_notations_phrases():
-    assert {w.label for w in claim_words()} == set(CLAIM_PHRASES)
+    assert [w.label for w in claim_words() if w.kind == "shape"] + [w.label for w in claim_words() if w.kind != "shape"] \
+        == [w.label for w in claim_words()]
+    assert {w.label for w in claim_words()} == set(claim_phrases())
+
+
+def test_completion_offers_every_vsepr_shape_label_and_site():
+    # the AXnEm shape names, hybridization labels and placement sites of standard VSEPR (from memory)
+    assert set(claim_phrases()) == {
+        "linear", "bent", "trigonal planar", "trigonal pyramidal", "tetrahedral", "seesaw", "T-shaped",
+        "trigonal bipyramidal", "square pyramidal", "square planar", "octahedral", "pentagonal bipyramidal",
+        "pentagonal planar", "pentagonal pyramidal", "sp", "sp2", "sp3", "sp3d", "sp3d2", "sp3d3", "unhybridized",
+        "polar", "nonpolar", "axial", "equatorial", "apical", "basal", "cis", "trans", "fac", "mer",
+    }
+    assert claim_phrases()[:2] == ("linear", "bent")  # by steric number: two domains first
 
 
 def test_shape_words_parse_as_shape_claims_and_the_rest_do_not():
