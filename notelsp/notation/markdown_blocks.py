@@ -10,10 +10,31 @@ colon fence with a ``{name}`` info string) and of admonitions (``!!! note``,
 ``??? note``, body indented) are read as Markdown, like a block quote's.  Prose is grouped into inline runs (a paragraph,
 a heading, a table cell) whose skipped ranges come from
 :mod:`notelsp.notation.markdown_inline`; only runs holding a ``{`` are looked
-at closely.  Most of a note is plain paragraphs, blank lines, ATX headings and
-code fences at top level: those are matched a whole block at a time by one
-regular expression, and only the rest is read line by line.  A paragraph's
-inline reading is remembered by its text.
+at closely.  A paragraph's inline reading is remembered by its text.
+
+One reader, with a fast path in front of it.  ``_Parser._line`` reads a line
+against the open containers and leaf and is the whole of the block grammar.
+Most of a note, though, is plain paragraphs, blank lines, unindented ATX
+headings and code fences at top level, whose reading cannot depend on any
+context; while no container is open (and the text has LF breaks only),
+``_Parser._whole_blocks`` matches such blocks a whole block at a time with one
+regular expression (``_TOP_LEVEL_BLOCK``) and hands the first line it does not
+match to ``_line``.  It decides nothing the line reader would decide
+differently: what it leaves alone (tables, lists, quotes, HTML, math,
+directives, indented code, a ``{`` info string) goes line by line, and a fence
+closes by one definition on both paths (``_closes_fence`` for a line, the same
+pieces in the two searches over a text).  It is kept because reading every
+line through the containers costs several times as much: on a note of
+603,031 characters and 10,099 lines (100 notes of ``benchmarks/repo.py``'s
+``make_note``, seed 7, joined), ``parse_blocks`` took 10.9 ms with the fast
+path and 52.5 ms line by line only (the same note with CRLF breaks, which the
+fast path leaves to the line reader), 4.8 times as long, best of 7 on the
+development machine.  A note is parsed whole when it is opened, inside the
+server's 200 ms answer; an edit re-parses the blocks around it only
+(:mod:`notelsp.notation.markdown`), through the same two paths.
+Both paths are compared with markdown-it-py (CRLF documents take the line
+path): ``tests/notation/test_markdown_reference.py`` and
+``tests/notation/test_markdown_fences.py``.
 
 The output is a list of top-level blocks (first offset, segments, bonding lines)
 so an edited document can be re-parsed around the edit only (see
@@ -81,6 +102,13 @@ class ParsedBlocks(NamedTuple):
 
 
 _LINE_BREAK = re.compile(r"\r\n|\r|\n")
+# A fence closes on a line holding, 0-3 spaces in, a run of its character at least as long as
+# its opening run and then spaces and tabs only (CommonMark 4.5; markdown-it's skipSpaces: no
+# other white space).  ``_closes_fence`` reads one line by it; the two searches over a whole
+# text (``_TOP_LEVEL_BLOCK``'s fence, ``_fence_closer``) are built from the same pieces.
+_CLOSING_INDENT = " {0,3}"
+_AFTER_CLOSING_RUN = r"[ \t]*"
+_REST_OF_CLOSING_LINE = re.compile(_AFTER_CLOSING_RUN)
 # The commonest top-level blocks, each matched whole from the start of a line (in a document
 # with LF line breaks, outside any container, while no leaf but a paragraph is open):
 #   plain:   lines that can only be paragraph text, whatever comes before them (none starts
@@ -96,8 +124,10 @@ _TOP_LEVEL_BLOCK = re.compile(
     r"(?P<plain>(?:[^ \t>\-+*_#=`~$<|:!?\[0-9\n][^\n]*(?:\n|\Z))+)"
     r"|(?P<blank>(?:[ \t]*\n)+|[ \t]*\Z)"
     r"|(?P<heading>#{1,6}(?:[ \t][^|\n]*)?(?:\n|\Z))"
-    r"|(?P<fence>(?P<ticks>`{3,})(?![`{]|[ \t]+\{)(?P<info>[^`|\n]*)\n(?:[^\n]*\n)*? {0,3}(?P=ticks)`*[ \t]*(?:\n|\Z)"
-    r"|(?P<tildes>~{3,})(?![~{]|[ \t]+\{)(?P<tilde_info>[^|\n]*)\n(?:[^\n]*\n)*? {0,3}(?P=tildes)~*[ \t]*(?:\n|\Z))"
+    r"|(?P<fence>(?P<ticks>`{3,})(?![`{]|[ \t]+\{)(?P<info>[^`|\n]*)\n(?:[^\n]*\n)*?"
+    + _CLOSING_INDENT + r"(?P=ticks)`*" + _AFTER_CLOSING_RUN + r"(?:\n|\Z)"
+    r"|(?P<tildes>~{3,})(?![~{]|[ \t]+\{)(?P<tilde_info>[^|\n]*)\n(?:[^\n]*\n)*?"
+    + _CLOSING_INDENT + r"(?P=tildes)~*" + _AFTER_CLOSING_RUN + r"(?:\n|\Z))"
 )
 _ATX_HEADING = re.compile(r"(#{1,6})(?:[ \t]+|$)")
 _FENCE_OPEN = re.compile(r"(`{3,}|~{3,})(.*)")
@@ -153,7 +183,9 @@ _HTML_TAG_ALONE = re.compile(  # start condition 7: one complete tag and nothing
 
 @lru_cache(maxsize=64)
 def _fence_closer(character: str, length: int) -> re.Pattern[str]:
-    return re.compile(r"^ {0,3}" + re.escape(character) + "{" + str(length) + r",}[ \t]*$", re.M)
+    """The search for the closing line of a fence of ``length`` ``character``s in a text of LF lines."""
+    return re.compile("^" + _CLOSING_INDENT + re.escape(character) + "{" + str(length) + ",}" + _AFTER_CLOSING_RUN + "$",
+                      re.M)
 
 
 def split_lines(text: str) -> tuple[list[int], list[str]]:
@@ -213,13 +245,14 @@ def _atx_content_end(text: str) -> int:
 
 
 def _closes_fence(line: str, at: int, run: str) -> bool:
-    """Whether ``line`` closes a fence opened by ``run`` at ``at``: as long a run or longer, then nothing."""
+    """Whether ``line`` (its indentation, under 4 columns, ending at ``at``) closes a fence or
+    directive opened by ``run``: as long a run or longer, then only spaces and tabs."""
     if not line.startswith(run, at):
         return False
     end = at + len(run)
     while end < len(line) and line[end] == run[0]:
         end += 1
-    return not line[end:].strip()
+    return _REST_OF_CLOSING_LINE.fullmatch(line, end) is not None
 
 
 def _admonition(line: str, at: int) -> tuple[int, int, str] | None:
@@ -908,13 +941,9 @@ class _Parser:
 
     def _fence_line(self, fence: _Fence, index: int, line: str, start: int, position: int) -> None:
         columns, at = _indent(line, position)
-        if columns < 4 and line.startswith(fence.marker, at):
-            run_end = at
-            while run_end < len(line) and line[run_end] == fence.character:
-                run_end += 1
-            if not line[run_end:].strip():
-                self.leaf = None
-                return
+        if columns < 4 and _closes_fence(line, at, fence.marker):
+            self.leaf = None
+            return
         if fence.bonding:
             content = _advance(line, position, fence.indent)
             self._given()[2].append(Span(self._document_offset(start, content), start + len(line)))
