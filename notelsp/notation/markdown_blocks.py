@@ -21,15 +21,18 @@ context; while no container is open (and the text has LF breaks only),
 regular expression (``_TOP_LEVEL_BLOCK``) and hands the first line it does not
 match to ``_line``.  It decides nothing the line reader would decide
 differently: what it leaves alone (tables, lists, quotes, HTML, math,
-directives, indented code, a ``{`` info string) goes line by line, and a fence
-closes by one definition on both paths (``_closes_fence`` for a line, the same
-pieces in the two searches over a text).  It is kept because reading every
-line through the containers costs several times as much: on a note of
-603,031 characters and 10,099 lines (100 notes of ``benchmarks/repo.py``'s
-``make_note``, seed 7, joined), ``parse_blocks`` took 10.9 ms with the fast
-path and 52.5 ms line by line only (the same note with CRLF breaks, which the
-fast path leaves to the line reader), 4.8 times as long, best of 7 on the
-development machine.  A note is parsed whole when it is opened, inside the
+directives, indented code, a ``{`` info string) goes line by line.  A fence
+outside containers, whoever opened it, has its content and closing line taken
+by one search (``_fence_content``); inside a container (or in a text with CR
+breaks) ``_fence_line`` reads it a line at a time; both close it by one definition (``_closes_fence``, and
+``_fence_closer`` built from the same pieces).  The fast path is kept because
+reading every line through the containers costs several times as much: on a
+note of 603,031 characters and 10,099 lines (100 notes of
+``benchmarks/repo.py``'s ``make_note``, seed 7, joined), ``parse_blocks`` took
+10.9 and 14.2 ms with the fast path and 52.5 and 85.8 ms line by line only (the
+same note with CRLF breaks, which the fast path leaves to the line reader),
+4.8 and 6.0 times as long (best of 7 and of 15, two runs on a shared two-core
+machine).  A note is parsed whole when it is opened, inside the
 server's 200 ms answer; an edit re-parses the blocks around it only
 (:mod:`notelsp.notation.markdown`), through the same two paths.
 Both paths are compared with markdown-it-py (CRLF documents take the line
@@ -104,8 +107,8 @@ class ParsedBlocks(NamedTuple):
 _LINE_BREAK = re.compile(r"\r\n|\r|\n")
 # A fence closes on a line holding, 0-3 spaces in, a run of its character at least as long as
 # its opening run and then spaces and tabs only (CommonMark 4.5; markdown-it's skipSpaces: no
-# other white space).  ``_closes_fence`` reads one line by it; the two searches over a whole
-# text (``_TOP_LEVEL_BLOCK``'s fence, ``_fence_closer``) are built from the same pieces.
+# other white space).  ``_closes_fence`` reads one line by it; ``_fence_closer``, the search
+# for the closing line over a text, is built from the same pieces.
 _CLOSING_INDENT = " {0,3}"
 _AFTER_CLOSING_RUN = r"[ \t]*"
 _REST_OF_CLOSING_LINE = re.compile(_AFTER_CLOSING_RUN)
@@ -115,8 +118,9 @@ _REST_OF_CLOSING_LINE = re.compile(_AFTER_CLOSING_RUN)
 #            with a character that could begin another block);
 #   blank:   blank lines, which end a paragraph;
 #   heading: an unindented ATX heading;
-#   fence:   an unindented code fence, its content and its closing line (the fence is its
-#            whole run of backticks or tildes: a tilde fence's info string may hold tildes).
+#   fence:   the opening line of an unindented code fence (the fence is its whole run of
+#            backticks or tildes: a tilde fence's info string may hold tildes); its content
+#            and closing line are taken by ``_Parser._fence_content``.
 # A line holding "|" may be a table header, which comes first: such headings and fence
 # openings are left to the line-by-line path, as are fences whose info string starts with
 # "{" (perhaps a directive) and everything else.
@@ -124,10 +128,8 @@ _TOP_LEVEL_BLOCK = re.compile(
     r"(?P<plain>(?:[^ \t>\-+*_#=`~$<|:!?\[0-9\n][^\n]*(?:\n|\Z))+)"
     r"|(?P<blank>(?:[ \t]*\n)+|[ \t]*\Z)"
     r"|(?P<heading>#{1,6}(?:[ \t][^|\n]*)?(?:\n|\Z))"
-    r"|(?P<fence>(?P<ticks>`{3,})(?![`{]|[ \t]+\{)(?P<info>[^`|\n]*)\n(?:[^\n]*\n)*?"
-    + _CLOSING_INDENT + r"(?P=ticks)`*" + _AFTER_CLOSING_RUN + r"(?:\n|\Z)"
-    r"|(?P<tildes>~{3,})(?![~{]|[ \t]+\{)(?P<tilde_info>[^|\n]*)\n(?:[^\n]*\n)*?"
-    + _CLOSING_INDENT + r"(?P=tildes)~*" + _AFTER_CLOSING_RUN + r"(?:\n|\Z))"
+    r"|(?P<fence>(?P<ticks>`{3,})(?![`{]|[ \t]+\{)(?P<info>[^`|\n]*)\n"
+    r"|(?P<tildes>~{3,})(?![~{]|[ \t]+\{)(?P<tilde_info>[^|\n]*)\n)"
 )
 _ATX_HEADING = re.compile(r"(#{1,6})(?:[ \t]+|$)")
 _FENCE_OPEN = re.compile(r"(`{3,}|~{3,})(.*)")
@@ -505,11 +507,11 @@ class _Parser:
                     if offset is None:
                         break  # the text is taken to its end
                     index = None
-                elif type(leaf) is _Fence:
-                    index = self._fence_body(leaf, bisect_left(self.starts, offset) if index is None else index)
-                    if index >= len(self.lines):
-                        break
-                    offset = self.starts[index]
+                elif type(leaf) is _Fence:  # opened by a line read alone; ``offset`` is the next line's
+                    offset = self._fence_content(offset, leaf)
+                    if offset is None:
+                        break  # the fence runs to the end of the text
+                    index = None
                     continue
             if index is None:
                 index = bisect_left(self.starts, offset)
@@ -588,27 +590,19 @@ class _Parser:
                         self._emit_heading(line, offset, _ATX_HEADING.match(line))
                 elif kind == "fence":
                     block_starts.append(offset)
-                    info = block.group("info")
+                    info, run = block.group("info", "ticks")
                     if info is None:
-                        info = block.group("tilde_info")
-                    if BONDING_INFO in info and info.split()[:1] == [BONDING_INFO]:
-                        self._whole_fence_content(offset, last_end)
+                        info, run = block.group("tilde_info", "tildes")
+                    bonding = BONDING_INFO in info and info.split()[:1] == [BONDING_INFO]
+                    block_end = self._fence_content(block_end, _Fence(run[0], len(run), 0, bonding))
+                    if block_end is None or block_end > len(text):
+                        return None  # the fence runs to the end of the text, or closes on its last line
             offset = block_end
             if ended:
                 break
         if begin >= 0:
             self.leaf = _Paragraph(begin, end, offset)
         return None if ended else offset
-
-    def _whole_fence_content(self, offset: int, last_end: int) -> None:
-        """The content lines of an unindented bonding fence matched whole, taken whole."""
-        text, bonding = self.text, self._given()[2]
-        content_start = text.index("\n", offset) + 1
-        closing_start = text.rindex("\n", offset, last_end) + 1
-        while content_start < closing_start:
-            line_end = text.index("\n", content_start)
-            bonding.append(Span(content_start, line_end))
-            content_start = line_end + 1
 
     def _open_heading(self, index: int, line: str, start: int, heading: re.Match[str]) -> None:
         self._close_leaf()
@@ -632,20 +626,27 @@ class _Parser:
         character = fence.group(1)[0]
         self.leaf = _Fence(character, len(fence.group(1)), columns, fence.group(2).split()[:1] == [BONDING_INFO])
 
-    def _fence_body(self, fence: _Fence, index: int) -> int:
-        """Take a top-level fence's content lines up to its closing line in one search; the next line's index."""
-        closing = _fence_closer(fence.character, fence.length).search(self.text, self.starts[index])
-        stop = bisect_left(self.starts, closing.start(), index) if closing else len(self.lines)
+    def _fence_content(self, start: int, fence: _Fence) -> int | None:
+        """Take a top-level fence's content, from the line at ``start`` to its closing line, in one
+        search (outside containers, in a text of LF breaks: whether opened by ``_TOP_LEVEL_BLOCK``
+        or by a line read alone); the offset of the line after the closing one, None when no line
+        closes the fence.  Inside a container the same closing is read a line at a time
+        (``_fence_line``)."""
+        text = self.text
+        closing = _fence_closer(fence.character, fence.length).search(text, start)
         if fence.bonding:
-            bonding = self._given()[2]
-            for number in range(index, stop):
-                line, start = self.lines[number], self.starts[number]
-                content = _advance(line, 0, fence.indent) if fence.indent else 0
+            bonding, indent = self._given()[2], fence.indent
+            # the content lines: up to the closing line's break, else every line to the end
+            lines = (text[start : closing.start() - 1].split("\n") if closing.start() > start else []) if closing \
+                else text[start:].split("\n")
+            for line in lines:
+                content = _advance(line, 0, indent) if indent else 0
                 bonding.append(Span(start + content, start + len(line)))
+                start += len(line) + 1
         if closing is None:
-            return stop
+            return None
         self.leaf = None
-        return stop + 1
+        return closing.end() + 1
 
     # --- one line ------------------------------------------------------------
 
