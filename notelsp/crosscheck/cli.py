@@ -15,6 +15,7 @@ from typing import TextIO
 
 from ..notation.model import Annotation
 from ..review.findings import Severity
+from ..review.settings import Settings
 from .availability import missing_extra
 from .levels import DEFAULT_LEVEL_TEXT, Limits, parse_level
 from .report import cross_check_findings, cross_check_markdown
@@ -56,8 +57,12 @@ def cross_check_paths(
     progress: TextIO | None = None,
     limits: Limits = Limits(),
     angle_tolerance: float = 5.0,
+    settings: Settings | None = None,
 ) -> int:
     """Cross-check each annotated species in ``paths``; returns the exit code.
+
+    ``settings`` (default settings when None) leave out the disabled codes and set the
+    severities; a finding still at warning or error after them counts as disagreeing.
 
     0: every calculation agrees with the claims; 1: a computed value disagrees
     with a claim; 2: nothing could run (bad level, missing extra, unreadable file);
@@ -72,7 +77,7 @@ def cross_check_paths(
         except (OSError, UnicodeDecodeError) as error:
             out.write(f"notelsp: cannot read {path}: {error}\n")
             unreadable = True
-    code = _cross_check_named(named, level, out, progress or sys.stderr, limits, angle_tolerance)
+    code = _cross_check_named(named, level, out, progress or sys.stderr, limits, angle_tolerance, settings)
     return EXIT_CANNOT_RUN if unreadable else code
 
 
@@ -83,6 +88,7 @@ def _cross_check_named(
     bar: TextIO,
     limits: Limits,
     angle_tolerance: float,
+    settings: Settings | None = None,
 ) -> int:
     try:
         chosen = parse_level(level)
@@ -109,8 +115,9 @@ def _cross_check_named(
                     bar.write("\n")  # keep the finished bar; the next one starts on its own line
             result = results[formula.text]
             unfinished = unfinished or result.status in UNFINISHED
-            markdown = cross_check_markdown(result, annotation, angle_tolerance=angle_tolerance)
+            markdown = cross_check_markdown(result, annotation, angle_tolerance=angle_tolerance, settings=settings)
             out.write(f"{path}: {{{formula.text}}}\n\n{markdown}\n\n")
-            if any(f.severity is Severity.WARNING for f in cross_check_findings(result, annotation, angle_tolerance)):
+            findings = cross_check_findings(result, annotation, angle_tolerance, settings)
+            if any(f.severity in (Severity.ERROR, Severity.WARNING) for f in findings):
                 code = max(code, EXIT_DISAGREES)
     return EXIT_CALCULATION_FAILED if unfinished else code

@@ -174,3 +174,25 @@ def test_the_check_command_exits_with_the_failure_status(tmp_path, monkeypatch, 
     note.write_text("{H2O: H-O-H 104.5°}\n", encoding="utf-8")
     assert main(["check", "--cross-check", "--level", LEVEL.label, str(note)]) == EXIT_CALCULATION_FAILED
     assert "cross-check of H2O not run: the worker for H2O" in capsys.readouterr().out
+
+
+def test_settings_decide_whether_a_disagreeing_cross_check_fails_the_command(tmp_path, stand_in_calculation):
+    from notelsp.crosscheck.cli import EXIT_DISAGREES
+    from notelsp.review.settings import settings_from_toml
+
+    note = tmp_path / "water.md"
+    note.write_text("{H2O: H-O-H 150°}\n", encoding="utf-8")  # water's angle is near 104.5° (G2 set)
+
+    def outcome(toml: str) -> tuple[int, str]:
+        settings, problems = settings_from_toml(toml)
+        assert problems == []
+        out = io.StringIO()
+        code = cross_check_paths([note], level=LEVEL.label, stream=out, progress=io.StringIO(), settings=settings)
+        return code, out.getvalue()
+
+    code, report = outcome("")
+    assert code == EXIT_DISAGREES and "away" in report  # the positive control
+    code, report = outcome('[review]\ndisabled = ["computed-angle"]\n')
+    assert code == EXIT_OK and "away" not in report
+    code, _ = outcome('[review.severity]\n"computed-angle" = "information"\n')
+    assert code == EXIT_OK
