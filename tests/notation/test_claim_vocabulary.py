@@ -69,3 +69,17 @@ def test_the_claim_words_are_the_words_of_the_claim_terminals():
         assert word in words, word
     # symbols and names are not claim words: a misspelt word is never "corrected" to one
     assert not {"cl", "name", "c2v", "ax"} & words
+
+
+def test_every_count_word_of_the_grammar_has_a_meaning():
+    """A word added to QWORD must be given its number in the transformer, or placements fail on it."""
+    from notelsp.notation.model import UnpairedElectronClaim
+
+    numbers = {"no": 0, "a": 1, "an": 1, "one": 1, "single": 1, "two": 2, "three": 3, "four": 4, "five": 5, "six": 6}
+    for word in terminal_spellings("QWORD"):
+        placement, errors = parse_claim(f"{word} F axial")
+        if word in ("both", "all"):
+            assert not errors and placement.quantity == "all", word
+            continue
+        counted, errors = parse_claim(f"{word} unpaired electrons")
+        assert not errors and isinstance(counted, UnpairedElectronClaim) and counted.count == numbers[word], word
