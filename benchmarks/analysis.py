@@ -19,7 +19,7 @@ import re
 import statistics
 import time
 
-from caches import clear_document_caches, clear_result_caches
+from caches import clear_document_caches, clear_result_caches, host
 from notebook import make_notebook
 
 
@@ -46,16 +46,15 @@ def scan_ratios(text: str, repeats: int = 9) -> dict[str, str]:
     floor, in C, wanders less than the check, in Python.
     """
     from notelsp.elements import preload
-    from notelsp.review.document import review_text
 
     preload()  # element data is loaded once per process; not part of a check
-    review_text(text, "markdown")  # import and first-use costs out of the way
+    host().review_text(text, "markdown")  # import and first-use costs out of the way
     brace = re.compile(r"\{[^{}\n]*\}")
 
     def check_after(clear) -> float:
         def work() -> None:
             clear()
-            review_text(text, "markdown")
+            host().review_text(text, "markdown")
 
         return _best_of(5, work)
 
@@ -75,19 +74,24 @@ def scan_ratios(text: str, repeats: int = 9) -> dict[str, str]:
 
 
 def edit_check_ms_p50(text: str, edits: int = 30) -> float:
-    from notelsp.review.document import review_text
-
+    """One line replaced, as an editor sends it (its range), and the note reviewed again."""
     clear_result_caches()
-    review_text(text, "markdown")
-    lines = text.split("\n")
-    middle = len(lines) // 2
+    uri = "bench://edited.md"
+    host().open(uri, 0, text, "markdown")
+    host().review(uri)
+    middle = (text.count("\n") + 1) // 2  # the middle line, as text.split("\n") counts lines
     samples = []
     for number in range(edits):
         claim = "t-shaped" if number % 2 else "trigonal planar"
-        lines[middle] = f"Edited {{ClF3: {claim}}} in run {number}."
-        edited = "\n".join(lines)
+        current = host().document(uri).text
+        line_start = 0
+        for _ in range(middle):
+            line_start = current.index("\n", line_start) + 1
+        line_end = current.find("\n", line_start)
+        edit = (line_start, len(current) if line_end == -1 else line_end, f"Edited {{ClF3: {claim}}} in run {number}.")
         start = time.perf_counter()
-        review_text(edited, "markdown")
+        host().apply_change(uri, number + 1, [edit])
+        host().review(uri)
         samples.append(time.perf_counter() - start)
     return statistics.median(samples) * 1e3
 

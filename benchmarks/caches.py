@@ -1,7 +1,8 @@
 """Empty notelsp's result caches, so a benchmark measures work rather than look-ups.
 
-``clear_result_caches`` empties all of them; ``clear_document_caches`` only the
-ones about whole documents (see there).
+``clear_result_caches`` empties all of them (a fresh analysis host, :func:`host`,
+and the pure functions' memo); ``clear_document_caches`` only the ones about
+whole documents (see there).
 
 What a process pays once (element data, the grammar's parser, the Markdown
 parser object, per-class field tables) is kept: the figures exclude a cold
@@ -12,6 +13,17 @@ species analyses, isomers, polyhedra, remembered documents) is emptied.
 from __future__ import annotations
 
 import sys
+
+_hosts: list = []  # the benchmark's analysis host; a fresh one when results are cleared
+
+
+def host():
+    """The analysis host a benchmark reviews with (what an editor session or a check would use)."""
+    if not _hosts:
+        from notelsp.review.host import AnalysisHost
+
+        _hosts.append(AnalysisHost())
+    return _hosts[0]
 
 PROCESS_SETUP = {
     ("notelsp.elements", "_by_lower_name"),
@@ -35,11 +47,10 @@ def clear_result_caches() -> int:
                 value.cache_clear()
                 emptied += 1
     from notelsp.chem import analysis
-    from notelsp.review.document import forget_cached_results
 
     with analysis._cache_lock:
         analysis._cache.clear()
-    forget_cached_results()  # parses, line scans, findings per annotation text, remembered documents
+    _hosts.clear()  # findings per annotation text and at their places, remembered documents: a fresh host
     return emptied + 2
 
 
@@ -54,9 +65,6 @@ def clear_document_caches() -> None:
     paragraphs were met before (none of them at its place).
     """
     from notelsp import positions
-    from notelsp.notation import markdown
-    from notelsp.review.document import forget_placed_results
 
-    markdown.forget_documents()
     positions.lf_line_starts.cache_clear()  # keyed by the whole text
-    forget_placed_results()  # findings at their offsets
+    host().memory.forget_placed()  # findings at their offsets, complete reviews, remembered documents

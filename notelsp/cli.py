@@ -10,6 +10,7 @@ a calculation failed, was killed or ran out of time.
 from __future__ import annotations
 
 import argparse
+import functools
 import os
 import sys
 from collections.abc import Sequence
@@ -374,7 +375,6 @@ def _workers_for(notes: int) -> int:
 
 def _review_note(note: Any, reported: Any) -> _Outcome:
     from .formats import ReviewedFile
-    from .review.document import review_text
 
     try:
         text = _read_note(note)
@@ -385,13 +385,13 @@ def _review_note(note: Any, reported: Any) -> _Outcome:
             return [reported(cell) for cell in _notebook_reviews(str(note.path), text, note.settings)], None, True, ""
         except UsageError as problem:
             return [], str(problem), True, ""
-    return [reported(ReviewedFile(str(note.path), review_text(text, note.kind, note.settings,
-                                                              computed=_computed_with(note.settings))))], None, False, ""
+    return [reported(ReviewedFile(str(note.path), _reviewed(str(note.path), text, note.kind, note.settings)))], \
+        None, False, ""
 
 
 def _review_stdin(options: CheckOptions, settings: Any, reported: Any) -> _Outcome:
     from .formats import ReviewedFile
-    from .review.document import kind_of_path, review_text
+    from .review.document import kind_of_path
 
     stdin_name = options.stdin_name or STDIN_NAME
     try:
@@ -403,8 +403,8 @@ def _review_stdin(options: CheckOptions, settings: Any, reported: Any) -> _Outco
             return [reported(cell) for cell in _notebook_reviews(stdin_name, text, settings)], None, True, ""
         except UsageError as problem:
             return [], str(problem), True, ""
-    return [reported(ReviewedFile(stdin_name, review_text(text, kind_of_path(stdin_name), settings,
-                                                          computed=_computed_with(settings))))], None, False, ""
+    return [reported(ReviewedFile(stdin_name, _reviewed(stdin_name, text, kind_of_path(stdin_name), settings)))], \
+        None, False, ""
 
 
 def _review_notes_in_worker(notes: list, wants_cautions: bool, wants_annotation_texts: bool) -> list[_Outcome]:
@@ -572,16 +572,35 @@ def _notebook_reviews(path: str, text: str, settings: Any) -> list:
     """One reviewed file per Markdown cell (positions within the cell); the file alone when it has none."""
     from .formats import ReviewedFile
     from .notation.notebook import NotebookError, markdown_cells
-    from .review.document import review_text
 
     try:
         cells = markdown_cells(text)
     except NotebookError as problem:
         raise UsageError(f"cannot read {path}: {problem}") from None
     if not cells:  # still listed in the report, with nothing found
-        return [ReviewedFile(path, review_text("", "markdown", settings))]
-    return [ReviewedFile(path, review_text(cell.source, "markdown", settings, computed=_computed_with(settings)),
-                         cell.number) for cell in cells]
+        return [ReviewedFile(path, _analysis_host().review_text("", "markdown", settings))]
+    return [ReviewedFile(path, _reviewed(f"{path}#cell{cell.number}", cell.source, "markdown", settings), cell.number)
+            for cell in cells]
+
+
+@functools.lru_cache(maxsize=1)  # no argument: one host, made on first use
+def _analysis_host() -> Any:
+    """This process's analysis host (each worker of a pool has its own): notes share what it remembers."""
+    from .review.host import AnalysisHost
+
+    return AnalysisHost()
+
+
+def _reviewed(name: str, text: str, kind: Any, settings: Any) -> Any:
+    """The review of one note, opened in the analysis host, reviewed and closed again."""
+    host = _analysis_host()
+    host.open(name, None, text, kind)
+    try:
+        host.set_settings(name, settings)
+        host.set_computed(name, _computed_with(settings) or {})
+        return host.review(name)
+    finally:
+        host.close(name)
 
 
 # --- computed geometries ----------------------------------------------------

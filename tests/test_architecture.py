@@ -113,3 +113,75 @@ def test_no_import_cycle_between_modules() -> None:
             visit(start, [start])
     assert cycles == []
 
+
+
+def test_the_server_has_no_import_cycle_even_through_lazy_imports() -> None:
+    """Within notelsp/server not even an import inside a function closes a loop: the protocol layer is a line."""
+    modules = {module_name(p): p for p in (PACKAGE / "server").rglob("*.py")}
+    graph = {name: {m for m in imported(path) if m in modules and m != name and not m.startswith(name + ".")}
+             for name, path in modules.items()}
+    loops = sorted((a, b) for a in graph for b in graph[a] if a in graph[b] and a < b)
+    longer = []
+    for start in graph:  # any longer loop: start reaches itself
+        seen, frontier = set(), set(graph[start])
+        while frontier:
+            seen |= frontier
+            frontier = {n for m in frontier for n in graph[m]} - seen
+        if start in seen:
+            longer.append(start)
+    assert loops == [] and longer == []
+
+
+# Module-level memo of pure functions keyed by value may stay outside the analysis host: the same
+# arguments always give the same result, so sharing it between hosts changes no finding.
+VALUE_KEYED_MEMO = {
+    "notation/scanner.py": {"_segment_groups", "_segment_annotations"},  # a segment's text -> its annotations, capped
+    "chem/analysis.py": {"_cache"},  # a formula -> its analysis, capped
+}
+MUTABLE_CALLS = {"dict", "list", "set", "OrderedDict", "defaultdict", "deque", "WeakValueDictionary",
+                 "WeakKeyDictionary", "Counter"}
+
+
+def _module_state(path: Path) -> list[str]:
+    """Module-level mutable containers named as state (lower case: UPPER_CASE tables are constants) and
+    names rebound through ``global``, with their lines."""
+    tree = ast.parse(path.read_text(encoding="utf-8"))
+    found = []
+    for node in tree.body:
+        if isinstance(node, (ast.Assign, ast.AnnAssign)) and node.value is not None:
+            value = node.value
+            mutable = isinstance(value, (ast.Dict, ast.List, ast.Set, ast.DictComp, ast.ListComp, ast.SetComp)) or (
+                isinstance(value, ast.Call)
+                and (value.func.attr if isinstance(value.func, ast.Attribute) else getattr(value.func, "id", ""))
+                in MUTABLE_CALLS)
+            targets = node.targets if isinstance(node, ast.Assign) else [node.target]
+            for target in targets:
+                if mutable and isinstance(target, ast.Name) and target.id != "__all__" \
+                        and not target.id.lstrip("_").isupper():
+                    found.append((target.id, node.lineno))
+    for node in ast.walk(tree):
+        if isinstance(node, ast.Global):
+            found.extend((name, node.lineno) for name in node.names)
+    return [f"{name} line {line}" for name, line in found]
+
+
+@pytest.mark.parametrize("layer", sorted(FORBIDDEN))
+def test_only_the_analysis_host_keeps_state(layer: str) -> None:
+    """The analysis host (``review/host.py``) owns what reviews leave behind; no analysis module keeps
+    results in module-level containers, except the memo of pure functions keyed by value."""
+    broken = {}
+    for path in layer_files(layer):
+        relative = str(path.relative_to(PACKAGE))
+        allowed = VALUE_KEYED_MEMO.get(relative, set())
+        state = [entry for entry in _module_state(path) if entry.split(" line ")[0] not in allowed]
+        if state:
+            broken[relative] = state
+    assert broken == {}
+
+
+def test_the_state_check_sees_a_module_level_cache(tmp_path: Path) -> None:
+    """The control for the test above: a module keeping reviews at module level is caught."""
+    module = tmp_path / "kept.py"
+    module.write_text("_reviews: dict = {}\n_recent = []\nTABLE = {'a': 1}\n__all__ = ['x']\n"
+                      "def f():\n    global _count\n", encoding="utf-8")
+    assert _module_state(module) == ["_reviews line 1", "_recent line 2", "_count line 6"]

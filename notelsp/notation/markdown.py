@@ -17,7 +17,7 @@ from ..positions import lf_line_starts as line_starts  # Markdown lines end at L
 from .markdown_blocks import _FRONT_MATTER_OPENER, BONDING_INFO, ParsedBlocks, Segment, parse_blocks
 from .model import Span
 
-__all__ = ["BONDING_INFO", "MarkdownStructure", "Segment", "forget_documents", "line_starts", "markdown_structure"]
+__all__ = ["BONDING_INFO", "BlockMemory", "MarkdownStructure", "Segment", "line_starts", "markdown_structure"]
 
 
 @dataclass(frozen=True, slots=True)
@@ -26,14 +26,15 @@ class MarkdownStructure:
     bonding_lines: tuple[Span, ...]  # content lines of ```bonding blocks
 
 
-def markdown_structure(text: str) -> MarkdownStructure:
+def markdown_structure(text: str, memory: BlockMemory | None = None) -> MarkdownStructure:
     """Inline segments and bonding-block lines of a Markdown document.
 
-    An edited document is re-parsed only around the edit: see :func:`_blocks_of`.
+    With ``memory`` (the analysis host's), an edited document is re-parsed only around the
+    edit: see :meth:`BlockMemory.blocks_of`; without it the whole text is parsed.
     """
     if "{" not in text and BONDING_INFO not in text:
         return MarkdownStructure((), ())
-    blocks = _blocks_of(text).blocks
+    blocks = (parse_blocks(text) if memory is None else memory.blocks_of(text)).blocks
     return MarkdownStructure(
         tuple(chain.from_iterable(map(_SEGMENTS, blocks))), tuple(chain.from_iterable(map(_BONDING, blocks)))
     )
@@ -67,44 +68,74 @@ class _Parsed:
 
 
 _RECENT_LIMIT = 4  # documents remembered for incremental re-parsing (about one per open editor)
-_recent: list[_Parsed] = []  # most recent last
-_recent_lock = threading.Lock()
 _COMPARE_STEP = 4096
 _SMALL_EDIT_CHARS = 4096  # an edit this small in the latest version: no need to compare older ones
 _BACKED_UP_BLOCKS = 2  # blocks re-parsed before the edit: their ends may depend on its lines
 _MARGIN_BLOCKS = 2  # old blocks after the resync point included in the parse window
 
 
-def forget_documents() -> None:
-    """Drop the remembered documents (the next parse of any text is a whole parse)."""
-    with _recent_lock:
-        _recent.clear()
+class BlockMemory:
+    """The last few documents' blocks, so the next version is re-parsed only around its edit.
+
+    Owned by an analysis host (``notelsp.review.host``), never shared between hosts.  Where the edit
+    is known (:meth:`expect_edit`, from the ranges the editor sent) its unchanged prefix and suffix
+    are taken as given; otherwise they are found by comparing the text with the remembered ones.
+    """
+
+    def __init__(self) -> None:
+        self._recent: list[_Parsed] = []  # most recent last
+        self._edits: list[tuple[str, str, int, int]] = []  # (old text, new text, unchanged prefix, suffix)
+        self._lock = threading.Lock()
+
+    def __len__(self) -> int:
+        return len(self._recent)
+
+    def expect_edit(self, old: str, new: str, prefix: int, suffix: int) -> None:
+        """``new`` is ``old`` with everything but its first ``prefix`` and last ``suffix`` characters replaced."""
+        with self._lock:
+            self._edits.append((old, new, prefix, suffix))
+            del self._edits[:-_RECENT_LIMIT]
+
+    def blocks_of(self, text: str) -> ParsedBlocks:
+        with self._lock:
+            recent, edits = list(self._recent), list(self._edits)
+        for remembered in reversed(recent):
+            if remembered.text == text:
+                return remembered.parsed
+        parsed = None
+        # Reference definitions reach across blocks, and whether a '$$' line opens display math
+        # depends on a closing line anywhere below it: with either, in this version or in the one
+        # it is compared with (an edit may remove or change a definition every link relied on),
+        # parse the whole text.  So does a lone CR, a line break too rare in notes to be worth
+        # re-parsing around.  Each test reads the whole text: only made when there is an earlier
+        # version to compare with.
+        if recent and not _may_define_or_open_math(text) and ("\r" not in text or text.count("\r") == text.count("\r\n")):
+            comparable = [remembered for remembered in recent if not remembered.reaches_across()]
+            previous = _known_edit(comparable, edits, text) if comparable else None
+            if previous is None and comparable:
+                previous = _closest(comparable, text)
+            if previous is not None:
+                parsed = _reparsed(previous, text)
+        if parsed is None:
+            parsed = parse_blocks(text)
+        with self._lock:
+            self._recent.append(_Parsed(text, parsed))
+            del self._recent[:-_RECENT_LIMIT]
+            self._edits = [edit for edit in self._edits if edit[1] is not text]  # used: its text is remembered now
+        return parsed
 
 
-def _blocks_of(text: str) -> ParsedBlocks:
-    with _recent_lock:
-        recent = list(_recent)
-    for remembered in reversed(recent):
-        if remembered.text == text:
-            return remembered.parsed
-    parsed = None
-    # Reference definitions reach across blocks, and whether a '$$' line opens display math
-    # depends on a closing line anywhere below it: with either, in this version or in the one
-    # it is compared with (an edit may remove or change a definition every link relied on),
-    # parse the whole text.  So does a lone CR, a line break too rare in notes to be worth
-    # re-parsing around.  Each test reads the whole text: only made when there is an earlier
-    # version to compare with.
-    if recent and not _may_define_or_open_math(text) and ("\r" not in text or text.count("\r") == text.count("\r\n")):
-        comparable = [remembered for remembered in recent if not remembered.reaches_across()]
-        previous = _closest(comparable, text) if comparable else None
-        if previous is not None:
-            parsed = _reparsed(previous, text)
-    if parsed is None:
-        parsed = parse_blocks(text)
-    with _recent_lock:
-        _recent.append(_Parsed(text, parsed))
-        del _recent[:-_RECENT_LIMIT]
-    return parsed
+def _known_edit(recent: list[_Parsed], edits: list[tuple[str, str, int, int]], text: str) -> tuple[_Parsed, int, int] | None:
+    """The remembered version ``text`` was edited from, with the unchanged prefix and suffix the edit names."""
+    for old, new, prefix, suffix in reversed(edits):
+        if new is not text and new != text:
+            continue
+        for remembered in reversed(recent):
+            if remembered.text is old or remembered.text == old:
+                if prefix + suffix < len(text) // 2:
+                    return None  # mostly different text: a full parse is as cheap
+                return remembered, prefix, suffix
+    return None
 
 
 def _may_define_or_open_math(text: str) -> bool:

@@ -19,7 +19,7 @@ from operator import itemgetter
 from typing import Iterator, Literal
 
 from .. import elements
-from .markdown import MarkdownStructure, Segment, line_starts, markdown_structure
+from .markdown import BlockMemory, MarkdownStructure, Segment, line_starts, markdown_structure
 from .model import Found, ParsedBody, ScannedDocument, Span
 from .transform import MAX_BODY_CHARS, NEAR_MISS_CHARS, near_miss_body, parse_body, starts_with_smiles
 
@@ -43,10 +43,10 @@ _segment_annotations = 0  # annotations held in _segment_groups
 _segment_lock = threading.Lock()
 
 
-def scan(text: str, kind: DocumentKind = "markdown") -> ScannedDocument:
-    """Every annotation in ``text``, with code-point offsets into it."""
+def scan(text: str, kind: DocumentKind = "markdown", memory: BlockMemory | None = None) -> ScannedDocument:
+    """Every annotation in ``text``, with code-point offsets into it (``memory``: see ``markdown_structure``)."""
     if kind == "markdown":
-        return scan_with_structure(text, markdown_structure(text))
+        return scan_with_structure(text, markdown_structure(text, memory))
     return scan_with_structure(text, MarkdownStructure(_text_segments(text), ()))
 
 
@@ -59,14 +59,14 @@ def scan_with_structure(text: str, structure: MarkdownStructure) -> ScannedDocum
     return ScannedDocument(tuple(found))
 
 
-def scan_pieces(text: str, kind: DocumentKind = "markdown") -> Iterator[list[Found]]:
+def scan_pieces(text: str, kind: DocumentKind = "markdown", memory: BlockMemory | None = None) -> Iterator[list[Found]]:
     """The annotations of ``text`` one piece at a time, in document order.
 
     A piece is one inline segment (a line, or a paragraph's lines) or one line of a
     bonding block, so a consumer may stop between pieces and have scanned nothing
     it does not use; pieces without annotations are passed over.
     """
-    structure = markdown_structure(text) if kind == "markdown" else MarkdownStructure(_text_segments(text), ())
+    structure = markdown_structure(text, memory) if kind == "markdown" else MarkdownStructure(_text_segments(text), ())
     if not structure.bonding_lines:
         for segment in structure.segments:
             if found := _segment_found(segment):
@@ -82,9 +82,10 @@ def scan_pieces(text: str, kind: DocumentKind = "markdown") -> Iterator[list[Fou
             yield found
 
 
-def scan_pieces_around(text: str, kind: DocumentKind, start: int, end: int) -> Iterator[list[Found]]:
+def scan_pieces_around(text: str, kind: DocumentKind, start: int, end: int,
+                       memory: BlockMemory | None = None) -> Iterator[list[Found]]:
     """The annotations of the pieces (see :func:`scan_pieces`) that touch ``[start, end]``, and no others."""
-    structure = markdown_structure(text) if kind == "markdown" else MarkdownStructure(_text_segments(text), ())
+    structure = markdown_structure(text, memory) if kind == "markdown" else MarkdownStructure(_text_segments(text), ())
     pieces: list[list[Found]] = []
     for segment in structure.segments:
         if segment.start <= end and start <= segment.start + len(segment.text) and (found := _segment_found(segment)):

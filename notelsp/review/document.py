@@ -1,9 +1,11 @@
 """Review a whole document: scan it, analyse each species, run the rules.
 
 Pure: text in, a :class:`DocumentReview` out.  The findings of one annotation
-depend only on its own text and the settings, so they are cached by that text
-(position-free) and shifted into place; a species is analysed once per
-process by the analyser's own cache.
+depend only on its own text and the settings, so they are kept by that text
+(position-free) and shifted into place, in a :class:`ReviewMemory` that its
+owner (the analysis host, ``notelsp.review.host``) passes in; without one a
+review starts from nothing.  A species is analysed once per process by the
+analyser's own cache (keyed by the formula's value).
 """
 
 from __future__ import annotations
@@ -16,6 +18,7 @@ from typing import TYPE_CHECKING, Any, Callable, Literal
 
 from ..notation import scan
 from ..notation.scanner import scan_pieces, scan_pieces_around
+from ..notation.markdown import BlockMemory
 from ..notation.model import Annotation, Found, ScannedDocument, Span, annotation_of
 from ..positions import LineIndex
 from .findings import Finding
@@ -115,6 +118,7 @@ def review_text(
     settings: Settings | None = None,
     more_time: Callable[[int], bool] | None = None,
     computed: Computed | None = None,
+    memory: ReviewMemory | None = None,
 ) -> DocumentReview:
     """Every finding of ``text``.
 
@@ -129,25 +133,29 @@ def review_text(
     the review ends there (``DocumentReview.stopped_at``).  Everything above is complete, and the
     whole-note rule ``review-continues`` marks the first line left out.  Whoever asks
     keeps the clock: the review itself stays a function of its arguments and the answers.
+
+    ``memory``: what earlier reviews left to reuse (see :class:`ReviewMemory`); its owner is the
+    analysis host.  Without it nothing is reused from, or kept for, another call.
     """
     settings = settings or Settings()
     computed = computed or {}
+    memory = memory or ReviewMemory()
     key = (text, kind, settings, _computed_key(computed))
-    finished = _finished.get(key)
+    finished = memory.finished.get(key)
     if finished is not None:
         return finished
     rules = _chemistry()[1]
     reviewed = rules.notation.reviewed_length(text)
     scanned_text = text if reviewed == len(text) else text[:reviewed]
-    reviews, placed = _reviews_for(settings)
+    reviews, placed = memory.reviews_for(settings)
     findings: list[Finding] = []
     stopped_at = None
     if more_time is None:
-        scanned = scan(scanned_text, kind)
+        scanned = scan(scanned_text, kind, memory.blocks)
         _review_found(scanned.found, text, settings, reviews, placed, findings, computed)
     else:
         found: list[Found] = []
-        for piece in scan_pieces(scanned_text, kind):
+        for piece in scan_pieces(scanned_text, kind, memory.blocks):
             if found:
                 line_start = text.rfind("\n", 0, piece[0][0]) + 1
                 # Stop only where nothing reviewed lies on the line: at its start.
@@ -165,30 +173,29 @@ def review_text(
         findings.sort(key=_ORDER)
     review = DocumentReview(text, scanned, tuple(findings), stopped_at)
     if stopped_at is None:
-        _finished[key] = review
-        if len(_finished) > _FINISHED_LIMIT:
-            del _finished[next(iter(_finished))]  # the oldest
+        memory.keep_finished(key, review)
     return review
 
 
 def review_around(text: str, kind: DocumentKind, settings: Settings, span: Span,
-                  computed: Computed | None = None) -> DocumentReview:
+                  computed: Computed | None = None, memory: ReviewMemory | None = None) -> DocumentReview:
     """The review of only the annotations ``span`` touches (for hover and code actions).
 
     The complete review when one of this text is at hand; otherwise only the pieces
     (segments, bonding-block lines) holding the span are scanned and reviewed, so asking
     about one annotation never waits for a whole large note.  ``computed``: as for
-    :func:`review_text`.
+    :func:`review_text`, and so is ``memory``.
     """
     computed = computed or {}
-    finished = _finished.get((text, kind, settings, _computed_key(computed)))
+    memory = memory or ReviewMemory()
+    finished = memory.finished.get((text, kind, settings, _computed_key(computed)))
     if finished is not None:
         return finished
     rules = _chemistry()[1]
     scanned_text = text[: rules.notation.reviewed_length(text)]
-    reviews, placed = _reviews_for(settings)
+    reviews, placed = memory.reviews_for(settings)
     found: list[Found] = []
-    for piece in scan_pieces_around(scanned_text, kind, span.start, span.end):
+    for piece in scan_pieces_around(scanned_text, kind, span.start, span.end, memory.blocks):
         found.extend(f for f in piece if f[0] <= span.end and span.start <= f[1])
     findings: list[Finding] = []
     _review_found(found, text, settings, reviews, placed, findings, computed)
@@ -257,57 +264,55 @@ def _ORDER(finding: Finding) -> tuple[int, int, str]:
     return finding.span.start, finding.span.end, finding.code
 
 
-# The last few complete reviews, oldest first: a review finished in slices (see ``more_time``)
-# is found here by whoever asks next (the server's hover, actions, pulled diagnostics).
 _FINISHED_LIMIT = 8
-_finished: dict[tuple[str, str, Settings, tuple], DocumentReview] = {}
-
-
-# The findings of each annotation text (offsets from the annotation's start), per settings.
-# An annotation's findings depend only on its own text, its form and the settings.  Beside
-# them, the same findings placed at an offset: after an edit, the annotations before it are
-# where they were, and their findings are taken as they are.
 _REVIEWS_LIMIT = 20_000
+_SETTINGS_LIMIT = 8  # settings change rarely; a few sets are plenty
 # Keys end with the annotation's computed results (one per formula, None where not computed; ()
 # when none is), so a review with computed results never reuses findings made without them.
 Relative = dict[tuple[str, str, tuple], tuple[Finding, ...]]
 Placed = dict[tuple[str, str, int, tuple], tuple[Finding, ...]]
-_reviews: dict[Settings, tuple[Relative, Placed]] = {}
 
 
-_SETTINGS_LIMIT = 8  # settings change rarely; a few sets are plenty
+class ReviewMemory:
+    """What one owner's reviews leave for the next: the analysis host holds one (``notelsp.review.host``).
 
+    - ``finished``: the last few complete reviews, oldest first; a review finished in slices
+      (see ``more_time``) is found here by whoever asks next (hover, actions, pulled diagnostics).
+    - per settings, the findings of each annotation text (offsets from the annotation's start;
+      they depend only on its text, its form, the settings and its computed results) and the
+      same findings placed at an offset: after an edit, the annotations before it are where
+      they were, and their findings are taken as they are.
+    - ``blocks``: the Markdown blocks of the last few documents (re-parsing around an edit).
 
-def _reviews_for(settings: Settings) -> tuple[Relative, Placed]:
-    """The caches for ``settings``, each capped at _REVIEWS_LIMIT entries, the oldest going first (edits
-    leave findings at old offsets behind, and a long session types ever new annotations)."""
-    reviews = _reviews.get(settings)
-    if reviews is None:
-        if len(_reviews) >= _SETTINGS_LIMIT:
-            _reviews.clear()
-        reviews = _reviews[settings] = ({}, {})
-    return reviews
-
-
-def forget_placed_results() -> None:
-    """Empty only the caches of results at positions (placed findings, complete reviews)."""
-    for _, placed in list(_reviews.values()):
-        placed.clear()
-    _finished.clear()
-
-
-def forget_cached_results() -> None:
-    """Empty the review path's result caches (parses, line scans, findings, remembered documents).
-
-    For tests and benchmarks that need a review computed afresh; species analyses keep their own cache.
+    Every part is capped, the oldest entry going first (a server runs for days).
     """
-    from ..notation import markdown, markdown_blocks, scanner, transform
 
-    _reviews.clear()
-    _finished.clear()
-    for cached in (transform.parse_body, scanner._inline_groups, scanner._block_body, markdown_blocks._paragraph_pieces):
-        cached.cache_clear()
-    markdown.forget_documents()
+    def __init__(self) -> None:
+        self.finished: dict[tuple[str, str, Settings, tuple], DocumentReview] = {}
+        self.reviews: dict[Settings, tuple[Relative, Placed]] = {}
+        self.blocks = BlockMemory()
+
+    def keep_finished(self, key: tuple, review: DocumentReview) -> None:
+        self.finished[key] = review
+        if len(self.finished) > _FINISHED_LIMIT:
+            _evict_oldest(self.finished)
+
+    def reviews_for(self, settings: Settings) -> tuple[Relative, Placed]:
+        """The caches for ``settings``, each capped at _REVIEWS_LIMIT entries, the oldest going first (edits
+        leave findings at old offsets behind, and a long session types ever new annotations)."""
+        reviews = self.reviews.get(settings)
+        if reviews is None:
+            if len(self.reviews) >= _SETTINGS_LIMIT:
+                self.reviews.clear()
+            reviews = self.reviews[settings] = ({}, {})
+        return reviews
+
+    def forget_placed(self) -> None:
+        """Drop only what is kept at positions (placed findings, complete reviews, remembered documents)."""
+        for _, placed in list(self.reviews.values()):
+            placed.clear()
+        self.finished.clear()
+        self.blocks = BlockMemory()
 
 
 def _relative_annotation(found: Found) -> Annotation:

@@ -25,12 +25,9 @@ from __future__ import annotations
 import fnmatch
 import re
 from functools import lru_cache
-from typing import TYPE_CHECKING, Literal, NamedTuple
+from typing import Literal, NamedTuple
 
 from .settings import Settings
-
-if TYPE_CHECKING:
-    from .document import DocumentKind, DocumentReview
 
 NoteKind = Literal["markdown", "text", "notebook"]
 
@@ -210,14 +207,3 @@ def _class_end(segment: str, start: int) -> int | None:
     while index < len(segment) and segment[index] != "]":
         index += 1
     return index if index < len(segment) else None
-
-
-# --- reviews ---------------------------------------------------------------------------
-
-
-@lru_cache(maxsize=8)  # a few versions of the open notes; each holds the text
-def cached_review(text: str, kind: "DocumentKind", settings: Settings) -> "DocumentReview":
-    """``review_text`` memoised: hover, actions and hints on an unchanged text share one review."""
-    from .document import review_text  # file selection above stays importable without the analysis stack
-
-    return review_text(text, kind, settings)

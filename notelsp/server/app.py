@@ -12,8 +12,10 @@ import gc
 import importlib
 import logging
 import sys
+from collections.abc import Callable
 from dataclasses import dataclass
 from functools import lru_cache
+from typing import Any
 from pathlib import Path
 from urllib.parse import unquote, urlparse
 
@@ -23,9 +25,12 @@ from pygls.lsp.server import LanguageServer
 
 from .. import __version__
 from ..notation.model import Span
-from ..review.document import DocumentReview, kind_of_path, review_around, review_text
+from ..review.document import DocumentKind, DocumentReview, kind_of_path
+from ..review.findings import Finding
+from ..review.host import AnalysisHost, OpenDocument
 from ..review.settings import Settings
-from ..review.workspace import cached_review, is_reviewed
+from ..review.workspace import is_reviewed
+from .documents import SplicedDocument
 from .positions import LineIndex, line_index
 from .exiting import leave_now
 from .framing import FrameInput
@@ -62,6 +67,7 @@ class HeldDocument:
     text: str
     index: LineIndex
     review: DocumentReview | None  # None when the file type is not reviewed or the review failed
+    checked: tuple[Finding, ...] = ()  # cross-check findings of annotations still there unchanged
 
 
 class NoteServer(LanguageServer):
@@ -75,6 +81,17 @@ class NoteServer(LanguageServer):
         self.folder_settings: dict[Path, tuple[Settings, list[str]]] = {}  # nested .notelsp.toml files, read once
         self.root: Path | None = None
         self.pending: dict[str, asyncio.Task] = {}  # uri -> its scheduled diagnostics publication
+        self.host = AnalysisHost()  # the one owner of the open documents' analysis (see notelsp.review.host)
+        self.saved_notes = AnalysisHost()  # notes on disk for workspace diagnostics: a memory of their own
+        # Set by the feature modules that know, so this module imports none of them: whether a URI is a
+        # notebook's cell and then whether it is reviewed (notebooks); the geometries computed for a
+        # document, and whether it names species to compute or known results it did not use (geometries);
+        # what else looks at a change (the optional cross-check) or a closed document (geometries).
+        self.cell_reviewed: Callable[[NoteServer, str], bool | None] = lambda ls, uri: None
+        self.computed_geometries: Callable[[NoteServer, str], dict] = lambda ls, uri: {}
+        self.wants_geometries: Callable[[NoteServer, str, tuple[str, ...], Any], bool] = lambda *_: False
+        self.on_change: list[Callable[[NoteServer, str], None]] = []
+        self.on_close: list[Callable[[NoteServer, str], None]] = []
 
     def start_io(self, stdin=None, stdout=None) -> None:
         """Serve ``stdin`` (the fast start-up hands a :class:`~.quickstart.ClientInput`)."""
@@ -134,50 +151,69 @@ class NoteServer(LanguageServer):
         return self.folder_settings[folder][0]
 
     def is_reviewed(self, uri: str) -> bool:
-        from .notebooks import reviewed_cell  # a notebook's cell is judged by its notebook, not its URI
-
-        if (cell := reviewed_cell(self, uri)) is not None:
+        if (cell := self.cell_reviewed(self, uri)) is not None:  # a notebook's cell: judged by its notebook
             return cell
         settings, relative = self.settings_for(uri)
         return relative is not None and is_reviewed(relative, settings)
 
-    def review_kind(self, uri: str):
+    def review_kind(self, uri: str) -> DocumentKind:
         """How a reviewed document is read: a notebook's cell as Markdown, a file by its name."""
-        from .notebooks import reviewed_cell
-
-        return "markdown" if reviewed_cell(self, uri) else kind_of_path(self.relative_path(uri) or uri)
+        return "markdown" if self.cell_reviewed(self, uri) else kind_of_path(self.relative_path(uri) or uri)
 
     def open_document(self, uri: str):
         """The open text document, or None (never read from disk)."""
         return self.workspace.text_documents.get(unquote(uri))
 
+    def synced(self, uri: str) -> OpenDocument | None:
+        """Hand the analysis host what changed in the open document since it was last asked.
+
+        The edits go in as the exact offsets the editor sent (kept by ``SplicedDocument``), with the
+        settings that govern the document and the geometries computed so far for the species it
+        names; None when the document is not open (the host forgets it).
+        """
+        key = unquote(uri)
+        document = self.open_document(uri)
+        if document is None:
+            self.host.close(key)
+            return None
+        edits_from, edits = document.take_edits() if isinstance(document, SplicedDocument) else (None, [])
+        text, version, kind = document.source, document.version, self.review_kind(uri)
+        current = self.host.document(key)
+        if current is None or current.kind != kind:
+            self.host.open(key, version, text, kind)
+        elif current.text is not text or current.version != version:
+            if edits and edits_from is not None and (edits_from is current.text or edits_from == current.text):
+                self.host.apply_change(key, version, edits)
+                if self.host.document(key).text != text:
+                    log.warning("edits of %s did not give the editor's text; taking the whole text", uri)
+            self.host.open(key, version, text, kind)  # the editor's own string: later calls compare by identity
+        if self.is_reviewed(uri):
+            self.host.set_settings(key, self.settings_for(uri)[0])
+            self.host.set_computed(key, self.computed_geometries(self, uri))
+        return self.host.document(key)
+
     def held(self, uri: str, around: types.Position | types.Range | None = None) -> HeldDocument | None:
-        """The open document with its (cached) review; reviews on demand.
+        """The open document with its review (from the analysis host's snapshot); reviews on demand.
 
         ``around``: only the annotations there are reviewed (the complete review when one is at
         hand), so hover and code actions never wait for the review of a whole large note.
         """
-        document = self.open_document(uri)
+        document = self.synced(uri)
         if document is None:
             return None
-        text = document.source
-        index = line_index(text, self.encoding())
-        review = None
+        index = line_index(document.text, self.encoding())
+        review, checked = None, ()
         if self.is_reviewed(uri):
             try:
-                from .geometries import computed_for
-
-                settings = self.settings_for(uri)[0]
-                computed = computed_for(self, uri)  # geometries computed so far for the species it names
-                if around is None:
-                    review = (review_text(text, self.review_kind(uri), settings, computed=computed) if computed
-                              else cached_review(text, self.review_kind(uri), settings))
-                else:
+                span = None
+                if around is not None:
                     span = index.span(around) if isinstance(around, types.Range) else Span(*[index.offset(around)] * 2)
-                    review = review_around(text, self.review_kind(uri), settings, span, computed=computed)
+                snapshot = self.host.snapshot(document.uri, around=span)
+                if snapshot is not None:
+                    review, checked = snapshot.review, snapshot.checked
             except Exception:
                 log.exception("review of %s failed", uri)
-        return HeldDocument(uri, document.version, text, index, review)
+        return HeldDocument(uri, document.version, document.text, index, review, checked)
 
     def show(self, message: str, kind: types.MessageType = types.MessageType.Warning) -> None:
         log.warning("%s", message)

@@ -16,10 +16,10 @@ cancelled (``$/cancelRequest`` of the ``notelsp/crossCheck`` request or of the
 ``workspace/executeCommand``, which ``NoteProtocol`` passes on to the command:
 the running task is cancelled, which kills the worker process).  Requests
 answer ``{"status", "markdown", "findings"}``.
-The computed findings are kept per document, keyed by the annotation's text
-(:func:`computed_findings`), and the diagnostics module publishes them
-with the review's, so they survive later reviews and vanish when the
-annotation is edited.  Results are also kept in memory by species and level,
+The computed findings are handed to the analysis host per document, keyed by
+the annotation's text (``AnalysisHost.set_checked``); its snapshots place them
+beside the review's and the diagnostics module publishes them, so they survive
+later reviews and vanish when the annotation is edited.  Results are also kept in memory by species and level,
 so automatic runs never repeat a calculation.
 """
 
@@ -28,7 +28,9 @@ from __future__ import annotations
 import asyncio
 import itertools
 import logging
+from collections.abc import Mapping
 from typing import TYPE_CHECKING, Any
+from urllib.parse import unquote
 
 from lsprotocol import types
 
@@ -100,9 +102,9 @@ def _state(ls: NoteServer, name: str, factory):
     return value
 
 
-def _computed(ls: NoteServer) -> dict[str, dict[str, tuple[Finding, ...]]]:
-    """uri -> annotation text -> computed findings (relative to the annotation's start)."""
-    return _state(ls, "crosscheck_findings", dict)
+def _kept(ls: NoteServer, uri: str) -> Mapping[str, tuple[Finding, ...]]:
+    """Annotation text -> the document's computed findings (relative to the annotation's start), from the host."""
+    return ls.host.checked(unquote(uri))
 
 
 def _results(ls: NoteServer) -> dict[tuple[str, str], CrossCheckResult]:
@@ -118,23 +120,11 @@ def _remember_result(ls: NoteServer, result: CrossCheckResult) -> None:
         results.pop(next(iter(results)))
 
 
-def computed_findings(ls: NoteServer, held: HeldDocument) -> list[Finding]:
-    """Findings of the cross-checks run on this document whose annotation is still there unchanged."""
-    kept = _computed(ls).get(held.uri)
-    if not kept or held.review is None:
-        return []
-    findings = []
-    for annotation in held.review.annotations:
-        relative = kept.get(held.text[annotation.span.start : annotation.span.end])
-        findings += [finding.shifted(annotation.span.start) for finding in relative or ()]
-    return findings
-
-
-
-
 def _keep_findings(ls: NoteServer, held: HeldDocument, annotation: Annotation, findings: tuple[Finding, ...]) -> None:
     source = held.text[annotation.span.start : annotation.span.end]
-    _computed(ls).setdefault(held.uri, {})[source] = tuple(f.shifted(-annotation.span.start) for f in findings)
+    key = unquote(held.uri)
+    kept = {**ls.host.checked(key), source: tuple(f.shifted(-annotation.span.start) for f in findings)}
+    ls.host.set_checked(key, kept)  # the host places them with the review's findings
 
 
 def _publish(ls: NoteServer, uri: str) -> None:
@@ -295,7 +285,7 @@ def _unchecked(ls: NoteServer, held: HeldDocument) -> list[Annotation]:
     """The checkable annotations with no computed findings kept for their text yet."""
     if held.review is None:
         return []
-    kept = _computed(ls).get(held.uri, {})
+    kept = _kept(ls, held.uri)
     return [a for a in held.review.annotations if _checkable(a) and held.text[a.span.start : a.span.end] not in kept]
 
 
@@ -347,6 +337,8 @@ def _finding_json(finding: Finding, held: HeldDocument) -> dict[str, Any]:
 
 
 def register(server: NoteServer) -> None:
+    server.on_change.append(schedule_automatic)
+
     @server.command(COMMAND)
     async def cross_check_command(ls: NoteServer, *arguments: Any) -> dict[str, Any]:
         """Arguments: uri, offset of the annotation, and optionally a level such as "HF/STO-3G"."""

@@ -13,7 +13,15 @@ also pushed to, so nothing is shown twice.
 
 Pushed diagnostics are built as JSON directly: a long note has a thousand
 findings, and lsprotocol objects serialised through cattrs cost more than the
-review of a one-line edit.
+review of a one-line edit.  :func:`diagnostic_json` is the one place a finding
+becomes a diagnostic; the lsprotocol object pulled diagnostics and code actions
+need is read from that JSON.
+
+Every review comes from the server's analysis host (``NoteServer.host``): the
+document's edits, settings and computed results are handed to it
+(``NoteServer.synced``), and what is published is its snapshot's findings,
+the cross-checks' included.  Results computed in the background come in the
+same way and are shown by :func:`republish`, the same path as an edit's.
 """
 
 from __future__ import annotations
@@ -22,13 +30,16 @@ import asyncio
 import logging
 import time
 from typing import Any, Iterable
+from urllib.parse import unquote
 
 from lsprotocol import types
 
+from lsprotocol.converters import get_converter
+
 from ..review.describe import rule_doc_url
-from ..review.document import DocumentReview, review_text, species_to_compute
+from ..review.document import species_to_compute
 from ..review.findings import Finding, Severity
-from . import geometries
+from ..review.host import AnalysisHost
 from .app import NoteServer
 from .positions import LineIndex, line_index
 
@@ -49,20 +60,12 @@ _SEVERITY = {
 _SEVERITY_NUMBER = {severity: lsp.value for severity, lsp in _SEVERITY.items()}
 
 
+_CONVERTER = get_converter()
+
+
 def to_diagnostic(finding: Finding, index: LineIndex) -> types.Diagnostic:
-    href = rule_doc_url(finding.code)
-    return types.Diagnostic(
-        range=index.range(finding.span),
-        severity=_SEVERITY[finding.severity],
-        code=finding.code,
-        code_description=types.CodeDescription(href=href) if href else None,
-        source=SOURCE,
-        message=finding.message,
-    )
-
-
-def diagnostics_of(review: DocumentReview | None, index: LineIndex) -> list[types.Diagnostic]:
-    return [] if review is None else [to_diagnostic(f, index) for f in review.findings]
+    """``diagnostic_json(finding, index)`` as an lsprotocol object (for replies built from objects)."""
+    return _CONVERTER.structure(diagnostic_json(finding, index), types.Diagnostic)
 
 
 def diagnostic_json(finding: Finding, index: LineIndex) -> dict[str, Any]:
@@ -101,28 +104,10 @@ def _client_pulls(ls: NoteServer) -> bool:
     return bool(document and document.diagnostic)
 
 
-def _computed(ls: NoteServer, uri: str) -> list[Finding]:
-    """Findings of cross-checks run on this document (optional feature notelsp.server.crosscheck)."""
-    try:
-        from .crosscheck import computed_findings  # imported late: it imports this module
-    except ImportError:
-        return []
-    held = ls.held(uri)
-    return [] if held is None else computed_findings(ls, held)
-
-
-def _cross_check_later(ls: NoteServer, uri: str) -> None:
-    """Let the optional cross-check look at the edit (it runs only with cross_check_automatic)."""
-    try:
-        from .crosscheck import schedule_automatic
-    except ImportError:
-        return
-    schedule_automatic(ls, uri)
-
-
 def schedule(ls: NoteServer, uri: str, delay: float | None = None) -> None:
     """Publish the document's diagnostics after ``delay``; by default at once, or after the pause in a burst."""
-    _cross_check_later(ls, uri)
+    for changed in ls.on_change:  # the optional cross-check looks at the edit (only with cross_check_automatic)
+        changed(ls, uri)
     if _client_pulls(ls):
         return
     _publish_soon(ls, uri, delay)
@@ -152,56 +137,58 @@ def _publish_soon(ls: NoteServer, uri: str, delay: float | None) -> None:
     ls.pending[uri] = asyncio.get_running_loop().create_task(_publish_later(ls, uri, delay))
 
 
-def _reviewed_slice(text: str, kind, settings, encoding: str, done_before: int,
-                    computed: dict) -> tuple[list[dict[str, Any]], int | None, tuple[str, ...]]:
-    """One slice of the review as JSON, where it stopped (None: the whole note) and the species it names.
+def _reviewed_slice(host: AnalysisHost, key: str, version: int | None, encoding: str,
+                    done_before: int) -> tuple[list[dict[str, Any]], int | None, tuple[str, ...]] | None:
+    """One slice of the host's review as JSON, where it stopped (None: the whole note) and the species it names;
+    None when the host holds another version by now (a newer change has its own publication).
 
     It goes on past ``done_before`` (where the previous slice stopped: those lines are found in the
-    review's caches) whatever the clock says, then for about REVIEW_BUDGET_SECONDS more, so every
-    slice gets further than the last."""
+    host's memory) whatever the clock says, then for about REVIEW_BUDGET_SECONDS more, so every
+    slice gets further than the last.  A whole review carries the cross-checks' findings too."""
     deadline = time.monotonic() + REVIEW_BUDGET_SECONDS
-    review = review_text(text, kind, settings, computed=computed,
-                         more_time=lambda line_start: line_start <= done_before or time.monotonic() < deadline)
-    species = species_to_compute(review) if review.stopped_at is None else ()
-    return diagnostics_json(review.findings, line_index(text, encoding)), review.stopped_at, species
+    snapshot = host.snapshot(key, more_time=lambda line_start: line_start <= done_before or time.monotonic() < deadline)
+    if snapshot is None or snapshot.document.version != version:
+        return None
+    review = snapshot.review
+    whole = review.stopped_at is None
+    species = species_to_compute(review) if whole else ()
+    findings = snapshot.findings if whole else review.findings
+    return diagnostics_json(findings, line_index(snapshot.document.text, encoding)), review.stopped_at, species
 
 
 async def _publish_later(ls: NoteServer, uri: str, delay: float) -> None:
     if delay > 0:
         await asyncio.sleep(delay)
-    document = ls.open_document(uri)
+    document = ls.synced(uri)  # the host takes the edits since it was last asked
     if document is None:
         return
-    text, version = document.source, document.version
+    key, version = document.uri, document.version
     diagnostics: list[dict[str, Any]] = []
     whole = True
     species: tuple[str, ...] | None = None  # named by the annotations, once the whole review is done
-    results = geometries.computed_for(ls, uri)  # the calculations' results known so far
+    results = ls.host.computed(key)  # the calculations' results known so far, as the review uses them
     if ls.is_reviewed(uri):
-        kind, settings, encoding = ls.review_kind(uri), ls.settings_for(uri)[0], ls.encoding()
+        encoding = ls.encoding()
         first, stopped_at = True, 0
         while first or not whole:  # a review past its budget: what it has first, then the rest slice by slice
             try:
-                diagnostics, stopped_at, species = await asyncio.to_thread(
-                    _reviewed_slice, text, kind, settings, encoding, stopped_at or 0, results)
+                sliced = await asyncio.to_thread(_reviewed_slice, ls.host, key, version, encoding, stopped_at or 0)
             except Exception:
                 log.exception("review of %s failed", uri)
-                diagnostics, stopped_at, species = [], None, None
-            whole = stopped_at is None
+                sliced = [], None, None
             current = ls.open_document(uri)
-            if current is None or current.version != version:
+            if sliced is None or current is None or current.version != version:
                 return  # stale: a newer change has its own publication scheduled (or the document closed)
+            diagnostics, stopped_at, species = sliced
+            whole = stopped_at is None
             if first and not whole:
                 publish_json(ls, uri, version, diagnostics)  # carries review-continues where it stopped
             first = False
     current = ls.open_document(uri)
     if current is None or current.version != version:
         return  # stale: a newer change has its own publication scheduled (or the document closed)
-    checked = _computed(ls, uri)
-    if checked:
-        diagnostics += diagnostics_json(checked, line_index(text, ls.encoding()))
     publish_json(ls, uri, version, diagnostics)
-    if species is not None and geometries.want(ls, uri, species, results):
+    if species is not None and ls.wants_geometries(ls, uri, species, results):
         _publish_soon(ls, uri, 0.0)  # results computed for another document or before this edit: use them
 
 
@@ -230,7 +217,9 @@ def register(server: NoteServer) -> None:
         uri = params.text_document.uri
         if (task := ls.pending.pop(uri, None)) is not None:
             task.cancel()
-        geometries.forget(ls, uri)
+        ls.host.close(unquote(uri))
+        for closed_by in ls.on_close:  # what only it named is not computed
+            closed_by(ls, uri)
         if not _client_pulls(ls):
             publish_json(ls, uri, None, [])
 
@@ -240,10 +229,10 @@ def register(server: NoteServer) -> None:
     )
     def pulled(ls: NoteServer, params: types.DocumentDiagnosticParams) -> types.FullDocumentDiagnosticReport:
         held = ls.held(params.text_document.uri)  # reviewed with the calculations' results known so far
-        items = [] if held is None else diagnostics_of(held.review, held.index) + [
-            to_diagnostic(finding, held.index) for finding in _computed(ls, held.uri)]
+        items = [] if held is None or held.review is None else [
+            to_diagnostic(finding, held.index) for finding in (*held.review.findings, *held.checked)]
         if held is not None and held.review is not None and held.review.stopped_at is None:
-            if geometries.want(ls, held.uri, species_to_compute(held.review),
-                               geometries.computed_for(ls, held.uri)):
+            if ls.wants_geometries(ls, held.uri, species_to_compute(held.review),
+                                   ls.computed_geometries(ls, held.uri)):
                 republish(ls, held.uri)  # known results the document had not named before: pull again
         return types.FullDocumentDiagnosticReport(items=items)

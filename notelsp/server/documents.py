@@ -5,6 +5,8 @@ out again, and splits at every Unicode line break (U+2028, form feed, ...)
 where LSP breaks lines only at CR, LF and CRLF.  Here the change's range is
 converted with the same line index the diagnostics use (cached for the text
 just published, so usually no work) and the text is spliced in one step.
+Each edit is also kept as code-point offsets (:meth:`SplicedDocument.take_edits`) and handed to
+the analysis host as it is (``NoteServer.synced``), so nothing below has to work out what changed.
 A notebook change naming a notebook or cell that is not open is dropped
 (pygls would fail on it and show the user an error).
 """
@@ -20,12 +22,38 @@ from pygls.workspace import TextDocument, Workspace
 from .positions import UTF16, line_index
 
 
+_KEPT_EDITS = 256  # more edits than this before anyone asks: the host is handed the whole text instead
+
+
 class SplicedDocument(TextDocument):
+    _edits_from: str | None = None  # the text the kept edits apply to
+    _edits: list[tuple[int, int, str]] | None = None
+
     def _apply_incremental_change(self, change: types.TextDocumentContentChangePartial) -> None:
         source = self.source
         index = line_index(source, self.position_codec.encoding or UTF16)  # the index names the encoding
         start, end = sorted((index.offset(change.range.start), index.offset(change.range.end)))
+        self._keep_edit(source, start, end, change.text)
         self._source = source[:start] + change.text + source[end:]
+
+    def _apply_full_change(self, change: types.TextDocumentContentChangeEvent) -> None:
+        self._keep_edit(self.source, 0, len(self.source), change.text)
+        super()._apply_full_change(change)
+
+    def _keep_edit(self, source: str, start: int, end: int, text: str) -> None:
+        if self._edits is None:
+            self._edits_from, self._edits = source, []
+        elif self._edits_from is None:
+            return  # lost count already: the host takes the whole text
+        self._edits.append((start, end, text))
+        if len(self._edits) > _KEPT_EDITS:
+            self._edits_from, self._edits = None, []  # too many to be worth replaying
+
+    def take_edits(self) -> tuple[str | None, list[tuple[int, int, str]]]:
+        """The text the edits since the last call apply to (None: unknown), and the edits in order."""
+        edits_from, edits = self._edits_from, self._edits or []
+        self._edits_from, self._edits = None, None
+        return edits_from, edits
 
 
 class SplicedWorkspace(Workspace):

@@ -34,6 +34,7 @@ from typing import TYPE_CHECKING, Any
 from lsprotocol import types
 
 from .app import NoteServer
+from .diagnostics import republish
 from .exiting import before_leaving
 
 if TYPE_CHECKING:  # the compute package (and its pool) is imported on first need: the server starts without it
@@ -288,8 +289,6 @@ def _keep(ls: NoteServer, state: Geometries, name: str, result: ComputedSpecies 
     if state.batch_cancelled and result.failed is not None:
         return False  # possibly cancelled before it started: not a result to keep
     state.remember(name, result)
-    from .diagnostics import republish
-
     for uri, named in list(state.wanted.items()):
         if name in named:
             republish(ls, uri)
@@ -341,6 +340,10 @@ class _Progress:
 
 
 def register(server: NoteServer) -> None:
+    server.computed_geometries = computed_for
+    server.wants_geometries = want
+    server.on_close.append(forget)
+
     @server.feature(types.SHUTDOWN)
     def shutdown(ls: NoteServer, params: Any) -> None:
         state: Geometries | None = getattr(ls, "geometries", None)

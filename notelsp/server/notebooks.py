@@ -50,6 +50,7 @@ def _forget(ls: NoteServer, uri: str) -> None:
     """A cell went away: drop its pending publication and clear what was shown for it."""
     if (task := ls.pending.pop(uri, None)) is not None:
         task.cancel()
+    ls.host.close(unquote(uri))
     document = ls.client_capabilities.text_document
     if not (document and document.diagnostic):  # a pulling client asks again by itself
         publish_json(ls, uri, None, [])
@@ -59,6 +60,7 @@ def register(server: NoteServer) -> None:
     # pygls builds the notebookDocumentSync capability from this constructor option (offered only to
     # clients that declare notebook support); setting it here keeps the feature in this module.
     server._notebook_document_sync = SYNC_OPTIONS
+    server.cell_reviewed = reviewed_cell
 
     @server.feature(types.NOTEBOOK_DOCUMENT_DID_OPEN)
     def opened(ls: NoteServer, params: types.DidOpenNotebookDocumentParams) -> None:

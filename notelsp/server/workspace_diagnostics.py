@@ -17,6 +17,7 @@ import asyncio
 import hashlib
 import logging
 import os
+from collections.abc import Callable
 from dataclasses import dataclass
 from pathlib import Path
 from urllib.parse import unquote, urlparse
@@ -24,11 +25,12 @@ from urllib.parse import unquote, urlparse
 from lsprotocol import types
 
 from .. import __version__
-from ..review.document import kind_of_path, review_text
+from ..review.document import DocumentReview, kind_of_path, review_text
 from ..review.findings import Finding
 from ..review.settings import Settings
 from ..notefiles import FileProblem, read_note
-from ..review.workspace import cached_review, is_hidden, is_reviewed
+from ..review.host import AnalysisHost
+from ..review.workspace import is_hidden, is_reviewed
 from .app import NoteServer
 from .diagnostics import to_diagnostic
 from .positions import line_index
@@ -47,12 +49,12 @@ class _OpenNote:
 
 
 def _computed(ls: NoteServer, uri: str) -> tuple[Finding, ...]:
-    try:
-        from .crosscheck import computed_findings  # optional feature
-    except ImportError:
-        return ()
+    """The cross-checks' findings of an open note (placed by the analysis host)."""
     held = ls.held(uri)
-    return () if held is None else tuple(computed_findings(ls, held))
+    return () if held is None else held.checked
+
+
+Reviewer = Callable[[str, str, Settings], DocumentReview]
 
 
 def local_path(uri: str) -> Path | None:
@@ -76,12 +78,11 @@ def result_id(text: str, settings: Settings, encoding: str, computed: tuple[Find
 
 
 def _report(uri: str, version: int | None, text: str, kind: str, settings: Settings, encoding: str,
-            computed: tuple[Finding, ...], previous: str | None, open_note: bool):
+            computed: tuple[Finding, ...], previous: str | None, reviewed: Reviewer):
     rid = result_id(text, settings, encoding, computed)
     if previous == rid:
         return types.WorkspaceUnchangedDocumentDiagnosticReport(uri=uri, version=version, result_id=rid)
-    # open notes share the server's review cache; files on disk would only push those out of it
-    review = cached_review(text, kind, settings) if open_note else review_text(text, kind, settings)
+    review = reviewed(text, kind, settings)
     index = line_index(text, encoding)
     items = [to_diagnostic(finding, index) for finding in (*review.findings, *computed)]
     return types.WorkspaceFullDocumentDiagnosticReport(uri=uri, version=version, items=items, result_id=rid)
@@ -110,8 +111,16 @@ def read_saved_note(path: Path) -> str:
 
 
 def workspace_reports(open_notes: list[_OpenNote], root: Path | None, settings: Settings, encoding: str,
-                      previous: dict[str, str]) -> tuple[list, bool]:
-    """The reports, and whether notes were left out because there were more than ``MAX_NOTES``."""
+                      previous: dict[str, str], host: AnalysisHost | None = None,
+                      saved_host: AnalysisHost | None = None) -> tuple[list, bool]:
+    """The reports, and whether notes were left out because there were more than ``MAX_NOTES``.
+
+    ``host``: the server's analysis host, whose memory the open notes' reviews share; files on
+    disk are reviewed with ``saved_host`` (a memory of their own: they would only push the open
+    notes' reviews out of the host's).  Without them each review starts from nothing.
+    """
+    open_review: Reviewer = review_text if host is None else host.review_text
+    saved_review: Reviewer = review_text if saved_host is None else saved_host.review_text
     reports = []
     open_paths = set()
     for note in open_notes[:MAX_NOTES]:
@@ -120,7 +129,7 @@ def workspace_reports(open_notes: list[_OpenNote], root: Path | None, settings: 
             open_paths.add(path)
         try:
             reports.append(_report(note.uri, note.version, note.text, note.kind, settings, encoding,
-                                   note.computed, previous.get(note.uri), open_note=True))
+                                   note.computed, previous.get(note.uri), open_review))
         except Exception:
             log.exception("review of %s failed", note.uri)
     if root is None or not root.is_dir():
@@ -138,7 +147,7 @@ def workspace_reports(open_notes: list[_OpenNote], root: Path | None, settings: 
         try:
             text = read_saved_note(path)
             reports.append(_report(uri, None, text, kind_of_path(path.name), settings, encoding,
-                                   (), previous.get(uri), open_note=False))
+                                   (), previous.get(uri), saved_review))
         except UnreadableNote as problem:  # leave it out, say why in the log
             log.warning("workspace diagnostics: %s", problem)
         except Exception:
@@ -157,7 +166,7 @@ def register(server: NoteServer) -> None:
             if ls.is_reviewed(uri)
         ]
         reports, capped = await asyncio.to_thread(
-            workspace_reports, open_notes, ls.root, ls.settings, ls.encoding(), previous)
+            workspace_reports, open_notes, ls.root, ls.settings, ls.encoding(), previous, ls.host, ls.saved_notes)
         if capped:
             ls.window_log_message(types.LogMessageParams(
                 type=types.MessageType.Info,

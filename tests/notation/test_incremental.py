@@ -70,32 +70,43 @@ def _whole(text):
 @given(documents, st.data())
 def test_an_edit_reparses_to_the_whole_text_result(lines, data):
     before = "\n".join(lines) + "\n"
-    markdown_structure(before)  # remembered: the next text is treated as an edit of it
     at = data.draw(st.integers(min_value=0, max_value=len(lines)))
     removed = data.draw(st.integers(min_value=0, max_value=3))
     inserted = data.draw(st.lists(st.sampled_from(LINES), max_size=3))
     after = "\n".join(lines[:at] + inserted + lines[at + removed :]) + "\n"
-    structure = markdown_structure(after)
-    assert (structure.segments, structure.bonding_lines) == _whole(after)
+    # The edit found by comparing the texts, and the edit named as the editor names it (by its range).
+    prefix = sum(len(line) + 1 for line in lines[:at])
+    suffix = sum(len(line) + 1 for line in lines[at + removed :])
+    for known in (False, True):
+        memory = BlockMemory()
+        markdown_structure(before, memory)  # remembered: the next text is treated as an edit of it
+        if known:
+            memory.expect_edit(before, after, prefix, suffix)
+        structure = markdown_structure(after, memory)
+        assert (structure.segments, structure.bonding_lines) == _whole(after)
 
 
 @settings(max_examples=60, deadline=None)
 @given(documents, st.data())
 def test_a_character_typed_inside_a_line_reparses_to_the_whole_text_result(lines, data):
     before = "\n".join(lines) + "\n"
-    markdown_structure(before)
     at = data.draw(st.integers(min_value=0, max_value=len(before)))
     typed = data.draw(st.sampled_from(["x", "`", "{", "}", "\n", "$", "<", "-", "#", " "]))
     after = before[:at] + typed + before[at:]
-    structure = markdown_structure(after)
-    assert (structure.segments, structure.bonding_lines) == _whole(after)
+    for known in (False, True):  # found by comparing, and named by the edit's range
+        memory = BlockMemory()
+        markdown_structure(before, memory)
+        if known:
+            memory.expect_edit(before, after, at, len(before) - at)
+        structure = markdown_structure(after, memory)
+        assert (structure.segments, structure.bonding_lines) == _whole(after)
 
 
 # --- chains of random edits, each compared with a whole parse ------------------------------
 
 import random  # noqa: E402
 
-from notelsp.notation.markdown import forget_documents  # noqa: E402
+from notelsp.notation.markdown import BlockMemory  # noqa: E402
 from tests.reliability.scale import scaled, tried  # noqa: E402
 
 # Lines that reach across blocks (reference definitions and the links that use them), added
@@ -141,17 +152,17 @@ def test_random_edit_chains_reparse_to_the_whole_text_result():
     rng = random.Random(20261203)
     done, differing = 0, []
     while done < EDIT_COUNT:
-        forget_documents()
+        memory = BlockMemory()  # one open document's
         text = "\n".join(rng.choice(LINES + REACHING_LINES) for _ in range(rng.randint(0, 40))) + "\n"
-        markdown_structure(text)
+        markdown_structure(text, memory)
         for _ in range(25):
             before, text = text, _random_edit(rng, text)
-            structure = markdown_structure(text)
+            structure = markdown_structure(text, memory)
             done += 1
             if (structure.segments, structure.bonding_lines) != _whole(text):
                 differing.append((before, text))
-                forget_documents()
-                markdown_structure(text)
+                memory = BlockMemory()
+                markdown_structure(text, memory)
     tried("incremental re-parses compared with a whole parse (random edit chains)", done)
     assert not differing, f"{len(differing)} of {done} edits differ; the smallest:\n{min(differing, key=lambda p: len(p[1]))!r}"
 
@@ -160,8 +171,8 @@ def test_deleting_a_definitions_colon_shows_the_annotation_in_a_link_far_below()
     """The link below is re-read once the definition it used is gone (it is then plain text)."""
     before = "[{H2O: bent}]: /u\n\n" + "p\n\n" * 6 + "see [a][{H2O: bent}]\n"
     after = before.replace("]:", "]", 1)
-    forget_documents()
-    markdown_structure(before)
-    structure = markdown_structure(after)
+    memory = BlockMemory()
+    markdown_structure(before, memory)
+    structure = markdown_structure(after, memory)
     assert (structure.segments, structure.bonding_lines) == _whole(after)
     assert [segment.text for segment in structure.segments] == ["[{H2O: bent}] /u", "see [a][{H2O: bent}]"]

@@ -17,7 +17,7 @@ from dataclasses import dataclass
 import pytest
 
 from notelsp.notation import scan
-from notelsp.notation.markdown import forget_documents
+from notelsp.notation.markdown import BlockMemory
 from notelsp.notation.scanner import scan_with_structure
 from tests.reliability.scale import scaled, tried
 
@@ -50,7 +50,6 @@ def found(text: str, document) -> list[tuple[int, int, int, int, str]]:
 
 
 def notelsp_found(text: str) -> list[tuple[int, int, int, int, str]]:
-    forget_documents()  # a whole parse: re-parsing around edits is tested in test_incremental.py
     return found(text, scan(text, "markdown"))
 
 
@@ -217,9 +216,9 @@ _EDIT_CHARACTERS = "`$~>-{}\n \\|<[]("  # the characters that open or close stru
 
 def _incremental_found(before: str, after: str) -> list[tuple[int, int, int, int, str]]:
     """What notelsp finds in ``after`` when it was scanning ``before`` just now (an edit)."""
-    forget_documents()
-    scan(before, "markdown")
-    return found(after, scan(after, "markdown"))
+    memory = BlockMemory()
+    scan(before, "markdown", memory)
+    return found(after, scan(after, "markdown", memory))
 
 
 def _edited(rng: random.Random, text: str, other: str) -> str:
@@ -276,7 +275,6 @@ def _written(text: str) -> list[tuple[str, str]]:
     """Each annotation's body as written, and its form.  The body, not the whole span: a tab
     before a bonding line's body is partly indentation, and where such a line starts is
     normalised away as in ``found``."""
-    forget_documents()
     return [(text[a.body.start : a.body.end], a.form) for a in scan(text, "markdown").annotations]
 
 

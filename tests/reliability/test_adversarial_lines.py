@@ -14,8 +14,9 @@ from __future__ import annotations
 
 import pytest
 
-from notelsp.review.document import forget_cached_results, review_text
+from notelsp.review.document import review_text
 
+from .afresh import clear_memoised_parses
 from .scale import scaled, tried
 
 SIZE = scaled(200_000, 1_000_000)  # characters per note
@@ -44,7 +45,7 @@ CONSTRUCTS = {
 def test_a_note_of_one_repeated_construct_is_reviewed(construct):
     text = CONSTRUCTS[construct](SIZE) + " {H2O: bent}\n"
     first = review_text(text)
-    forget_cached_results()
+    clear_memoised_parses()
     again = review_text(text)
     tried("adversarial notes reviewed (one construct repeated)")
     assert [(f.code, f.span) for f in first.findings] == [(f.code, f.span) for f in again.findings]

@@ -26,7 +26,7 @@ from collections.abc import Callable
 
 import pytest
 
-from notelsp.notation import markdown, markdown_blocks, scan, scanner
+from notelsp.notation import markdown_blocks, scan, scanner
 
 from .scale import FUZZ, scaled, tried
 
@@ -69,8 +69,8 @@ CONSTRUCTS: dict[str, Callable[[int], str]] = {
 
 
 def _scan_afresh(text: str):
-    """Scan ``text`` with every cache of the scanner emptied (nothing remembered from a run before)."""
-    markdown.forget_documents()
+    """Scan ``text`` with every cache of the scanner emptied (nothing remembered from a run before; no
+    block memory is passed, so nothing of another document is either)."""
     scanner._inline_groups.cache_clear()
     scanner._block_body.cache_clear()
     markdown_blocks._paragraph_pieces.cache_clear()

@@ -6,9 +6,10 @@ from __future__ import annotations
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from notelsp.review.document import forget_cached_results, review_text
+from notelsp.review.document import review_text
 from notelsp.server.positions import UTF8, UTF16, line_index, units_of
 
+from .afresh import clear_memoised_parses
 from .scale import scaled, tried
 
 # Pieces that sit close to real annotations, so generated text often nearly parses
@@ -51,7 +52,7 @@ def _assert_inside(text: str, review) -> None:
 
 
 def _fresh_review(text: str, kind: str):
-    forget_cached_results()  # every review-path cache, so this really is a review from scratch
+    clear_memoised_parses()  # and no host's memory: this really is a review from scratch
     return review_text(text, kind)
 
 

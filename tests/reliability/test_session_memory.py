@@ -20,8 +20,9 @@ def _held_per_uri(server) -> dict[str, int]:
         "scheduled diagnostics": len(server.pending),
         "futures of running handlers": len(server.protocol._request_futures),
         "cancellable request steps": len(server.protocol._request_steps),
+        "documents of the analysis host": len(server.host.uris()),  # with their settings and cross-checks
     }
-    for name in ("crosscheck_findings", "crosscheck_automatic", "crosscheck_calculating", "crosscheck_look_again"):
+    for name in ("crosscheck_automatic", "crosscheck_calculating", "crosscheck_look_again"):
         held[name] = len(getattr(server, name, ()) or ())
     return held
 

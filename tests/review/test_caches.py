@@ -101,12 +101,11 @@ def test_paragraph_pieces_and_fence_patterns_stay_at_the_cap():
 
 
 def test_remembered_documents_stay_at_the_cap():
-    markdown.forget_documents()
+    memory = markdown.BlockMemory()
     for number in range(markdown._RECENT_LIMIT + 10):
-        markdown.markdown_structure(f"# Note {number}\n\nText {{ClF3: t-shaped}} {number}\n")
-        assert len(markdown._recent) <= markdown._RECENT_LIMIT
-    assert len(markdown._recent) == markdown._RECENT_LIMIT
-    markdown.forget_documents()
+        markdown.markdown_structure(f"# Note {number}\n\nText {{ClF3: t-shaped}} {number}\n", memory)
+        assert len(memory) <= markdown._RECENT_LIMIT
+    assert len(memory) == markdown._RECENT_LIMIT
 
 
 def test_line_starts_and_line_indexes_stay_at_the_cap():
@@ -117,10 +116,12 @@ def test_line_starts_and_line_indexes_stay_at_the_cap():
 
 
 def test_whole_reviews_and_file_patterns_stay_at_the_cap():
-    settings = Settings()
-    _fill(workspace.cached_review, lambda n: workspace.cached_review(f"Note {n}: {{SF4: seesaw}}\n", "markdown", settings))
-    patterns = [value for name, value in vars(workspace).items()
-                if isinstance(value, functools._lru_cache_wrapper) and value is not workspace.cached_review]
+    memory = document.ReviewMemory()
+    for n in range(document._FINISHED_LIMIT + 10):
+        document.review_text(f"Note {n}: {{SF4: seesaw}}\n", "markdown", Settings(), memory=memory)
+        assert len(memory.finished) <= document._FINISHED_LIMIT
+    assert len(memory.finished) == document._FINISHED_LIMIT  # full, not emptied
+    patterns = [value for name, value in vars(workspace).items() if isinstance(value, functools._lru_cache_wrapper)]
     assert patterns  # the files patterns' compiled forms
     for cached in patterns:
         (parameter,) = inspect.signature(cached).parameters
@@ -185,30 +186,27 @@ def test_species_analyses_stay_at_the_cap(monkeypatch):
 
 def test_annotation_reviews_stay_at_the_cap_within_one_note_and_across_notes(monkeypatch):
     monkeypatch.setattr(document, "_REVIEWS_LIMIT", 20)
-    document.forget_cached_results()
-    try:
-        settings = Settings()
-        # One note with more distinct annotations (each with a finding) than the cap.
-        note = "".join(f"Run {n}: {{ClF3: trigonal planar, angle {90 + n}°}}\n\n" for n in range(50))
-        document.review_text(note, "markdown", settings)
-        relative, placed = document._reviews[settings]
-        assert 0 < len(relative) <= 20 and 0 < len(placed) <= 20
-        for n in range(50):
-            document.review_text(f"Edit {n}: {{SF4: tetrahedral, angle {100 + n}°}}\n", "markdown", settings)
-            relative, placed = document._reviews[settings]
-            assert len(relative) <= 20 and len(placed) <= 20
-        # More sets of settings than are kept.
-        for n in range(document._SETTINGS_LIMIT + 5):
-            document.review_text("{SF4: seesaw}", "markdown", Settings(disabled=frozenset({f"rule-{n}"})))
-            assert len(document._reviews) <= document._SETTINGS_LIMIT
-    finally:
-        document.forget_cached_results()
+    memory = document.ReviewMemory()
+    settings = Settings()
+    # One note with more distinct annotations (each with a finding) than the cap.
+    note = "".join(f"Run {n}: {{ClF3: trigonal planar, angle {90 + n}°}}\n\n" for n in range(50))
+    document.review_text(note, "markdown", settings, memory=memory)
+    relative, placed = memory.reviews[settings]
+    assert 0 < len(relative) <= 20 and 0 < len(placed) <= 20
+    for n in range(50):
+        document.review_text(f"Edit {n}: {{SF4: tetrahedral, angle {100 + n}°}}\n", "markdown", settings, memory=memory)
+        relative, placed = memory.reviews[settings]
+        assert len(relative) <= 20 and len(placed) <= 20
+    # More sets of settings than are kept.
+    for n in range(document._SETTINGS_LIMIT + 5):
+        document.review_text("{SF4: seesaw}", "markdown", Settings(disabled=frozenset({f"rule-{n}"})), memory=memory)
+        assert len(memory.reviews) <= document._SETTINGS_LIMIT
 
 
 def test_a_review_after_a_cache_was_emptied_is_the_same():
     note = "".join(f"Run {n}: {{ClF3: trigonal planar, angle {90 + n}°}}\n\n" for n in range(30))
-    document.forget_cached_results()
-    first = document.review_text(note)
-    document.forget_cached_results()
+    first = document.review_text(note, memory=document.ReviewMemory())
+    for cached in (transform.parse_body, scanner._inline_groups, scanner._block_body, markdown_blocks._paragraph_pieces):
+        cached.cache_clear()
     analysis._cache.clear()
-    assert document.review_text(note).findings == first.findings
+    assert document.review_text(note, memory=document.ReviewMemory()).findings == first.findings

@@ -39,8 +39,9 @@ def test_moving_an_annotation_moves_its_findings():
 def test_edits_reuse_nothing_they_should_not():
     """A sequence of edits (each review reusing what the last left at its place) gives, at every step,
     exactly the review of the same text computed from scratch."""
-    from notelsp.review.document import forget_cached_results
+    from notelsp.review.host import AnalysisHost
 
+    host = AnalysisHost()  # one memory across the edits, as an editor's session has
     rng = random.Random(3)
     pieces = ["{ClF3: bent}", "{SF4: seesaw}", "{XeF4: tetrahedral}", " text ", "\n", "\n\n", "# {PCl5: linear}\n",
               "```bonding\nSF6: octahedral\nNH3: planar\n```\n", "`{ClF3: bent}`", "| {SF4: bent} | b |\n|---|---|\n"]
@@ -48,11 +49,10 @@ def test_edits_reuse_nothing_they_should_not():
     for _ in range(40):
         at, cut = rng.randrange(len(text) + 1), rng.randint(0, 12)
         text = text[:at] + rng.choice(pieces) + text[at + cut:]
-        incremental = [(f.code, f.span, f.fixes) for f in review_text(text).findings]
-        forget_cached_results()
-        fresh = [(f.code, f.span, f.fixes) for f in review_text(text).findings]
+        incremental = [(f.code, f.span, f.fixes) for f in host.review_text(text).findings]
+        fresh = [(f.code, f.span, f.fixes) for f in review_text(text).findings]  # no memory: from scratch
         assert incremental == fresh
-        review_text(text[: len(text) // 2])  # a different text in between, as another open note would be
+        host.review_text(text[: len(text) // 2])  # a different text in between, as another open note would be
 
 
 def test_markdown_structure_is_respected_and_text_files_are_read_whole():

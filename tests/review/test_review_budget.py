@@ -6,8 +6,8 @@ from __future__ import annotations
 import pytest
 
 from notelsp.notation.model import Span
-from notelsp.review import document
 from notelsp.review.document import review_around, review_text
+from notelsp.review.host import AnalysisHost
 from notelsp.review.settings import Settings
 
 # Wrong and right claims, inline and in bonding blocks, several annotations to a line (VSEPR shapes:
@@ -30,17 +30,9 @@ def _answers(count: int):
     return more_time
 
 
-@pytest.fixture(autouse=True)
-def _fresh():
-    document.forget_cached_results()
-    yield
-    document.forget_cached_results()
-
-
 @pytest.mark.parametrize("allowed", [0, 1, 5, 30])
 def test_a_stopped_review_is_the_whole_reviews_beginning_and_says_where_it_stopped(allowed):
     whole = review_text(NOTE)
-    document.forget_cached_results()
     part = review_text(NOTE, more_time=_answers(allowed))
     assert part.stopped_at is not None
     assert part.stopped_at == 0 or NOTE[part.stopped_at - 1] == "\n"  # at a line's start
@@ -54,13 +46,13 @@ def test_a_stopped_review_is_the_whole_reviews_beginning_and_says_where_it_stopp
 
 def test_a_review_with_time_to_spare_is_the_whole_review():
     whole = review_text(NOTE)
-    document.forget_cached_results()
     assert review_text(NOTE, more_time=lambda line_start: True) == whole
 
 
 def test_the_whole_review_after_a_stopped_one_has_no_mark():
-    review_text(NOTE, more_time=_answers(3))
-    whole = review_text(NOTE)
+    host = AnalysisHost()  # what the stopped review left is reused
+    host.review_text(NOTE, more_time=_answers(3))
+    whole = host.review_text(NOTE)
     assert whole.stopped_at is None
     assert "review-continues" not in {f.code for f in whole.findings}
 
@@ -77,7 +69,6 @@ def test_the_review_is_asked_with_each_further_line_start_and_goes_on_while_told
     whole = review_text(NOTE, more_time=lambda line_start: asked.append(line_start) or True)
     assert whole.stopped_at is None
     assert asked == sorted(set(asked)) and all(NOTE[start - 1] == "\n" for start in asked)
-    document.forget_cached_results()
     # A caller that lets it run to a given line (as the server does past its last stop) gets at least that far.
     middle = asked[len(asked) // 2]
     part = review_text(NOTE, more_time=lambda line_start: line_start <= middle)
@@ -86,12 +77,12 @@ def test_the_review_is_asked_with_each_further_line_start_and_goes_on_while_told
 
 def test_around_a_position_only_the_annotations_there_are_reviewed():
     whole = review_text(NOTE)
-    document.forget_cached_results()
     target = whole.annotations[41]  # somewhere in the middle
     settings = Settings()
     near = review_around(NOTE, "markdown", settings, Span(target.span.start + 2, target.span.start + 2))
     assert [a.span for a in near.annotations] == [target.span]
     assert near.findings == tuple(f for f in whole.findings if target.span.start <= f.span.start < target.span.end)
-    # With the complete review at hand, that is what is given.
-    review_text(NOTE)
-    assert review_around(NOTE, "markdown", settings, target.span).findings == whole.findings
+    # With the complete review at hand (in the same memory), that is what is given.
+    host = AnalysisHost()
+    host.review_text(NOTE, settings=settings)
+    assert review_around(NOTE, "markdown", settings, target.span, memory=host.memory).findings == whole.findings

@@ -13,7 +13,8 @@ import math
 
 import pytest
 
-from notelsp.review.document import forget_cached_results, review_text, species_to_compute
+from notelsp.review.document import review_text, species_to_compute
+from notelsp.review.host import AnalysisHost
 from notelsp.review.findings import Severity
 from notelsp.notation import scan
 
@@ -147,7 +148,7 @@ def test_findings_made_with_a_calculation_are_never_errors_and_new_rules_never_r
 
 
 def test_reviews_with_and_without_results_do_not_share_cached_findings():
-    forget_cached_results()
+    review_text = AnalysisHost().review_text  # one memory for the four reviews
     text = "Before {NF3: F-N-F 112.5°} after."
     assert review_text(text).findings == ()
     assert [f.code for f in review_text(text, computed=_computed()).findings] == ["angle-against-calculation"]
@@ -174,6 +175,7 @@ def test_a_computed_order_within_the_uncertainty_softens_the_rules_finding_witho
 
 def test_a_finished_review_is_reused_for_the_same_results_and_not_for_others():
     text = "Again {NF3: F-N-F 112.5°}."
+    review_text = AnalysisHost().review_text
     first = review_text(text, computed=_computed())
     assert review_text(text, computed=dict(_computed())) is first  # the same results, in another mapping
     assert review_text(text, computed={"NF3": stored()["NH3 unconverged"]}) is not first

@@ -14,7 +14,6 @@ import pytest
 
 import notelsp.chem.analysis as analysis
 import notelsp.chem.isomers as isomers
-from notelsp.review.document import forget_cached_results
 from notelsp.review.rules import RULES
 from tests.cli.conftest import run_notelsp
 
@@ -26,10 +25,10 @@ ISOMER_CODES = {"misplaced-ligand", "wrong-polarity", "wrong-point-group", "wron
 
 
 def _forget_every_cached_result() -> None:
-    """Isomers, species analyses and reviews are cached per process; a changed limit must not leak."""
+    """Isomers and species analyses are cached per process; a changed limit must not leak (reviews
+    here keep nothing: they are made without an analysis host's memory)."""
     isomers._isomers.cache_clear()
     analysis._cache.clear()
-    forget_cached_results()
 
 
 @pytest.fixture
