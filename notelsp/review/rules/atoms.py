@@ -44,8 +44,8 @@ def centre_not_named(context: RuleContext) -> Iterator[Finding]:
 
     In CH3COOH the methyl carbon is tetrahedral and the carboxyl carbon trigonal
     planar, so "trigonal planar" alone is true of one and false of the other.
-    The claim is not judged; name the atom (``C2 trigonal planar``, ``H-C1-H
-    109°``) and it is.
+    The claim is not judged; name the atom (``C2 trigonal planar``,
+    ``H-C1-H 109°``) and it is.
     """
     found = focus(context.analyses, context.claim)
     if found.problem is not None and not found.unknown and found.terminal is None:
