@@ -3,7 +3,7 @@
 Pure: the CLI prints the Markdown, the server publishes the findings and
 shows the Markdown.  Findings are information when the calculation agrees
 with a claim and warnings when it does not, each labelled with the level of
-theory ("computed (HF/3-21G): ...").  Every code is a registered rule
+theory ("computed (HF/6-31G*): ...").  Every code is a registered rule
 (``review/rules/crosscheck.py``), so settings can disable it or set its
 severity; a finding that only reports agreement stays at most information.
 """

@@ -1,7 +1,7 @@
 """``$/cancelRequest`` for a running ``workspace/executeCommand`` stops the cross-check the command started.
 
 pygls cancels only the request's own future, not the command it runs; the
-server passes the cancel on (``NoteProtocol``).  Water at HF/3-21G, as in the
+server passes the cancel on (``NoteProtocol``).  Water at the default level (HF/6-31G*), as in the
 cross-check's own server tests (whose helpers are used here).
 """
 
