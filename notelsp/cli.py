@@ -303,6 +303,7 @@ def _check(paths: Sequence[str], options: CheckOptions, out: TextIO) -> int:
             stream=out if options.output == "text" else sys.stderr,  # keep JSON and SARIF parseable
             progress=sys.stderr,
             angle_tolerance=settings.angle_tolerance,
+            settings=settings,
         )
         cannot_run = cannot_run or outcome == EXIT_CANNOT_RUN
         failing = failing or outcome == EXIT_DISAGREES

@@ -232,8 +232,8 @@ async def run_cross_check(ls: NoteServer, uri: str, offset: int, level_text: str
     except ProgressCancelled:
         # answer normally: raising here would leave an executeCommand request unanswered
         return {"status": "cancelled", "markdown": "", "findings": [], "message": "cancelled from the progress"}
-    findings = cross_check_findings(result, annotation, ls.settings.angle_tolerance)
-    markdown = cross_check_markdown(result, annotation, ls.settings.angle_tolerance)
+    findings = cross_check_findings(result, annotation, ls.settings.angle_tolerance, settings=ls.settings)
+    markdown = cross_check_markdown(result, annotation, ls.settings.angle_tolerance, settings=ls.settings)
     _keep_findings(ls, held, annotation, findings)
     _publish(ls, uri)
     ls.window_log_message(types.LogMessageParams(type=types.MessageType.Info, message=markdown))
@@ -312,7 +312,7 @@ async def _automatic_run(ls: NoteServer, uri: str, delay: float) -> None:
                     except ProgressCancelled:
                         _keep_findings(ls, held, annotation, ())  # declined: not again until the annotation is edited
                         continue
-                findings = cross_check_findings(result, annotation, ls.settings.angle_tolerance)
+                findings = cross_check_findings(result, annotation, ls.settings.angle_tolerance, settings=ls.settings)
                 _keep_findings(ls, held, annotation, findings)
                 _publish(ls, uri)
             if uri not in _look_again(ls):
