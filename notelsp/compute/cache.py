@@ -34,7 +34,7 @@ from .geometry import Structure
 from .method import METHOD, versions
 from .result import BadResult, ComputedGeometry, geometry_from_dict, geometry_to_dict
 
-FORMAT = 1  # bump when an entry changes shape or meaning
+FORMAT = 2  # bump when an entry changes shape or meaning (2: molecules, with their bonds)
 MAX_ENTRY_BYTES = 64 * 1024  # a structure of 40 atoms is about 8 kB
 MAX_NESTING = 6  # entry -> geometry -> positions -> one position: 4 levels are used
 MAX_TOTAL_BYTES = 50 * 1024 * 1024
@@ -58,7 +58,8 @@ def entry_key(structure: Structure) -> list[Any]:
     """Everything a computed structure depends on, as JSON."""
     return [FORMAT, METHOD, [list(v) for v in versions()], structure.species, structure.charge, structure.isomer,
             list(structure.symbols), list(structure.labels), list(structure.sites),
-            [[round(c, 6) for c in p] for p in structure.positions], structure.unpaired]
+            [[round(c, 6) for c in p] for p in structure.positions], structure.unpaired,
+            [list(c) for c in structure.connections]]
 
 
 def entry_path(structure: Structure) -> Path:
@@ -76,9 +77,9 @@ def parse_entry(data: bytes, structure: Structure) -> ComputedGeometry:
         raise BadResult("not an entry for this structure, method and versions")
     found = geometry_from_dict(payload.get("geometry"))
     expected = (structure.species, structure.charge, structure.isomer, structure.symbols, structure.labels,
-                structure.sites, structure.unpaired, METHOD, versions())
+                structure.sites, structure.unpaired, METHOD, versions(), structure.connections)
     if (found.species, found.charge, found.isomer, found.symbols, found.labels, found.sites, found.unpaired,
-            found.method, found.versions) != expected:
+            found.method, found.versions, found.connections) != expected:
         raise BadResult("the stored structure is not the one asked for")
     if found.failed is not None:
         raise BadResult("a failure is never stored")
@@ -106,7 +107,8 @@ def store(geometry: ComputedGeometry) -> None:
     if geometry.failed is not None:
         return
     structure = Structure(geometry.species, geometry.charge, geometry.isomer, geometry.rank, geometry.symbols,
-                          geometry.labels, geometry.sites, geometry.start, (), geometry.unpaired, geometry.spin)
+                          geometry.labels, geometry.sites, geometry.start, (), geometry.unpaired, geometry.spin,
+                          geometry.connections)
     path = entry_path(structure)
     payload = json.dumps({"key": entry_key(structure), "geometry": geometry_to_dict(geometry)}, allow_nan=False)
     try:

@@ -3,8 +3,11 @@
 A structure starts where the analysis puts it: the centre at the origin and
 each ligand at its predicted bond length (``chem.bondlength``) along its
 site's unit vector on the ideal polyhedron, one structure per isomer (one per
-enantiomer pair: mirror images have the same energy and angles).  Building
-is pure; :func:`optimise` imports tblite and ASE, and runs in a worker process.
+enantiomer pair: mirror images have the same energy and angles).  A species
+read as a molecule of several centres (CH3COOH, C2H4, a SMILES) starts from
+the molecule's 3D model (``chem.molecule_geometry.model_3d``), its atoms in the
+molecule's order.  Building is pure; :func:`optimise` imports tblite and ASE,
+and runs in a worker process.
 """
 
 from __future__ import annotations
@@ -18,9 +21,11 @@ from .. import elements
 from ..chem.analysis import CentreAnalysis, SpeciesAnalysis
 from ..chem.bondlength import predict_bond_length
 from ..chem.model import LONE_PAIR
+from ..chem.molecule import Molecule
+from ..chem.molecule_geometry import model_3d
 from ..chem.polyhedra import polyhedron
 from .method import METHOD, Limits, versions
-from .result import ComputedGeometry, Vector, geometry_from_dict
+from .result import ComputedGeometry, Connection, Vector, geometry_from_dict
 
 # A ligand farther from the centre than this many times its predicted bond length has left it.
 DISSOCIATED_FACTOR = 1.6
@@ -34,13 +39,14 @@ class Structure:
     charge: int
     isomer: str
     rank: int
-    symbols: tuple[str, ...]  # centre first
-    labels: tuple[str, ...]  # one per ligand atom
-    sites: tuple[str, ...]  # one per ligand atom
+    symbols: tuple[str, ...]  # centre first (a molecule: its atoms in order)
+    labels: tuple[str, ...]  # one per ligand atom (a molecule: one per atom, C1, H1, ...)
+    sites: tuple[str, ...]  # one per ligand atom (a molecule: none)
     positions: tuple[Vector, ...]
-    predicted_lengths: tuple[float, ...]  # one per ligand atom, angstrom
+    predicted_lengths: tuple[float, ...]  # one per ligand atom (a molecule: per connection), angstrom
     unpaired: int
     spin: str  # the spin state and why
+    connections: tuple[Connection, ...] = ()  # a molecule's bonds (first, second, order); () for one centre
 
     def to_dict(self) -> dict[str, Any]:
         return asdict(self)
@@ -66,8 +72,12 @@ def start_structures(analysis: SpeciesAnalysis, limits: Limits = Limits(),
     """
     if analysis.outside_model:
         return Skipped(f"{analysis.formula}: {analysis.outside_model}")
+    if analysis.molecule is not None and (len(analysis.centres) != 1 or
+                                          any(l.label != l.symbol for l in analysis.centres[0].ligands)):
+        return _molecule_structure(analysis, limits, unpaired)
     if len(analysis.centres) != 1:
-        return Skipped(f"{analysis.formula}: only species with one central atom are computed so far")
+        return Skipped(f"{analysis.formula}: only species with one central atom, or read as a molecule "
+                       "(a condensed formula, SMILES), are computed")
     centre = analysis.centres[0]
     groups = sorted({l.label for l in centre.ligands if l.label != l.symbol})
     if groups:
@@ -110,6 +120,56 @@ def start_structures(analysis: SpeciesAnalysis, limits: Limits = Limits(),
             spin=spin,
         ))
     return tuple(built[: limits.max_isomers])
+
+
+def _molecule_structure(analysis: SpeciesAnalysis, limits: Limits,
+                        unpaired: int | None) -> tuple[Structure, ...] | Skipped:
+    """The one starting structure of a species read as a molecule: its 3D model."""
+    molecule = analysis.molecule.molecule  # type: ignore[union-attr]
+    atoms = len(molecule.atoms)
+    if atoms > limits.max_atoms:
+        return Skipped(f"{analysis.formula} has {atoms} atoms; computed geometries are bounded to {limits.max_atoms}")
+    if atoms < 2:
+        return Skipped(f"{analysis.formula}: a single atom has no geometry to compute")
+    model = model_3d(molecule)
+    if isinstance(model, str):
+        return Skipped(f"{analysis.formula}: {model}")
+    electrons = sum(elements.element(a.element).number for a in molecule.atoms) - analysis.charge
+    spin_unpaired, spin = molecule_spin_state(molecule, electrons, unpaired)
+    if spin_unpaired % 2 != electrons % 2:
+        return Skipped(f"{analysis.formula}: {electrons} electrons cannot have {spin_unpaired} unpaired")
+    positions = tuple(tuple(round(float(c), 6) for c in p) for p in model)
+    connections = tuple((b.first, b.second, b.order) for b in molecule.bonds)
+    return (Structure(
+        species=analysis.formula,
+        charge=analysis.charge,
+        isomer="",
+        rank=1,
+        symbols=tuple(a.element for a in molecule.atoms),
+        labels=tuple(a.label for a in molecule.atoms),
+        sites=(),
+        positions=positions,  # type: ignore[arg-type]
+        predicted_lengths=tuple(math.dist(positions[i], positions[j]) for i, j, _ in connections),
+        unpaired=spin_unpaired,
+        spin=spin,
+        connections=connections,
+    ),)
+
+
+def molecule_spin_state(molecule: Molecule, electrons: int, unpaired: int | None = None) -> tuple[int, str]:
+    """(unpaired electrons, what was assumed and why) for a molecule: its atoms' radical electrons,
+    else the parity of the electron count (singlet, doublet)."""
+    names = {0: "singlet", 1: "doublet", 2: "triplet", 3: "quartet"}
+    if unpaired is not None:
+        return unpaired, f"{names.get(unpaired, f'{unpaired} unpaired electrons')} (requested)"
+    on_atoms = [(a.label, a.unpaired) for a in molecule.atoms if a.unpaired]
+    count = sum(n for _, n in on_atoms)
+    if on_atoms and count % 2 == electrons % 2:
+        where = ", ".join(f"{n} on {label}" for label, n in on_atoms)
+        return count, f"{names.get(count, f'{count} unpaired electrons')}: the unpaired electrons of the atoms ({where})"
+    if electrons % 2:
+        return 1, "doublet: an odd electron count (a radical)"
+    return 0, "singlet: an even electron count, closed shell"
 
 
 def _symbols(centre: CentreAnalysis) -> list[str]:
@@ -171,6 +231,7 @@ def failure(structure: Structure, reason: str) -> ComputedGeometry:
         "unpaired": structure.unpaired, "spin": structure.spin,
         "start": [list(p) for p in structure.positions], "positions": [list(p) for p in structure.positions],
         "energy_ev": None, "converged": False, "steps": 0, "wall_time_s": 0.0, "failed": reason, "notes": [],
+        "connections": [list(c) for c in structure.connections],
     })
 
 
@@ -210,6 +271,7 @@ def optimise(structure: Structure, limits: Limits = Limits()) -> ComputedGeometr
         "converged": bool(state["converged"]) and failed is None,
         "steps": state["steps"], "wall_time_s": time.monotonic() - started,
         "failed": failed, "notes": notes,
+        "connections": [list(c) for c in structure.connections],
     }
     # Through the same check a cache entry gets: a NaN from the library becomes a failure too.
     try:
@@ -240,6 +302,14 @@ def _run(structure: Structure, limits: Limits, started: float, state: dict[str, 
 
 
 def _dissociated(structure: Structure, positions: tuple[Vector, ...]) -> str | None:
+    if structure.connections:
+        for (first, second, _), start in zip(structure.connections, structure.predicted_lengths):
+            distance = math.dist(positions[first], positions[second])
+            if distance > DISSOCIATED_FACTOR * start:
+                return (f"the {structure.labels[first]}-{structure.labels[second]} bond broke: {distance:.2f} Å "
+                        f"against {start:.2f} Å at the start; the molecule as built does not hold together "
+                        f"at {METHOD}")
+        return None
     centre = positions[0]
     for index, predicted in enumerate(structure.predicted_lengths, start=1):
         distance = math.dist(positions[index], centre)

@@ -273,9 +273,9 @@ def _species(request: Request, start: tuple[SpeciesAnalysis, tuple[Structure, ..
         return ComputedSpecies(_name(request.species), 0, METHOD, versions(), (), start.reason)
     analysis, built = start
     notes = ()
-    centre = analysis.centres[0]
-    listed = len(centre.isomers) - sum(1 for i, iso in enumerate(centre.isomers)
-                                       if iso.enantiomer is not None and iso.enantiomer < i)
+    centre = analysis.centres[0] if not built[0].connections else None  # a molecule is built once
+    listed = 0 if centre is None else len(centre.isomers) - sum(
+        1 for i, iso in enumerate(centre.isomers) if iso.enantiomer is not None and iso.enantiomer < i)
     if listed > len(built):
         notes = (f"only the first {len(built)} of {listed} isomers (by the analysis's rank) were computed",)
     return ComputedSpecies(analysis.formula, analysis.charge, METHOD, versions(),

@@ -30,19 +30,27 @@ class BadResult(ValueError):
 
 @dataclass(frozen=True, slots=True)
 class Angle:
-    """The bond angle first-centre-second; atoms by index into ``symbols`` (the centre is 0)."""
+    """The bond angle first-centre-second; atoms by index into ``symbols`` (the centre is 0 for one centre)."""
 
     first: int
     second: int
-    labels: tuple[str, str, str]  # (A, X, B): the ligands as written and the centre
+    # (A, X, B): for one centre the ligands as written and the centre's symbol;
+    # for a molecule the atom labels (H1, C1, O2), the centre in the middle
+    labels: tuple[str, str, str]
     degrees: float
+    centre: int = 0  # index into symbols of the middle atom
 
 
 @dataclass(frozen=True, slots=True)
 class Bond:
     atom: int  # index into symbols
-    label: str  # the ligand as written
-    angstrom: float  # its distance from the centre
+    label: str  # the ligand as written (a molecule: the atom label)
+    angstrom: float  # its distance from the centre (a molecule: from the atom ``centre``)
+    centre: int = 0
+
+
+# A bond of a molecule: (first atom, second atom, bond order), atoms by index into ``symbols``.
+Connection = tuple[int, int, int]
 
 
 @dataclass(frozen=True, slots=True)
@@ -55,9 +63,11 @@ class ComputedGeometry:
     rank: int  # the analysis's rank (1 = the isomer the rules expect)
     method: str
     versions: tuple[tuple[str, str], ...]  # (package, version) of what computed it
-    symbols: tuple[str, ...]  # centre first
-    labels: tuple[str, ...]  # the ligand of each of symbols[1:] as written ("F", "O")
-    sites: tuple[str, ...]  # the site each ligand started on ("axial", "vertex", ...)
+    symbols: tuple[str, ...]  # centre first (a molecule: its atoms in the molecule's order)
+    # one centre: the ligand of each of symbols[1:] as written ("F", "O");
+    # a molecule: the label of every atom of symbols ("C1", "H1", ...)
+    labels: tuple[str, ...]
+    sites: tuple[str, ...]  # the site each ligand started on ("axial", "vertex", ...); () for a molecule
     unpaired: int  # unpaired electrons of the spin state computed
     spin: str  # which spin state, and why that one
     start: tuple[Vector, ...]  # angstrom: the structure built from the analysis
@@ -73,6 +83,12 @@ class ComputedGeometry:
     notes: tuple[str, ...] = ()
     # the other isomer this one turned into during the optimisation (identity.closest_start); derived, not stored
     became: str | None = None
+    # a molecule's bonds; () for a single centre, whose bonds all go from atom 0
+    connections: tuple[Connection, ...] = ()
+
+    @property
+    def is_molecule(self) -> bool:
+        return bool(self.connections)
 
     @property
     def usable(self) -> bool:
@@ -88,6 +104,34 @@ class ComputedGeometry:
         return tuple(sorted(angle.degrees for angle in self.angles
                             if {angle.labels[0], angle.labels[2]} == {a, b} and
                             (a != b or angle.labels[0] == angle.labels[2] == a)))
+
+    def angles_at(self, centre: str, a: str, b: str, any_end: bool = False) -> tuple[tuple[float, ...], ...]:
+        """A molecule's a-centre-b angles at the atom labelled ``centre``, grouped by equivalent pairs.
+
+        ``a`` and ``b`` are atom labels (H1) or element symbols (H: any neighbour of that element);
+        with ``any_end`` every angle at the centre.
+        Two pairs are equivalent when their ends match in element, bond order to the centre and the
+        elements bonded to them (the three H-C1-H of a methyl group); each group lists its angles.
+        """
+        groups: dict[tuple, list[float]] = {}
+        for angle in self.angles:
+            if angle.labels[1] != centre:
+                continue
+            ends = ((angle.first, angle.labels[0]), (angle.second, angle.labels[2]))
+            if not any_end and not (self._names(ends[0], a) and self._names(ends[1], b)
+                    or self._names(ends[0], b) and self._names(ends[1], a)):
+                continue
+            kind = tuple(sorted(self._environment(angle.centre, index) for index, _ in ends))
+            groups.setdefault(kind, []).append(angle.degrees)
+        return tuple(tuple(values) for values in groups.values())
+
+    def _names(self, end: tuple[int, str], name: str) -> bool:
+        return end[1] == name or self.symbols[end[0]] == name
+
+    def _environment(self, centre: int, atom: int) -> tuple:
+        order = next((o for i, j, o in self.connections if {i, j} == {centre, atom}), 0)
+        around = sorted(self.symbols[j if i == atom else i] for i, j, _ in self.connections if atom in (i, j))
+        return (self.symbols[atom], order, tuple(around))
 
 
 @dataclass(frozen=True, slots=True)
@@ -170,6 +214,7 @@ def geometry_to_dict(geometry: ComputedGeometry) -> dict[str, Any]:
         "wall_time_s": geometry.wall_time_s,
         "failed": geometry.failed,
         "notes": list(geometry.notes),
+        "connections": [list(c) for c in geometry.connections],
     }
 
 
@@ -213,6 +258,10 @@ def geometry_from_dict(raw: Any) -> ComputedGeometry:
     symbols = tuple(_text(s, "an atom symbol") for s in _list(raw.get("symbols"), "symbols"))
     if len(symbols) < 2:
         raise BadResult("fewer than two atoms")
+    # absent in results from before molecules were computed: those are all single centres
+    connections = tuple(_connection(c, len(symbols)) for c in _list(raw.get("connections", []), "connections",
+                                                                     most=4 * MAX_ATOMS))
+    molecule = bool(connections)
     ligands = len(symbols) - 1
     versions = tuple(tuple(_text(t, "a version") for t in _list(v, "a version pair", 2))
                      for v in _list(raw.get("versions"), "versions", most=8))
@@ -223,7 +272,8 @@ def geometry_from_dict(raw: Any) -> ComputedGeometry:
         raise BadResult("converged is not true or false")
     start = _positions(raw.get("start"), "the start", len(symbols))
     positions = _positions(raw.get("positions"), "the positions", len(symbols))
-    labels = tuple(_text(s, "a ligand label") for s in _list(raw.get("labels"), "labels", ligands))
+    labels = tuple(_text(s, "a ligand label") for s in _list(raw.get("labels"), "labels",
+                                                             len(symbols) if molecule else ligands))
     return ComputedGeometry(
         species=_text(raw.get("species"), "the species"),
         charge=_integer(raw.get("charge"), "the charge", -20, 20),
@@ -233,7 +283,7 @@ def geometry_from_dict(raw: Any) -> ComputedGeometry:
         versions=versions,  # type: ignore[arg-type]
         symbols=symbols,
         labels=labels,
-        sites=tuple(_text(s, "a site") for s in _list(raw.get("sites"), "sites", ligands)),
+        sites=tuple(_text(s, "a site") for s in _list(raw.get("sites"), "sites", 0 if molecule else ligands)),
         unpaired=_integer(raw.get("unpaired"), "the unpaired electrons", 0, 20),
         spin=_text(raw.get("spin"), "the spin state"),
         start=start,
@@ -241,13 +291,25 @@ def geometry_from_dict(raw: Any) -> ComputedGeometry:
         energy_ev=None if energy is None else _number(energy, "the energy", MAX_ENERGY_EV),
         converged=converged,
         steps=_integer(raw.get("steps"), "the step count", 0, 1_000_000),
-        angles=measure_angles(symbols[0], labels, positions),
-        bonds=measure_bonds(labels, positions),
-        largest_angle_change_deg=largest_angle_change(start, positions),
+        angles=(measure_molecule_angles(labels, connections, positions) if molecule
+                else measure_angles(symbols[0], labels, positions)),
+        bonds=(measure_molecule_bonds(labels, connections, positions) if molecule
+               else measure_bonds(labels, positions)),
+        largest_angle_change_deg=(largest_molecule_angle_change(labels, connections, start, positions) if molecule
+                                  else largest_angle_change(start, positions)),
         wall_time_s=_number(raw.get("wall_time_s"), "the wall time", MAX_SECONDS),
         failed=None if failed is None else _text(failed, "the failure"),
         notes=tuple(_text(n, "a note") for n in _list(raw.get("notes"), "notes", most=16)),
+        connections=connections,
     )
+
+
+def _connection(value: Any, atoms: int) -> Connection:
+    first, second, order = (_integer(v, "a bond's atom or order", 0, atoms - 1 if k < 2 else 3)
+                            for k, v in enumerate(_list(value, "a bond", 3)))
+    if first == second or order < 1:
+        raise BadResult("a bond joins an atom to itself or has no order")
+    return first, second, order
 
 
 # --- measuring --------------------------------------------------------------------
@@ -281,3 +343,40 @@ def largest_angle_change(start: tuple[Vector, ...], end: tuple[Vector, ...]) -> 
     changes = [abs(_angle(before[i], before[j]) - _angle(after[i], after[j]))
                for i in range(len(before)) for j in range(i + 1, len(before))]
     return max(changes, default=0.0)
+
+
+def _neighbours(connections: tuple[Connection, ...], count: int) -> list[list[int]]:
+    around: list[list[int]] = [[] for _ in range(count)]
+    for first, second, _ in connections:
+        around[first].append(second)
+        around[second].append(first)
+    return around
+
+
+def _arm(positions: tuple[Vector, ...], centre: int, atom: int) -> Vector:
+    return tuple(positions[atom][k] - positions[centre][k] for k in range(3))  # type: ignore[return-value]
+
+
+def measure_molecule_angles(labels: tuple[str, ...], connections: tuple[Connection, ...],
+                            positions: tuple[Vector, ...]) -> tuple[Angle, ...]:
+    """Every bond angle at every atom of a molecule with two or more neighbours, keyed by atom labels."""
+    found = []
+    for centre, around in enumerate(_neighbours(connections, len(positions))):
+        for i, first in enumerate(around):
+            for second in around[i + 1:]:
+                found.append(Angle(first, second, (labels[first], labels[centre], labels[second]),
+                                   _angle(_arm(positions, centre, first), _arm(positions, centre, second)), centre))
+    return tuple(found)
+
+
+def measure_molecule_bonds(labels: tuple[str, ...], connections: tuple[Connection, ...],
+                           positions: tuple[Vector, ...]) -> tuple[Bond, ...]:
+    return tuple(Bond(second, labels[second], math.hypot(*_arm(positions, first, second)), first)
+                 for first, second, _ in connections)
+
+
+def largest_molecule_angle_change(labels: tuple[str, ...], connections: tuple[Connection, ...],
+                                  start: tuple[Vector, ...], end: tuple[Vector, ...]) -> float:
+    before = measure_molecule_angles(labels, connections, start)
+    after = measure_molecule_angles(labels, connections, end)
+    return max((abs(a.degrees - b.degrees) for a, b in zip(before, after)), default=0.0)

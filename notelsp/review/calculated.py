@@ -23,10 +23,15 @@ def degrees_text(value: float) -> str:
 
 @dataclass(frozen=True, slots=True)
 class Calculation:
-    """The usable lowest structure of one computed species, with the method's uncertainty."""
+    """The usable lowest structure of one computed species, with the method's uncertainty.
+
+    For a species computed as a molecule, ``at`` is the label of the centre a claim is about
+    (``C2``, see target.py); its angles are the ones at that atom.
+    """
 
     species: Any  # ComputedSpecies
     geometry: Any  # its ComputedGeometry of lowest energy
+    at: str | None = None
 
     @property
     def method(self) -> str:
@@ -38,12 +43,33 @@ class Calculation:
 
     @property
     def centre(self) -> str:
+        """The element of the centre the angles are at."""
+        if self.geometry.is_molecule:
+            index = self.geometry.labels.index(self.at) if self.at in self.geometry.labels else None
+            return self.geometry.symbols[index] if index is not None else ""
         return self.geometry.symbols[0]
+
+    @property
+    def name(self) -> str:
+        """The species as the messages name it: "CH3COOH (C2)" for a centre of a molecule."""
+        if self.geometry.is_molecule and self.at is not None:
+            return f"{self.species.species} ({self.at})"
+        return self.species.species
 
     def angles(self, atoms: tuple[str, str, str] | None) -> tuple[float, ...]:
         """The computed angles a claim names (every angle at the centre when it names no atoms),
-        smallest first, equal ones once; () when the named centre is not the computed one."""
-        if atoms is None:
+        smallest first, equal ones once; () when the named centre is not the computed one.
+
+        In a molecule, the angles of equivalent pairs (the three H-C1-H of a methyl group) count
+        as one value, their mean; ends named by element match any neighbour of that element.
+        """
+        if self.geometry.is_molecule:
+            if not self.centre or (atoms is not None and atoms[1] not in (self.centre, self.at)):
+                return ()
+            groups = self.geometry.angles_at(self.at, *((atoms[0], atoms[2]) if atoms is not None else ("", "")),
+                                             any_end=atoms is None)
+            values = sorted(sum(group) / len(group) for group in groups)
+        elif atoms is None:
             values = sorted(angle.degrees for angle in self.geometry.angles)
         elif atoms[1] != self.centre:
             return ()
@@ -71,12 +97,16 @@ class Calculation:
         return head if "assumed" in head else None
 
 
-def calculation(computed: Any) -> Calculation | None:
-    """The calculation of a species when it has a usable structure; else None."""
+def calculation(computed: Any, at: str | None = None) -> Calculation | None:
+    """The calculation of a species when it has a usable structure; else None.
+
+    ``at``: for a species computed as a molecule, the label of the centre a claim is about;
+    without it a molecule's angles are not read (the claim was not placed on a centre).
+    """
     if computed is None:
         return None
     lowest = computed.lowest
-    return None if lowest is None else Calculation(computed, lowest)
+    return None if lowest is None else Calculation(computed, lowest, at)
 
 
 def angle_fits(low: float, high: float, allowance: float, values: Sequence[float], uncertainty: float) -> bool:

@@ -341,7 +341,7 @@ def _review_relative(annotation: Annotation, settings: Settings,
                 found.extend(rule.check(rules.RuleContext(rule, annotation, claim, analyses, settings, computed)))
             elif target.problem is None:
                 judged = rule.check(rules.RuleContext(rule, annotation, target.claim, target.analyses, settings,
-                                                      computed))
+                                                      computed, target.centre))
                 # a fix would write the claim back with the names the rules use (H-C-H for H-C1-H): none then
                 found.extend(f._replace(fixes=()) if target.translated else f for f in judged)
     return tuple(sorted(found, key=_ORDER))

@@ -52,6 +52,7 @@ class Focus:
     suggestion: str | None = None  # the name the writer probably meant, where one is clear
     translated: bool = False  # atom names in the claim were rewritten for the rules
     terminal: int | None = None  # a lone-pair or hybridization claim about this terminal atom (molecule index)
+    centre: str | None = None  # the label of the molecule's centre the claim is about ("C2")
 
 
 def focus(analyses: tuple[Any, ...], claim: Claim | None) -> Focus:
@@ -117,7 +118,7 @@ def _focus(analyses: tuple[Any, ...], claim: Claim | None) -> Focus:
     # a fix replaces the claim's text; where atom names inside it were rewritten, it would lose them
     # (a named atom before the claim is outside the claim's span, so it stays)
     renamed_inside = claim.atom is None and new_claim != claim
-    return Focus((narrowed,), new_claim, translated=renamed_inside)
+    return Focus((narrowed,), new_claim, translated=renamed_inside, centre=found.label)
 
 
 def _names(claim: Claim) -> tuple[str | None, tuple[str, ...]]:

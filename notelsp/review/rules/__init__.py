@@ -79,6 +79,8 @@ class RuleContext:
     # One notelsp.compute.ComputedSpecies (or None: not computed) per formula; () when none is.
     # An input like the text: rules read it, nothing here computes.
     computed: tuple[Any, ...] = ()
+    # The label of the centre of a molecule the claim is about (target.Focus.centre), None otherwise.
+    centre: str | None = None
 
     @property
     def analysis(self) -> Any:
@@ -92,7 +94,7 @@ class RuleContext:
         """The usable computed structure of the ``index``-th formula (a review.calculated.Calculation), or None."""
         from ..calculated import calculation
 
-        return calculation(self.computed_of(index))
+        return calculation(self.computed_of(index), self.centre if index == 0 else None)
 
     def finding(
         self,

@@ -63,7 +63,7 @@ def angle_against_calculation(context: RuleContext) -> Iterator[Finding]:
     if window is not None and not window.fits:
         return  # the rules flag it too: implausible-angle reports both
     rules_said = f"; the rules' range admits it ({window.said})" if window is not None else ""
-    message = f"{found.species.species}: {claim.text} is off the {found.said(values)}{rules_said}"
+    message = f"{found.name}: {claim.text} is off the {found.said(values)}{rules_said}"
     if found.assumed_spin:  # the claim may be about the other spin state
         yield _finding(context, f"{message} ({found.assumed_spin}; the other state differs)", Severity.INFORMATION)
         return
@@ -113,8 +113,8 @@ def angle_order_against_calculation(context: RuleContext) -> Iterator[Finding]:
     if bent is not None and bent[0] != claim.relation:
         return  # Bent's rule flags it too: angle-order-against-bent reports both
     left, right = "-".join(claim.left), "-".join(claim.right)
-    where_left = f" in {left_of.species.species}" if left_of is not right_of else ""
-    where_right = f" in {right_of.species.species}" if left_of is not right_of else ""
+    where_left = f" in {left_of.name}" if left_of is not right_of else ""
+    where_right = f" in {right_of.name}" if left_of is not right_of else ""
     said = (f"computed ({left_of.method}) {left} {degrees_text(left_value)}°{where_left}, "
             f"{right} {degrees_text(right_value)}°{where_right} ± {degrees_text(uncertainty)}°")
     species = " vs ".join(f.text for f in context.annotation.formulas)
