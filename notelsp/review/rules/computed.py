@@ -161,8 +161,9 @@ def calculation_failed(context: RuleContext) -> Iterator[Finding]:
     A calculation fails when the optimisation does not converge within its
     step or time bound, the electronic structure does not converge, a worker
     runs out of memory, or the structure turns into another isomer; the
-    reason is given.  Species the calculation does not treat (several
-    centres, group ligands) are not reported.
+    reason is given.  Species the calculation does not treat (group
+    ligands on a single-centre formula, a molecule with no 3D model) are
+    not reported.
     """
     for index, formula in enumerate(context.annotation.formulas):
         computed = context.computed_of(index)
