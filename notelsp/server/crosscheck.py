@@ -26,7 +26,6 @@ so automatic runs never repeat a calculation.
 from __future__ import annotations
 
 import asyncio
-import itertools
 import logging
 from collections.abc import Mapping
 from typing import TYPE_CHECKING, Any
@@ -40,6 +39,7 @@ from ..notation.model import Annotation, Span
 from ..review.findings import Finding
 from .app import HeldDocument, NoteServer
 from .diagnostics import republish
+from .progress import progress_token
 
 if TYPE_CHECKING:  # the runner and the report are imported on the first calculation: the server starts without them
     from ..crosscheck.runner import CrossCheckResult, Progress
@@ -51,7 +51,6 @@ REQUEST = "notelsp/crossCheck"
 ACTION_KIND = "source.crossCheck"  # a sub-kind of source: editors list it with source actions
 AUTOMATIC_DELAY_SECONDS = 1.5  # far longer than the review's pause: a calculation costs seconds of CPU
 REMEMBERED_RESULTS = 64  # species x level results kept in memory
-_tokens = itertools.count(1)
 
 
 def wants_cross_check_actions(only: list[str] | None) -> bool:
@@ -148,14 +147,8 @@ class _ProgressReporter:
         self.cancelled_by_client = False
 
     async def begin(self, title: str) -> None:
-        window = self.ls.client_capabilities.window
-        if not (window and window.work_done_progress):
-            return
-        token = f"notelsp-crosscheck-{next(_tokens)}"
-        try:
-            await self.ls.work_done_progress.create_async(token)
-        except Exception as error:  # a client that refuses the progress still gets the calculation
-            log.info("work-done progress refused: %s", error)
+        token = await progress_token(self.ls, "crosscheck")
+        if token is None:
             return
         self.token = token
         loop = asyncio.get_running_loop()

@@ -36,6 +36,7 @@ from lsprotocol import types
 from .app import NoteServer
 from .diagnostics import republish
 from .exiting import before_leaving
+from .progress import progress_token
 
 if TYPE_CHECKING:  # the compute package (and its pool) is imported on first need: the server starts without it
     from ..compute import ComputedSpecies, GeometryPool
@@ -45,7 +46,6 @@ log = logging.getLogger("notelsp.server")
 SWITCH_VARIABLE = "NOTELSP_COMPUTE"  # "off" (or 0, false, no) turns computing off for the whole process
 IDLE_SECONDS = 120.0  # worker processes asked nothing for this long are ended (each holds tblite's memory)
 REMEMBERED_SPECIES = 4096  # results kept in memory (a few kB each); the disk cache keeps more
-_tokens = itertools.count(1)
 
 
 def switched_off_by_environment() -> bool:
@@ -312,14 +312,8 @@ class _Progress:
         if self.asked:
             return
         self.asked = True
-        window = self.ls.client_capabilities.window
-        if not (window and window.work_done_progress):
-            return
-        token = f"notelsp-geometries-{next(_tokens)}"
-        try:
-            await self.ls.work_done_progress.create_async(token)
-        except Exception as error:  # a client that refuses the progress still gets the results
-            log.info("work-done progress refused: %s", error)
+        token = await progress_token(self.ls, "geometries")
+        if token is None:
             return
         self.token = token
         self.ls.work_done_progress.begin(token, types.WorkDoneProgressBegin(
