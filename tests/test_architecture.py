@@ -185,3 +185,38 @@ def test_the_state_check_sees_a_module_level_cache(tmp_path: Path) -> None:
     module.write_text("_reviews: dict = {}\n_recent = []\nTABLE = {'a': 1}\n__all__ = ['x']\n"
                       "def f():\n    global _count\n", encoding="utf-8")
     assert _module_state(module) == ["_reviews line 1", "_recent line 2", "_count line 6"]
+
+
+def _import_drawing():
+    import importlib.util
+
+    path = PACKAGE.parent / "tools" / "import_drawing.py"
+    spec = importlib.util.spec_from_file_location("import_drawing", path)
+    module = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(module)
+    return module
+
+
+def test_the_drawing_of_the_imports_in_developers_md_is_current() -> None:
+    drawing = _import_drawing()
+    text = drawing.DEVELOPERS.read_text(encoding="utf-8")
+    assert drawing.rewritten(text) == text, "DEVELOPERS.md's drawing of the imports is stale: run tools/import_drawing.py"
+
+
+def test_the_drawing_shows_no_cycle_and_the_layers_one_way() -> None:
+    drawing = _import_drawing()
+    parts = drawing.edges()
+    assert drawing.cycle(parts) is None
+    assert drawing.cycle(drawing.edges("server"), lazy_too=True) is None
+    # the analysis layers, drawn: each reaches only downwards (common practice, no source: layering)
+    order = ["notation", "chem", "review"]
+    for (importer, imported), _ in parts.items():
+        if importer in order and imported in order:
+            assert order.index(imported) < order.index(importer), (importer, imported)
+
+
+def test_the_cycle_finder_finds_a_cycle() -> None:
+    drawing = _import_drawing()
+    assert drawing.cycle({("a", "b"): True, ("b", "a"): True}) == ["a", "b", "a"]
+    assert drawing.cycle({("a", "b"): True, ("b", "a"): False}) is None
+    assert drawing.cycle({("a", "b"): True, ("b", "a"): False}, lazy_too=True) == ["a", "b", "a"]
