@@ -10,7 +10,11 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:  # types only: nothing here imports the compute package
+    from ..chem.isomers import Isomer
+    from ..compute.result import ComputedGeometry, ComputedSpecies
 
 # Two computed angles closer than this count as one value (equivalent bonds differ by rounding and
 # by the optimiser's residual forces; 0.5 degrees is far below the method's uncertainty).
@@ -29,8 +33,8 @@ class Calculation:
     (``C2``, see target.py); its angles are the ones at that atom.
     """
 
-    species: Any  # ComputedSpecies
-    geometry: Any  # its ComputedGeometry of lowest energy
+    species: ComputedSpecies
+    geometry: ComputedGeometry  # its structure of lowest energy
     at: str | None = None
 
     @property
@@ -64,7 +68,7 @@ class Calculation:
         as one value, their mean; ends named by element match any neighbour of that element.
         """
         if self.geometry.is_molecule:
-            if not self.centre or (atoms is not None and atoms[1] not in (self.centre, self.at)):
+            if self.at is None or not self.centre or (atoms is not None and atoms[1] not in (self.centre, self.at)):
                 return ()
             groups = self.geometry.angles_at(self.at, *((atoms[0], atoms[2]) if atoms is not None else ("", "")),
                                              any_end=atoms is None)
@@ -97,7 +101,7 @@ class Calculation:
         return head if "assumed" in head else None
 
 
-def calculation(computed: Any, at: str | None = None) -> Calculation | None:
+def calculation(computed: ComputedSpecies | None, at: str | None = None) -> Calculation | None:
     """The calculation of a species when it has a usable structure; else None.
 
     ``at``: for a species computed as a molecule, the label of the centre a claim is about;
@@ -137,17 +141,19 @@ def order_contradicts(claimed: str, difference: float, uncertainty: float) -> tu
     return difference < -SAME_ANGLE_DEG, -difference > uncertainty
 
 
-def energy_gaps_text(computed: Any) -> str | None:
+def energy_gaps_text(computed: ComputedSpecies | None) -> str | None:
     """"computed (GFN2-xTB): both F axial lowest, one F axial, one equatorial +19.7 kJ/mol" for
     a species with more than one usable isomer; None otherwise."""
-    gaps = computed.relative_energies_kj_mol() if computed is not None else ()
+    if computed is None:
+        return None
+    gaps = computed.relative_energies_kj_mol()
     if len(gaps) < 2:
         return None
     parts = [f"{gaps[0][0]} lowest"] + [f"{name} +{gap:.1f} kJ/mol" for name, gap in gaps[1:]]
     return f"computed ({computed.method}): " + "; ".join(parts)
 
 
-def lowest_isomer(computed: Any, isomers: Sequence[Any]) -> Any | None:
+def lowest_isomer(computed: ComputedSpecies | None, isomers: Sequence[Isomer]) -> Isomer | None:
     """The analysis's isomer the calculation found lowest in energy (matched by name), if any."""
     found = calculation(computed)
     if found is None or not found.geometry.isomer:

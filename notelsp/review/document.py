@@ -13,20 +13,22 @@ from __future__ import annotations
 from bisect import bisect_left, bisect_right
 from dataclasses import dataclass
 from functools import cache, cached_property
-from collections.abc import Mapping
-from typing import TYPE_CHECKING, Any, Callable, Literal
+from collections.abc import Iterator, Mapping
+from typing import TYPE_CHECKING, Callable, Literal, NamedTuple
 
 from ..notation import scan
 from ..notation.scanner import scan_pieces, scan_pieces_around
 from ..notation.markdown import BlockMemory
-from ..notation.model import Annotation, Found, ScannedDocument, Span, annotation_of
+from ..notation.model import Annotation, Claim, Formula, Found, ScannedDocument, Span, annotation_of
 from ..positions import LineIndex
 from .findings import Finding
 from .settings import Settings
 from .target import TARGET_RULES, focus
 
-if TYPE_CHECKING:  # only the type: the review reads computed results, it never computes
+if TYPE_CHECKING:  # only the types: the review reads computed results, it never computes
+    from ..chem.analysis import SpeciesAnalysis
     from ..compute.result import ComputedSpecies
+    from .rules import Rule, RuleContext
 
 DocumentKind = Literal["markdown", "text"]
 
@@ -46,7 +48,7 @@ class DocumentReview:
     def annotations(self) -> tuple[Annotation, ...]:
         return self.scanned.annotations
 
-    def analyses_of(self, annotation: Annotation) -> tuple[Any, ...]:
+    def analyses_of(self, annotation: Annotation) -> tuple[SpeciesAnalysis, ...]:
         return analyses_of(annotation)
 
     @cached_property
@@ -80,18 +82,29 @@ def kind_of_path(path: str) -> DocumentKind:
     return "text" if path.lower().endswith(".txt") else "markdown"
 
 
+class _Chemistry(NamedTuple):
+    """What a review calls of the analyser and the rules, typed as they are."""
+
+    analyse: Callable[[Formula], SpeciesAnalysis]
+    reviewed_length: Callable[[str], int]  # how much of a note is reviewed (the rest: note-too-large)
+    rules_for: Callable[[Claim | None], Iterator[Rule]]
+    whole_note_findings: Callable[[str, int, Settings], list[Finding]]
+    context: type[RuleContext]
+
+
 @cache
-def _chemistry() -> Any:
+def _chemistry() -> _Chemistry:
     """The analyser and the rules, imported once on first use (numpy and the isomer tables
     are not needed to start a server, only to review)."""
     from .. import chem
     from . import rules
 
-    return chem, rules
+    return _Chemistry(chem.analyse, rules.notation.reviewed_length, rules.rules_for, rules.whole_note_findings,
+                      rules.RuleContext)
 
 
-def analyses_of(annotation: Annotation) -> tuple[Any, ...]:
-    analyse = _chemistry()[0].analyse
+def analyses_of(annotation: Annotation) -> tuple[SpeciesAnalysis, ...]:
+    analyse = _chemistry().analyse
     return tuple(analyse(formula) for formula in annotation.formulas)
 
 
@@ -144,8 +157,8 @@ def review_text(
     finished = memory.finished.get(key)
     if finished is not None:
         return finished
-    rules = _chemistry()[1]
-    reviewed = rules.notation.reviewed_length(text)
+    rules = _chemistry()
+    reviewed = rules.reviewed_length(text)
     scanned_text = text if reviewed == len(text) else text[:reviewed]
     reviews, placed = memory.reviews_for(settings)
     findings: list[Finding] = []
@@ -191,8 +204,8 @@ def review_around(text: str, kind: DocumentKind, settings: Settings, span: Span,
     finished = memory.finished.get((text, kind, settings, _computed_key(computed)))
     if finished is not None:
         return finished
-    rules = _chemistry()[1]
-    scanned_text = text[: rules.notation.reviewed_length(text)]
+    rules = _chemistry()
+    scanned_text = text[: rules.reviewed_length(text)]
     reviews, placed = memory.reviews_for(settings)
     found: list[Found] = []
     for piece in scan_pieces_around(scanned_text, kind, span.start, span.end, memory.blocks):
@@ -209,7 +222,7 @@ class _Same:
 
     __slots__ = ("value",)
 
-    def __init__(self, value: Any) -> None:
+    def __init__(self, value: object) -> None:
         self.value = value
 
     def __hash__(self) -> int:
@@ -327,7 +340,7 @@ def _review_relative(annotation: Annotation, settings: Settings,
 
     ``computed``: one computed result (or None) per formula of the annotation, or () for none.
     """
-    rules = _chemistry()[1]
+    rules = _chemistry()
     analyses = analyses_of(annotation)
     found: list[Finding] = []
     for claim in (None, *annotation.claims):
@@ -338,10 +351,10 @@ def _review_relative(annotation: Annotation, settings: Settings,
             if not settings.enabled(rule.code):
                 continue
             if rule.code in TARGET_RULES:
-                found.extend(rule.check(rules.RuleContext(rule, annotation, claim, analyses, settings, computed)))
+                found.extend(rule.run(rules.context(rule, annotation, claim, analyses, settings, computed)))
             elif target.problem is None:
-                judged = rule.check(rules.RuleContext(rule, annotation, target.claim, target.analyses, settings,
-                                                      computed, target.centre))
+                judged = rule.run(rules.context(rule, annotation, target.claim, target.analyses, settings,
+                                                computed, target.centre))
                 # a fix would write the claim back with the names the rules use (H-C-H for H-C1-H): none then
                 found.extend(f._replace(fixes=()) if target.translated else f for f in judged)
     return tuple(sorted(found, key=_ORDER))

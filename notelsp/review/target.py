@@ -19,7 +19,7 @@ from __future__ import annotations
 
 import dataclasses
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING
 
 from ..notation.model import (
     AngleClaim,
@@ -38,6 +38,10 @@ from ..notation.model import (
 )
 from .predictions import written_shape
 
+if TYPE_CHECKING:
+    from ..chem.analysis import CentreAnalysis, SpeciesAnalysis
+    from ..chem.molecule_analysis import MoleculeAnalysis, MoleculeCentre
+
 TARGET_RULES = frozenset({"unknown-atom", "centre-not-named", "terminal-atom"})  # the rules that report a claim with no centre
 TERMINAL_CLAIMS = (LonePairClaim, HybridizationClaim)
 WHOLE_MOLECULE = (PolarityClaim, PointGroupClaim, IsomerCountClaim, MagnetismClaim, UnpairedElectronClaim)
@@ -45,7 +49,7 @@ WHOLE_MOLECULE = (PolarityClaim, PointGroupClaim, IsomerCountClaim, MagnetismCla
 
 @dataclass(frozen=True, slots=True)
 class Focus:
-    analyses: tuple[Any, ...]  # the first species narrowed to the claim's centre
+    analyses: tuple[SpeciesAnalysis, ...]  # the first species narrowed to the claim's centre
     claim: Claim | None  # with atom names turned into the centre's ligand names
     problem: str | None = None  # why the claim cannot be placed on one centre
     unknown: bool = False  # the problem is a name that matches no atom (not several alike candidates)
@@ -55,7 +59,7 @@ class Focus:
     centre: str | None = None  # the label of the molecule's centre the claim is about ("C2")
 
 
-def focus(analyses: tuple[Any, ...], claim: Claim | None) -> Focus:
+def focus(analyses: tuple[SpeciesAnalysis, ...], claim: Claim | None) -> Focus:
     """The analyses and claim the rules should judge, or the problem that stops them."""
     found = _focus(analyses, claim)
     if found.problem is None and not found.translated and _writes_bond_orders(claim):
@@ -64,11 +68,13 @@ def focus(analyses: tuple[Any, ...], claim: Claim | None) -> Focus:
     return found
 
 
-def centre_label(analysis: Any, claim: Claim | None) -> str | None:
+def centre_label(analysis: SpeciesAnalysis | None, claim: Claim | None) -> str | None:
     """The label of the one centre of a molecule a claim is about (``C2`` for ``O=C-O`` in CH3COOH), or
     None: a whole-molecule claim, a species read by the single-centre model, or a claim not placed."""
-    molecule = getattr(analysis, "molecule", None)
-    if claim is None or molecule is None or analysis.outside_model is not None or isinstance(claim, WHOLE_MOLECULE):
+    if analysis is None or claim is None or isinstance(claim, WHOLE_MOLECULE):
+        return None
+    molecule = analysis.molecule
+    if molecule is None or analysis.outside_model is not None:
         return None
     name, others = _names(claim)
     if name is None:
@@ -78,12 +84,18 @@ def centre_label(analysis: Any, claim: Claim | None) -> str | None:
 
 
 def _writes_bond_orders(claim: Claim | None) -> bool:
-    orders = (*getattr(claim, "orders", ()), *getattr(claim, "left_orders", ()), *getattr(claim, "right_orders", ()),
-              getattr(claim, "order", 1))
+    if isinstance(claim, AngleClaim):
+        orders: tuple[int, ...] = claim.orders
+    elif isinstance(claim, AngleOrderClaim):
+        orders = (*claim.left_orders, *claim.right_orders)
+    elif isinstance(claim, (BondLengthValueClaim, BondLengthClaim)):
+        orders = (claim.order,)
+    else:  # no other claim writes bonds
+        return False
     return any(order != 1 for order in orders)
 
 
-def _focus(analyses: tuple[Any, ...], claim: Claim | None) -> Focus:
+def _focus(analyses: tuple[SpeciesAnalysis, ...], claim: Claim | None) -> Focus:
     unchanged = Focus(analyses, claim)
     if claim is None or len(analyses) != 1 or isinstance(claim, WHOLE_MOLECULE):
         return unchanged
@@ -91,7 +103,7 @@ def _focus(analyses: tuple[Any, ...], claim: Claim | None) -> Focus:
     if analysis is None or analysis.outside_model is not None or not analysis.centres:
         return unchanged
     name, others = _names(claim)
-    molecule = getattr(analysis, "molecule", None)
+    molecule = analysis.molecule
     if molecule is None:
         return _formula_focus(analysis, claim, name, unchanged)
     two_centres = isinstance(claim, AngleOrderClaim) and claim.right[1] != claim.left[1]
@@ -103,18 +115,20 @@ def _focus(analyses: tuple[Any, ...], claim: Claim | None) -> Focus:
                 # a terminal atom has lone pairs and, by convention, a hybridization: the terminal-atom rule judges them
                 return Focus(analyses, claim, f"{name} is a terminal atom", terminal=index)
         return found
-    if two_centres:
+    if two_centres and isinstance(claim, AngleOrderClaim):
         other = _resolve(analysis, molecule, claim.right[1], others[2:])
         if isinstance(other, Focus):
             return other
         if other.label != found.label:
             return Focus(analyses, claim, f"the claim compares angles at two centres, {found.label} and "
                          f"{other.label}: Bent's rule orders angles at one centre, so it is not checked")
+    centre = found.analysis
+    assert centre is not None  # _resolve gives only centres the model analysed
     ligand_names = tuple(_ligand_name(found, other) for other in others)
     several = len(molecule.centres) > 1  # then messages name the atom: "CH3COOH (C1) is claimed ..."
-    narrowed = dataclasses.replace(analysis, centres=(found.analysis,),
+    narrowed = dataclasses.replace(analysis, centres=(centre,),
                                    formula=f"{analysis.formula} ({found.label})" if several else analysis.formula)
-    new_claim = _renamed(claim, found.analysis.central, ligand_names)
+    new_claim = _renamed(claim, centre.central, ligand_names)
     # a fix replaces the claim's text; where atom names inside it were rewritten, it would lose them
     # (a named atom before the claim is outside the claim's span, so it stays)
     renamed_inside = claim.atom is None and new_claim != claim
@@ -134,7 +148,7 @@ def _names(claim: Claim) -> tuple[str | None, tuple[str, ...]]:
     return claim.atom, ()
 
 
-def _formula_focus(analysis: Any, claim: Claim, name: str | None, unchanged: Focus) -> Focus:
+def _formula_focus(analysis: SpeciesAnalysis, claim: Claim, name: str | None, unchanged: Focus) -> Focus:
     """A species read by the single-centre model: a name must be its centre's element."""
     if claim.atom is None or claim.atom in {c.central for c in analysis.centres}:
         return unchanged
@@ -143,7 +157,8 @@ def _formula_focus(analysis: Any, claim: Claim, name: str | None, unchanged: Foc
                  f"'{claim.atom}' names no centre of it", unknown=True, suggestion=central)
 
 
-def _resolve(analysis: Any, molecule: Any, name: str | None, others: tuple[str, ...] = ()) -> Any:
+def _resolve(analysis: SpeciesAnalysis, molecule: MoleculeAnalysis, name: str | None,
+             others: tuple[str, ...] = ()) -> MoleculeCentre | Focus:
     """The MoleculeCentre a name means, or a Focus that says why there is none.
 
     ``others``: the atoms the claim puts around it (the ends of an angle, the other end of a bond);
@@ -169,16 +184,17 @@ def _resolve(analysis: Any, molecule: Any, name: str | None, others: tuple[str, 
         listed = "; ".join(f"{c.label} is bonded to {', '.join(c.neighbours)}" for c in usable_candidates)
         return Focus((analysis,), None, f"{analysis.formula} has no {name} bonded to {' and '.join(others)} "
                      f"as the claim writes it ({listed})", unknown=True)
-    kinds = {_kind(c.analysis) for c in usable_candidates}
+    kinds = {_kind(c.analysis) for c in usable_candidates if c.analysis is not None}
     if len(kinds) > 1:
-        listed = ", ".join(f"{c.label} {written_shape(c.analysis.shape)}" for c in usable_candidates)
+        listed = ", ".join(f"{c.label} {written_shape(c.analysis.shape)}" for c in usable_candidates
+                           if c.analysis is not None)
         example = usable_candidates[0].label
         return Focus((analysis,), None, f"{analysis.formula} has several unlike centres ({listed}): "
                      f"name the atom the claim is about, e.g. '{example} ...'")
     return usable_candidates[0]
 
 
-def _unknown(analysis: Any, molecule: Any, name: str) -> Focus:
+def _unknown(analysis: SpeciesAnalysis, molecule: MoleculeAnalysis, name: str) -> Focus:
     terminal = next((t for t in molecule.terminals if t.label == name), None)
     atoms = ", ".join(a.label for a in molecule.molecule.atoms)
     if terminal is not None:
@@ -192,7 +208,7 @@ def _unknown(analysis: Any, molecule: Any, name: str) -> Focus:
                  unknown=True, suggestion=suggestion)
 
 
-def _bonded_to(centre: Any, others: tuple[str, ...]) -> bool:
+def _bonded_to(centre: MoleculeCentre, others: tuple[str, ...]) -> bool:
     """Whether the centre has a distinct neighbour for each name (atom label, element or group)."""
     if centre.analysis is None:
         return False
@@ -207,21 +223,21 @@ def _bonded_to(centre: Any, others: tuple[str, ...]) -> bool:
     return True
 
 
-def _bonded_to_each(centre: Any, others: tuple[str, ...]) -> bool:
+def _bonded_to_each(centre: MoleculeCentre, others: tuple[str, ...]) -> bool:
     """``_bonded_to`` for each pair of names in turn (an angle order names two angles at one centre)."""
     return all(_bonded_to(centre, others[i:i + 2]) for i in range(0, len(others), 2))
 
 
-def _kind(centre: Any) -> tuple:
+def _kind(centre: CentreAnalysis) -> tuple:
     """What makes two centres alike for a claim that names neither."""
     return (centre.central, centre.shape, centre.hybridization, centre.lone_pairs,
             tuple(sorted((l.symbol, l.bond_order) for l in centre.ligands)))
 
 
-def _ligand_name(centre: Any, name: str) -> str:
+def _ligand_name(centre: MoleculeCentre, name: str) -> str:
     """The centre's ligand name for an atom name ("H2" -> "H") or a group ("OH" -> "O")."""
     known = centre.ligand_name(name)
-    if known != name or name in {l.label for l in centre.analysis.ligands}:
+    if known != name or (centre.analysis is not None and name in {l.label for l in centre.analysis.ligands}):
         return known
     letters = name[:2] if len(name) > 1 and name[1].islower() else name[:1]
     return letters or name

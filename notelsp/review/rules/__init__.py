@@ -15,12 +15,21 @@ from __future__ import annotations
 import inspect
 from collections.abc import Callable, Iterable, Iterator
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, TypeVar, cast
 
 from ...notation.model import Annotation, Claim, Span
 from ..findings import Finding, Fix, Severity
 
-Check = Callable[["RuleContext"], Iterable[Finding]]
+if TYPE_CHECKING:  # types only: the compute package is the edge's (numpy, ASE), and these import nothing heavy
+    from ...chem.analysis import SpeciesAnalysis
+    from ...chem.exceptions import KnownException
+    from ...compute.result import ComputedSpecies
+    from ..calculated import Calculation
+    from ..settings import Settings
+
+Check = Callable[["RuleContext"], Iterable[Finding]]  # a rule about one annotation (or one claim of it)
+NoteCheck = Callable[["DocumentContext"], Iterable[Finding]]  # a whole-note rule
+AnyCheck = TypeVar("AnyCheck", Check, NoteCheck)
 
 
 @dataclass(frozen=True, slots=True)
@@ -30,12 +39,22 @@ class Rule:
     doc: str
     severity: Severity
     claims: tuple[type[Claim], ...]  # claim types it checks; () means once per annotation
-    check: Check
+    check: Check | NoteCheck  # a NoteCheck exactly when ``whole_note``
     whole_note: bool = False  # checks the note itself (a DocumentContext), not an annotation
     judges_geometry: bool = False  # compares a claim with the predicted geometry: capped where the model is unsure
     # Its findings are made outside the review (the PySCF cross-check): registered so that settings,
     # the README and SARIF know the code; the review never runs its check.
     reported_outside: bool = False
+
+    def run(self, context: RuleContext) -> Iterable[Finding]:
+        """The findings of this (annotation) rule in ``context``."""
+        assert not self.whole_note, self.code
+        return cast(Check, self.check)(context)
+
+    def run_on_note(self, context: DocumentContext) -> Iterable[Finding]:
+        """The findings of this whole-note rule in ``context``."""
+        assert self.whole_note, self.code
+        return cast(NoteCheck, self.check)(context)
 
 
 RULES: dict[str, Rule] = {}
@@ -44,7 +63,7 @@ RULES: dict[str, Rule] = {}
 def rule(
     code: str, *, severity: Severity, claims: tuple[type[Claim], ...] = (), whole_note: bool = False,
     judges_geometry: bool = False, reported_outside: bool = False,
-) -> Callable[[Check], Check]:
+) -> Callable[[AnyCheck], AnyCheck]:
     """Register ``check`` as the rule ``code`` (``whole_note``: it is given a :class:`DocumentContext`).
 
     ``judges_geometry``: the rule compares a claim with the predicted shape or angles, so where the
@@ -53,7 +72,7 @@ def rule(
     documents the rule and is never run.
     """
 
-    def register(check: Check) -> Check:
+    def register(check: AnyCheck) -> AnyCheck:
         if code in RULES:
             raise ValueError(f"rule {code!r} registered twice")
         doc = inspect.cleandoc(check.__doc__ or "")
@@ -74,24 +93,31 @@ class RuleContext:
     rule: Rule
     annotation: Annotation
     claim: Claim | None
-    analyses: tuple[Any, ...]  # one SpeciesAnalysis per formula of the annotation
-    settings: Any  # notelsp.review.settings.Settings
-    # One notelsp.compute.ComputedSpecies (or None: not computed) per formula; () when none is.
+    analyses: tuple[SpeciesAnalysis, ...]  # one per formula of the annotation
+    settings: Settings
+    # One computed result (or None: not computed) per formula; () when none is.
     # An input like the text: rules read it, nothing here computes.
-    computed: tuple[Any, ...] = ()
+    computed: tuple[ComputedSpecies | None, ...] = ()
     # The label of the centre of a molecule the claim is about (target.Focus.centre), None otherwise.
     centre: str | None = None
 
     @property
-    def analysis(self) -> Any:
+    def analysis(self) -> SpeciesAnalysis | None:
+        """The analysis of the annotation's first formula; None when it has none."""
         return self.analyses[0] if self.analyses else None
 
-    def computed_of(self, index: int = 0) -> Any:
+    @property
+    def species(self) -> str:
+        """The first species as messages name it ("CH3COOH (C2)" for a centre of a molecule), "" when none."""
+        analysis = self.analysis
+        return analysis.formula if analysis is not None else ""
+
+    def computed_of(self, index: int = 0) -> ComputedSpecies | None:
         """The computed result of the annotation's ``index``-th formula, None where there is none."""
         return self.computed[index] if index < len(self.computed) else None
 
-    def calculation(self, index: int = 0) -> Any:
-        """The usable computed structure of the ``index``-th formula (a review.calculated.Calculation), or None."""
+    def calculation(self, index: int = 0) -> Calculation | None:
+        """The usable computed structure of the ``index``-th formula, or None."""
         from ..calculated import calculation
 
         return calculation(self.computed_of(index), self.centre if index == 0 else None)
@@ -133,7 +159,7 @@ class RuleContext:
         )
 
     @property
-    def exception(self) -> Any:
+    def exception(self) -> KnownException | None:
         """The known exception to plain VSEPR of the species' first centre, if any."""
         analysis = self.analysis
         if analysis is None or analysis.outside_model is not None or not analysis.centres:
@@ -175,17 +201,17 @@ class DocumentContext:
     rule: Rule
     text: str
     reviewed_chars: int
-    settings: Any
+    settings: Settings
 
     def finding(self, message: str, span: Span) -> Finding:
         return Finding(self.rule.code, self.settings.severity_of(self.rule), message, span, "")
 
 
-def whole_note_findings(text: str, reviewed_chars: int, settings: Any) -> list[Finding]:
+def whole_note_findings(text: str, reviewed_chars: int, settings: Settings) -> list[Finding]:
     found: list[Finding] = []
     for candidate in RULES.values():
         if candidate.whole_note and not candidate.reported_outside and settings.enabled(candidate.code):
-            found.extend(candidate.check(DocumentContext(candidate, text, reviewed_chars, settings)))
+            found.extend(candidate.run_on_note(DocumentContext(candidate, text, reviewed_chars, settings)))
     return found
 
 

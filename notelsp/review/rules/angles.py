@@ -89,7 +89,7 @@ def angle_window(context: RuleContext, claim: AngleClaim) -> AngleWindow | None:
     name = f"{a}-{centre.central}-{b}"
     expected_text = "; ".join(f"{_degrees(r.low)}-{_degrees(r.high)}° ({r.relation})" if len(ranges) > 1
                               else f"{_degrees(r.low)}-{_degrees(r.high)}°" for r in ranges)
-    value = _typical(context.analysis.formula, nearest_range.ligands) or nearest_range.estimate
+    value = _typical(context.species, nearest_range.ligands) or nearest_range.estimate
     return AngleWindow(fits, name, expected_text, f"{written_shape(centre.shape)}: {nearest_range.reason}", value,
                        f"{name} " if claim.atoms else "")
 
@@ -113,11 +113,11 @@ def implausible_angle(context: RuleContext) -> Iterator[Finding]:
     window = angle_window(context, claim)
     if window is None or window.fits:
         return
-    head = f"{context.analysis.formula}: {claim.text} is implausible; {window.said}"
+    head = f"{context.species}: {claim.text} is implausible; {window.said}"
     found = context.calculation()
     # a computed spin state that was a choice (CH2's triplet) does not overrule the rules for a claim
     values = found.angles(claim.atoms) if found is not None and not found.assumed_spin else ()
-    if not values:
+    if found is None or not values:
         yield context.finding(head, fixes=[context.replace_claim(f"{window.prefix}~{_degrees(window.estimate)}°")])
         return
     middle = (claim.low + claim.high) / 2
@@ -168,10 +168,10 @@ def angle_order_against_bent(context: RuleContext) -> Iterator[Finding]:
     if claim.relation == predicted:
         return
     left, right = "-".join(claim.left), "-".join(claim.right)
-    head = f"{context.analysis.formula}: claimed {left} {claim.relation} {right}; predicted {left} {predicted} {right}{note}"
+    head = f"{context.species}: claimed {left} {claim.relation} {right}; predicted {left} {predicted} {right}{note}"
     found = context.calculation()
     pair = (found.one_angle(claim.left), found.one_angle(claim.right)) if found is not None else (None, None)
-    if pair[0] is None or pair[1] is None:
+    if found is None or pair[0] is None or pair[1] is None:
         yield context.finding(head, fixes=[context.replace_claim(f"{left} {predicted} {right}")])
         return
     said = (f"computed ({found.method}) {left} {_degrees(pair[0])}°, {right} {_degrees(pair[1])}° "

@@ -32,7 +32,7 @@ def unknown_atom(context: RuleContext) -> Iterator[Finding]:
         return
     claim = context.claim
     span = (claim.atom_span if claim is not None and claim.atom_span is not None else None)
-    fixes = ()
+    fixes: tuple[Fix, ...] = ()
     if found.suggestion is not None and span is not None:
         fixes = (Fix(f"Replace with '{found.suggestion}'", span, found.suggestion),)
     yield context.finding(found.problem, span=span, fixes=fixes)
@@ -67,16 +67,17 @@ def terminal_atom(context: RuleContext) -> Iterator[Finding]:
     different label is only information.
     """
     found = focus(context.analyses, context.claim)
-    if found.terminal is None:
+    analysis = context.analysis
+    if found.terminal is None or analysis is None or analysis.molecule is None:  # only a molecule has terminal atoms
         return
     claim = context.claim
-    molecule = context.analysis.molecule.molecule
+    molecule = analysis.molecule.molecule
     atom = molecule.atoms[found.terminal]
     nonbonding = molecule.nonbonding_electrons(found.terminal)
     if nonbonding is None:
         return
     lone_pairs = max(0, nonbonding - atom.unpaired) // 2
-    where = f"{context.analysis.formula} ({atom.label}, terminal)"
+    where = f"{context.species} ({atom.label}, terminal)"
     if isinstance(claim, LonePairClaim):
         if claim.count != lone_pairs:
             plural = "s" if lone_pairs != 1 else ""
@@ -85,6 +86,7 @@ def terminal_atom(context: RuleContext) -> Iterator[Finding]:
                 f"electron count leaves {lone_pairs} lone pair{plural}",
                 fixes=[context.replace_claim(f"{lone_pairs} lone pair{plural}")])
         return
+    assert isinstance(claim, HybridizationClaim)  # the rule's other claim kind
     domains = 1 + lone_pairs + (1 if atom.unpaired else 0)
     label = _HYBRID_BY_DOMAINS.get(domains)
     if label is not None and claim.label is not None and claim.label != label:

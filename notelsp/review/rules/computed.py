@@ -150,7 +150,7 @@ def placement_against_calculation(context: RuleContext) -> Iterator[Finding]:
     if best and not any(placement_holds(isomer, claim) for isomer in best):
         return  # the rules flag it too: misplaced-ligand reports both
     gaps = energy_gaps_text(computed)
-    yield _finding(context, f"{context.analysis.formula} is claimed '{claim.text}'; {gaps}; "
+    yield _finding(context, f"{context.species} is claimed '{claim.text}'; {gaps}; "
                             f"the rules rank {best[0].name if best else 'no isomer'} first", Severity.INFORMATION)
 
 

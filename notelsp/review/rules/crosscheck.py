@@ -14,10 +14,13 @@ computed structure is at most information, whatever the severity is set to.
 from __future__ import annotations
 
 from collections.abc import Iterator
-from typing import Any
+from typing import TYPE_CHECKING
 
 from ..findings import Finding, Severity
 from . import RULES, RuleContext, _milder, rule
+
+if TYPE_CHECKING:
+    from ..settings import Settings
 
 COMPUTED_STRUCTURE = "computed-structure"
 COMPUTED_ISOMERS = "computed-isomers"
@@ -26,7 +29,7 @@ COMPUTED_PLACEMENT = "computed-placement"
 CROSS_CHECK_NOT_RUN = "cross-check-not-run"
 
 
-def cross_check_severity(code: str, settings: Any, at_most: Severity | None = None) -> Severity:
+def cross_check_severity(code: str, settings: Settings, at_most: Severity | None = None) -> Severity:
     """The severity of a cross-check finding of ``code`` under ``settings``, capped at ``at_most``."""
     severity = settings.severity_of(RULES[code])
     return severity if at_most is None else _milder(severity, at_most)

@@ -37,7 +37,7 @@ def _angle_window(context: RuleContext, centre, ligand: str | None) -> tuple[Win
     rules = _predicted_window(context, centre, ligand)
     found = context.calculation()
     value = found.one_angle((ligand, centre.central, ligand)) if found is not None else None
-    if value is None:
+    if found is None or value is None:
         return rules, None
     name = f"{ligand}-{centre.central}-{ligand}"
     return (value - found.uncertainty, value + found.uncertainty,
@@ -102,7 +102,7 @@ def index_angle_mismatch(context: RuleContext) -> Iterator[Finding]:
         fix = context.replace_claim(f"index {expected:.2f}") if expected is not None else None
     else:
         fix = context.replace_claim("unhybridized" if expected is None else f"sp^{expected:.2f}")
-    message = (f"{context.analysis.formula}: claimed index {value:g} does not fit {source}; "
+    message = (f"{context.species}: claimed index {value:g} does not fit {source}; "
                f"Coulson's theorem gives {expected_text}")
     if rules is not None and _index_bounds(rules[0], rules[1])[0] <= value <= _index_bounds(rules[0], rules[1])[1]:
         # the rules' window admits it, the calculation does not: both said, nothing rewritten
@@ -137,7 +137,7 @@ def s_character_mismatch(context: RuleContext) -> Iterator[Finding]:
     expected = 100 * s_character(index)
     scope = claim.text.split(" in ", 1)[1] if " in " in claim.text else None
     replacement = f"s-character {expected:.0f}%" + (f" in {scope}" if scope else "")
-    message = (f"{context.analysis.formula}: claimed s-character {claim.percent:g}% does not fit {source}; "
+    message = (f"{context.species}: claimed s-character {claim.percent:g}% does not fit {source}; "
                f"Coulson's theorem gives {lowest_s:.0f}-{highest_s:.0f}%")
     if rules is not None:
         rules_low, rules_high = _s_bounds(rules[0], rules[1])

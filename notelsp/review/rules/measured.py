@@ -84,7 +84,7 @@ def implausible_bond_length(context: RuleContext) -> Iterator[Finding]:
         return
     named = claim.text if claim.bond else f"{centre.central}-{ligand.symbol} {claim.text}"
     yield context.finding(
-        f"{context.analysis.formula}: {named} is implausible; predicted {predicted.angstrom:.2f} Å "
+        f"{context.species}: {named} is implausible; predicted {predicted.angstrom:.2f} Å "
         f"({low:.2f}-{high:.2f} Å, {predicted.reason})"
     )
 
@@ -126,7 +126,7 @@ def coupling_against_s_character(context: RuleContext) -> Iterator[Finding]:
         if abs(coupling_from_s_character(fraction) - claim.hertz) <= tolerance:
             return
         yield context.finding(
-            f"{context.analysis.formula if context.analysis else ''}: {claim.text} implies {100 * implied:.0f}% s in "
+            f"{context.species}: {claim.text} implies {100 * implied:.0f}% s in "
             f"the C-H bond (Muller-Pritchard, J ≈ 500 Hz × s), but '{written}' gives {100 * fraction:.0f}% "
             f"(expected about {coupling_from_s_character(fraction):.0f} Hz)"
         )
@@ -142,7 +142,7 @@ def coupling_against_s_character(context: RuleContext) -> Iterator[Finding]:
     caveat = (f"; with {', '.join(substituents)} on the carbon the relation underestimates the coupling, "
               "so this is a rough guide only" if substituents else "")
     finding = context.finding(
-        f"{context.analysis.formula}: {claim.text} does not fit the C-H bond's {100 * bond.s_character:.0f}% s "
+        f"{context.species}: {claim.text} does not fit the C-H bond's {100 * bond.s_character:.0f}% s "
         f"({bond.label}); Muller-Pritchard gives about {expected:.0f} Hz{caveat}"
     )
     if substituents:
@@ -227,7 +227,7 @@ def wrong_axe_class(context: RuleContext) -> Iterator[Finding]:
     written = f"AX{centre.bonded_atoms}" + (f"E{centre.lone_pairs}" if centre.lone_pairs > 1 else
                                            "E" if centre.lone_pairs == 1 else "")
     yield context.finding(
-        f"{context.analysis.formula}: claimed {claim.text}; {centre.central} has {centre.bonded_atoms} bonded "
+        f"{context.species}: claimed {claim.text}; {centre.central} has {centre.bonded_atoms} bonded "
         f"atoms and {centre.lone_pairs} lone pair{'s' if centre.lone_pairs != 1 else ''}: {written}",
         fixes=[context.replace_claim(written)],
     )

@@ -29,7 +29,7 @@ def _errors_with_code(context: RuleContext) -> Iterator[Finding]:
 
 
 def _as_finding(context: RuleContext, error: NotationError) -> Finding:
-    fixes = ()
+    fixes: tuple[Fix, ...] = ()
     if error.suggestion is not None:
         fixes = (Fix(f"Replace with '{error.suggestion}'", error.span, error.suggestion),)
     return context.finding(error.message, span=error.span, fixes=fixes)

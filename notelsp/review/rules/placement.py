@@ -9,26 +9,30 @@ names the claims left unchecked.
 
 from __future__ import annotations
 
-from collections.abc import Iterator, Sequence
+from collections.abc import Callable, Hashable, Iterator, Sequence
+from typing import TYPE_CHECKING
 
 from ...chem.isomers import Isomer, diastereomer_count, expected
 from ...chem.model import LONE_PAIR
-from ...notation.model import IsomerCountClaim, PlacementClaim, PointGroupClaim, PolarityClaim
+from ...notation.model import Claim, IsomerCountClaim, PlacementClaim, PointGroupClaim, PolarityClaim
 from ..calculated import energy_gaps_text, lowest_isomer
 from ..findings import Finding, Severity
 from . import RuleContext, rule
 from .vsepr import two_atoms
 
+if TYPE_CHECKING:
+    from ...chem.analysis import SpeciesAnalysis
+
 _POSITIONS = ("axial", "equatorial", "apical", "basal")
-_NEEDS_ISOMERS = (PlacementClaim, PolarityClaim, PointGroupClaim, IsomerCountClaim)
+_NEEDS_ISOMERS: tuple[type[Claim], ...] = (PlacementClaim, PolarityClaim, PointGroupClaim, IsomerCountClaim)
 _WORDS = {1: "one", 2: "two", 3: "three", 4: "four", 5: "five", 6: "six"}
 
 
 def _isomers(context: RuleContext) -> tuple[Isomer, ...]:
     analysis = context.analysis
-    if analysis is None or getattr(analysis, "outside_model", None) or not getattr(analysis, "centres", ()):
+    if analysis is None or analysis.outside_model or not analysis.centres:
         return ()
-    return tuple(getattr(analysis.centres[0], "isomers", ()) or ())
+    return analysis.centres[0].isomers
 
 
 @rule("isomers-not-enumerated", severity=Severity.INFORMATION)
@@ -47,7 +51,7 @@ def isomers_not_enumerated(context: RuleContext) -> Iterator[Finding]:
     said only where a claim needing them goes unchecked.
     """
     for index, (formula, analysis) in enumerate(zip(context.annotation.formulas, context.analyses)):
-        withheld = next((c.isomers_withheld for c in getattr(analysis, "centres", ()) if c.isomers_withheld), None)
+        withheld = next((c.isomers_withheld for c in analysis.centres if c.isomers_withheld), None)
         if withheld is None:
             continue
         # the isomer rules judge the first species only, so only its claims go unchecked
@@ -133,7 +137,7 @@ def placement_text(isomer: Isomer, claim: PlacementClaim) -> str | None:
             (where,) = counts
             return f"{_noun(claim.subject, len(indices))} {where}"
         # split over two kinds of site: state the one the claim named if present, else the commonest
-        where = claim.site if claim.site in counts else max(counts, key=counts.get)
+        where = claim.site if claim.site in counts else max(counts, key=counts.__getitem__)
         n = counts[where]
         quantity = "one" if n == 1 else str(n)
         return f"{quantity} {_noun(claim.subject, n)} {where}"
@@ -180,8 +184,8 @@ def misplaced_ligand(context: RuleContext) -> Iterator[Finding]:
     yield context.finding(message, fixes=[context.replace_claim(replacement)] if replacement else [])
 
 
-def _several_centres(analysis) -> bool:
-    whole = getattr(analysis, "molecule", None)
+def _several_centres(analysis: SpeciesAnalysis) -> bool:
+    whole = analysis.molecule
     return whole is not None and len(whole.centres) > 1
 
 
@@ -192,11 +196,12 @@ def _whole_molecule(context: RuleContext) -> tuple[str, bool, str] | str | None:
     two = two_atoms(context)
     if two is not None:
         return two.point_group, two.polar, "of any two-atom molecule of this kind"
-    if analysis is None or analysis.outside_model is not None or not _several_centres(analysis):
+    whole = analysis.molecule if analysis is not None and analysis.outside_model is None else None
+    if whole is None or len(whole.centres) <= 1:
         return None
     from ...chem.molecule_geometry import whole_molecule_symmetry  # RDKit's embedding, only when asked
 
-    found = whole_molecule_symmetry(analysis.molecule.molecule)
+    found = whole_molecule_symmetry(whole.molecule)
     return found if isinstance(found, str) else (*found, "of the whole molecule, from one 3D model of it")
 
 
@@ -215,11 +220,11 @@ def _polarity_word(polar: bool) -> str:
     return "polar" if polar else "nonpolar"
 
 
-def _agreed_expected(context: RuleContext, attribute: str) -> Isomer | None:
+def _agreed_expected(context: RuleContext, attribute: Callable[[Isomer], Hashable]) -> Isomer | None:
     """The expected isomer when every equally expected one has the same ``attribute``; else None
     (the claim cannot be judged against isomers that disagree)."""
     best = expected(_isomers(context))
-    if not best or len({getattr(isomer, attribute) for isomer in best}) != 1:
+    if not best or len({attribute(isomer) for isomer in best}) != 1:
         return None
     return best[0]
 
@@ -240,7 +245,7 @@ def wrong_polarity(context: RuleContext) -> Iterator[Finding]:
         yield from _judge_whole_molecule(context, whole, _polarity_word(claim.polar), polar == claim.polar,
                                          _polarity_word(polar))
         return
-    isomer = _agreed_expected(context, "polar")
+    isomer = _agreed_expected(context, lambda isomer: isomer.polar)
     if isomer is None or isomer.polar == claim.polar:
         return
     size = f", about {isomer.dipole_debye:.1f} D" if isomer.polar else ""
@@ -269,7 +274,7 @@ def wrong_point_group(context: RuleContext) -> Iterator[Finding]:
         yield from _judge_whole_molecule(context, whole, claim.text,
                                          normalised_symbol(group or "C1") == normalised_symbol(claim.symbol), group)
         return
-    isomer = _agreed_expected(context, "point_group")
+    isomer = _agreed_expected(context, lambda isomer: isomer.point_group)
     if isomer is None or normalised_symbol(isomer.point_group) == normalised_symbol(claim.symbol):
         return
     yield context.finding(

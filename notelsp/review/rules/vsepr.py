@@ -51,13 +51,13 @@ def wrong_shape(context: RuleContext) -> Iterator[Finding]:
     claim = context.claim
     two = two_atoms(context)
     if two is not None and isinstance(claim, ShapeClaim) and claim.shape != two.shape:
-        yield context.finding(f"{context.analysis.formula} is claimed {written_shape(claim.shape)}; two atoms "
+        yield context.finding(f"{context.species} is claimed {written_shape(claim.shape)}; two atoms "
                               "always lie on a line: linear", fixes=[context.replace_claim("linear")])
     if centre is None or not isinstance(claim, ShapeClaim) or claim.shape in centre.plausible_shapes:
         return
     source = f"expected as a {centre.exception.name}:" if centre.exception else "VSEPR predicts"
     yield context.finding(
-        f"{context.analysis.formula} is claimed {written_shape(claim.shape)}; {source} {written_shape(centre.shape)} ({_domains(centre)})",
+        f"{context.species} is claimed {written_shape(claim.shape)}; {source} {written_shape(centre.shape)} ({_domains(centre)})",
         fixes=[context.replace_claim(written_shape(centre.shape))],  # written as the README writes shapes
     )
 
@@ -74,7 +74,7 @@ def wrong_electron_geometry(context: RuleContext) -> Iterator[Finding]:
     if centre is None or not isinstance(claim, ElectronGeometryClaim) or claim.geometry == centre.electron_geometry:
         return
     yield context.finding(
-        f"{context.analysis.formula} is claimed to have {written_shape(claim.geometry)} electron geometry; "
+        f"{context.species} is claimed to have {written_shape(claim.geometry)} electron geometry; "
         f"VSEPR predicts {written_shape(centre.electron_geometry)} ({_domains(centre)})",
         fixes=[context.replace_claim(f"electron geometry {written_shape(centre.electron_geometry)}")],
     )
@@ -100,7 +100,7 @@ def wrong_hybridization(context: RuleContext) -> Iterator[Finding]:
                                    and _plain_shape_allowed(centre, exception))
                                   or claim.label in exception.also_hybridization):
         return  # the textbook label stays acceptable bookkeeping where the exception changes the bonding
-    formula = context.analysis.formula
+    formula = context.species
     if centre.drago.applies:
         message = (f"{formula} is claimed {claim.label}; Drago's rule predicts nearly unhybridized "
                    f"(pure p bonds near 90°, s-rich lone pair)")
@@ -133,7 +133,7 @@ def wrong_lone_pairs(context: RuleContext) -> Iterator[Finding]:
         return
     used = sum(l.bond_order for l in centre.ligands)
     yield context.finding(
-        f"{context.analysis.formula} is claimed to have {claim.count} lone pair{'s' if claim.count != 1 else ''} on "
+        f"{context.species} is claimed to have {claim.count} lone pair{'s' if claim.count != 1 else ''} on "
         f"{centre.central}; the electron count gives {centre.lone_pairs} ({centre.valence_electrons} valence electrons, "
         f"{used} used in bonds)",
         fixes=[context.replace_claim(f"{centre.lone_pairs} lone pair{'s' if centre.lone_pairs != 1 else ''}")],
