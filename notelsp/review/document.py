@@ -13,7 +13,7 @@ from __future__ import annotations
 from bisect import bisect_left, bisect_right
 from dataclasses import dataclass
 from functools import cache, cached_property
-from collections.abc import Iterator, Mapping
+from collections.abc import Iterable, Iterator, Mapping
 from typing import TYPE_CHECKING, Callable, Literal, NamedTuple
 
 from ..notation import scan
@@ -237,7 +237,7 @@ def _computed_key(computed: Computed) -> tuple:
     return tuple(sorted((name, _Same(result)) for name, result in computed.items())) if computed else ()
 
 
-def _review_found(found_in_order, text: str, settings: Settings, reviews: "Relative", placed: "Placed",
+def _review_found(found_in_order: Iterable[Found], text: str, settings: Settings, reviews: "Relative", placed: "Placed",
                   findings: list[Finding], computed: Computed) -> None:
     """Append the placed findings of each annotation (in document order) to ``findings``."""
     for found in found_in_order:

@@ -5,6 +5,7 @@ from __future__ import annotations
 import math
 from collections.abc import Iterator
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 from ...chem.bent import bond_length_trend
 from ...chem.coulson import TYPICAL_ANGLES
@@ -15,8 +16,11 @@ from ..findings import Finding, Severity
 from ..predictions import written_shape
 from . import RuleContext, rule
 
+if TYPE_CHECKING:
+    from ...chem.analysis import CentreAnalysis, PairRange, SpeciesAnalysis
 
-def centre_named(analysis, central: str | None):
+
+def centre_named(analysis: SpeciesAnalysis | None, central: str | None) -> CentreAnalysis | None:
     """The centre with this symbol (the first centre when no symbol is given)."""
     if analysis is None or analysis.outside_model is not None or not analysis.centres:
         return None
@@ -34,7 +38,7 @@ def _typical(formula: str, pair: tuple[str, str]) -> float | None:
     return next((v for k, v in table.items() if tuple(sorted(k)) == pair), None)
 
 
-def _in_expected_isomer(centre, ranges):
+def _in_expected_isomer(centre: CentreAnalysis, ranges: tuple[PairRange, ...]) -> tuple[PairRange, ...]:
     """Keep the ranges whose ideal angle the expected isomer really has between these two ligands.
 
     Without this, F-P-F in PCl3F2 could be any of 90, 120 or 180 degrees; with both F axial it is 180.
@@ -43,7 +47,7 @@ def _in_expected_isomer(centre, ranges):
     if not best or not ranges:
         return ranges
     pair = ranges[0].ligands
-    present = set()
+    present: set[float] = set()
     for isomer in best:
         for i, first in enumerate(isomer.sites):
             for second in isomer.sites[i + 1:]:

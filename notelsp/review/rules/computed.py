@@ -13,7 +13,7 @@ from collections.abc import Iterator
 
 from ...chem.ions import likely_ion
 from ...notation.model import AngleClaim, AngleOrderClaim, PlacementClaim
-from ..calculated import angle_fits, degrees_text, energy_gaps_text, lowest_isomer, order_contradicts
+from ..calculated import Calculation, angle_fits, degrees_text, energy_gaps_text, lowest_isomer, order_contradicts
 from ..findings import Finding, Severity
 from . import RuleContext, rule
 from .angles import angle_window, bent_order
@@ -70,7 +70,8 @@ def angle_against_calculation(context: RuleContext) -> Iterator[Finding]:
     yield _finding(context, message)
 
 
-def _computed_pair(context: RuleContext, claim: AngleOrderClaim):
+def _computed_pair(context: RuleContext,
+                   claim: AngleOrderClaim) -> tuple[float, float, Calculation, Calculation] | None:
     """(left value, right value, how each was computed) for an angle order, or None.
 
     In ``A vs B`` the left angle is A's and the right one B's (or the other way round when

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Iterator
+from typing import TYPE_CHECKING
 
 from ...chem.coulson import index_from_angle, s_character
 from ...notation.model import AngleClaim, HybridizationClaim, IndexClaim, SCharacterClaim
@@ -11,11 +12,14 @@ from ..findings import Finding, Severity
 from . import RuleContext, rule
 from .angles import _degrees, centre_named
 
+if TYPE_CHECKING:
+    from ...chem.analysis import CentreAnalysis
+
 
 Window = tuple[float, float, str, "float | None"]
 
 
-def _angle_window(context: RuleContext, centre, ligand: str | None) -> tuple[Window | None, Window | None]:
+def _angle_window(context: RuleContext, centre: CentreAnalysis, ligand: str | None) -> tuple[Window | None, Window | None]:
     """(the L-X-L angle window the index should match, the rules' own window where that one is computed).
 
     The window (degrees) is a claimed angle's, else the computed angle ± the method's uncertainty, else
@@ -44,7 +48,7 @@ def _angle_window(context: RuleContext, centre, ligand: str | None) -> tuple[Win
             f"the {name} angle {found.said([value])}", index_from_angle(value)), rules
 
 
-def _predicted_window(context: RuleContext, centre, ligand: str) -> Window | None:
+def _predicted_window(context: RuleContext, centre: CentreAnalysis, ligand: str) -> Window | None:
     tolerance = context.settings.angle_tolerance
     ranges = centre.ranges_for(ligand, ligand)
     if len(ranges) != 1:
@@ -63,7 +67,7 @@ def _index_bounds(low: float, high: float) -> tuple[float, float]:
     return smallest, largest
 
 
-def _hybrid_centre(context: RuleContext):
+def _hybrid_centre(context: RuleContext) -> CentreAnalysis | None:
     centre = centre_named(context.analysis, None)
     if centre is None or centre.steric_number > 4:
         return None  # Coulson's s-p relation does not describe hypervalent centres

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from collections.abc import Iterator
+from typing import TYPE_CHECKING
 
 from ... import elements
 from ...chem.bondlength import predict_bond_length
@@ -27,10 +28,14 @@ from ..findings import Finding, Severity
 from . import RuleContext, rule
 from .angles import centre_named
 
+if TYPE_CHECKING:
+    from ...chem.analysis import CentreAnalysis, SpeciesAnalysis
+    from ...chem.model import Ligand
+
 _LABEL_INDEX = {"sp": 1.0, "sp2": 2.0, "sp3": 3.0}
 
 
-def _bond_of(centre, bond: tuple[str, str] | None):
+def _bond_of(centre: CentreAnalysis, bond: tuple[str, str] | None) -> Ligand | None:
     """The centre's ligand a length claim is about, or None when the claim names no single bond of it."""
     if bond is None:
         kinds = {l.symbol for l in centre.ligands}
@@ -133,7 +138,7 @@ def coupling_against_s_character(context: RuleContext) -> Iterator[Finding]:
         return
     centre = centre_named(context.analysis, "C")
     bond = centre.coulson.bond("H") if centre is not None and centre.coulson is not None else None
-    if bond is None:
+    if centre is None or bond is None:
         return
     expected = coupling_from_s_character(bond.s_character)
     if abs(expected - claim.hertz) <= tolerance:
@@ -150,7 +155,7 @@ def coupling_against_s_character(context: RuleContext) -> Iterator[Finding]:
     yield finding
 
 
-def _electron_count(analysis) -> int | None:
+def _electron_count(analysis: SpeciesAnalysis) -> int | None:
     """Valence electrons of the whole species (after its charge), None outside the main group."""
     total = 0
     for symbol, count in analysis_composition(analysis).items():
@@ -161,7 +166,7 @@ def _electron_count(analysis) -> int | None:
     return total - analysis.charge
 
 
-def analysis_composition(analysis) -> dict[str, int]:
+def analysis_composition(analysis: SpeciesAnalysis) -> dict[str, int]:
     """Element counts of the analysed species (its centres' view is partial for groups, so re-derive)."""
     from ...notation import parse_formula
 

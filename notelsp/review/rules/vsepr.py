@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from collections.abc import Iterator
+from typing import TYPE_CHECKING
 
 from ...notation.model import ElectronGeometryClaim, HybridizationClaim, LonePairClaim, ShapeClaim
 from ...chem.ions import likely_ion, written_charge
@@ -11,6 +12,10 @@ from ...chem.vsepr import HYBRIDIZATION, SHAPES
 from ..predictions import written_shape
 from ..findings import Finding, Fix, Severity
 from . import RuleContext, rule
+
+if TYPE_CHECKING:
+    from ...chem.analysis import CentreAnalysis
+    from ...chem.exceptions import KnownException
 
 
 def two_atoms(context: RuleContext) -> Diatomic | None:
@@ -22,7 +27,7 @@ def two_atoms(context: RuleContext) -> Diatomic | None:
     return diatomic(formula.composition())
 
 
-def first_centre(context: RuleContext):
+def first_centre(context: RuleContext) -> CentreAnalysis | None:
     """The analysed centre the claims speak about, or None when the model cannot say."""
     analysis = context.analysis
     if analysis is None or analysis.outside_model is not None or not analysis.centres:
@@ -32,7 +37,7 @@ def first_centre(context: RuleContext):
 
 
 
-def _domains(centre) -> str:
+def _domains(centre: CentreAnalysis) -> str:
     odd = f", {centre.odd_electrons} odd electron" if centre.odd_electrons else ""
     return (f"{centre.bonded_atoms} bonded atoms, {centre.lone_pairs} lone "
             f"pair{'s' if centre.lone_pairs != 1 else ''}{odd}: steric number {centre.steric_number}")
@@ -112,7 +117,7 @@ def wrong_hybridization(context: RuleContext) -> Iterator[Finding]:
     yield context.finding(message, fixes=[context.replace_claim(centre.hybridization)])
 
 
-def _plain_shape_allowed(centre, exception) -> bool:
+def _plain_shape_allowed(centre: CentreAnalysis, exception: KnownException) -> bool:
     """Whether the exception still allows the shape plain VSEPR gives; where it does not (an amide N
     held planar by conjugation), the steric number's label names that ruled-out shape (sp3)."""
     plain = SHAPES.get((centre.steric_number, centre.bonded_atoms))
