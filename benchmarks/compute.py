@@ -1,4 +1,19 @@
-"""Computed-geometry figures: computed_species_per_s and cached_lookup_us.
+"""Computed-geometry figures: a 200-species note through ``notelsp check``, and the pool itself.
+
+note200_*: a note naming 200 distinct species (single-centre AXn molecules
+and ions, mixed halides with several isomers, radicals, condensed formulas
+and SMILES; one annotation each, with a claim) is checked by the real
+command line, ``notelsp check NOTE --format json``, in a subprocess with a
+fresh, empty cache folder (``NOTELSP_CACHE_DIR``): note200_cold_s computes
+every species (one worker per core), note200_warm_s runs the same command
+again and answers from the disk cache, note200_rules_only_s is the same note
+with ``--rules-only``; the ``*_cpu_s`` figures are the CPU time of each run's
+whole process tree (workers included).  Both reports must parse as JSON and the warm one must
+list exactly the cold one's findings (the benchmark stops otherwise).
+note200_failed counts the species with no usable computed geometry, and
+note200_failed_species names each with its reason: a calculation that failed
+(its ``calculation-failed`` finding) or a species the calculation does not
+build (none of these 200 should be one).
 
 computed_species_per_s: 20 distinct species (4 of them mixed halides with
 several isomers) optimised with GFN2-xTB by a pool of one worker per core,
@@ -8,20 +23,131 @@ computed_structures_per_s counts every isomer optimised.
 cached_lookup_us: mean time to read, parse and check one stored structure
 from a warm disk cache (the file system's cache warm too).
 
-Runs in a temporary cache folder; the user's own cache is not touched.
+Everything runs in temporary cache folders; the user's own cache is not touched.
 """
 
 from __future__ import annotations
 
+import json
 import os
+import resource
+import subprocess
+import sys
 import tempfile
 import time
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parent.parent
 
 SPECIES = ["NH3", "H2O", "PH3", "H2S", "CH4", "SiH4", "CF4", "NF3", "PF3", "OF2",
            "SO2", "ClF3", "BF3", "SF4", "SF6", "PF5", "XeF4", "PCl3F2", "SOF4", "PCl2F3"]
 
+# 200 distinct species, grouped by the claim each carries (one annotation per species).
+NOTE_SPECIES: tuple[tuple[str, tuple[str, ...]], ...] = (
+    ("tetrahedral, no lone pairs", (
+        "CH4", "SiH4", "GeH4", "CF4", "CCl4", "SiF4", "SiCl4", "GeF4", "GeCl4", "SnCl4", "NH4+", "BF4-",
+        "AlCl4-", "BH4-", "AlH4-", "PCl4+", "SO4^2-", "PO4^3-", "ClO4-", "IO4-", "XeO4", "CH3F", "CH3Cl",
+        "CH2Cl2", "CHCl3", "CH2F2", "CHF3", "CH3Br", "CH3I", "CF3Cl", "CF2Cl2", "CFCl3", "SiH3Cl",
+        "SiHCl3", "SiF3Cl", "POCl3", "POF3", "PSCl3", "SO2Cl2", "SO2F2")),
+    ("trigonal pyramidal, one lone pair", (
+        "NH3", "PH3", "AsH3", "NF3", "NCl3", "PF3", "PCl3", "PBr3", "AsF3", "AsCl3", "SbCl3", "H3O+",
+        "SO3^2-", "ClO3-", "BrO3-", "IO3-", "XeO3", "CH3-", "SnCl3-", "GeCl3-", "PF2Cl", "NF2Cl", "SOCl2",
+        "SOF2", "SF3+")),
+    ("bent, angle 105°", (
+        "H2O", "H2S", "H2Se", "OF2", "OCl2", "SCl2", "SF2", "NH2-", "PH2-", "H2F+", "ClO2-", "ClF2+",
+        "BrF2+", "ICl2+", "NH2")),
+    ("bent, angle 118°", (
+        "SO2", "NO2-", "SnCl2", "PbCl2", "GeCl2", "CCl2", "CF2", "SiH2", "CH2", "ClO2", "NO2", "NOCl",
+        "NOF")),
+    ("trigonal planar, angle 120°", (
+        "BF3", "BCl3", "BBr3", "AlCl3", "BH3", "AlH3", "SO3", "NO3-", "CO3^2-", "CH3+", "COCl2", "COF2",
+        "NO2F", "NO2Cl", "BF2Cl", "CH3", "SiH3", "CF3", "CCl3")),
+    ("linear, angle 180°", ("BeH2", "BeCl2", "CO2", "CS2", "NO2+", "XeF2", "KrF2", "ICl2-", "I3-", "ClF2-")),
+    ("T-shaped, two lone pairs equatorial", ("ClF3", "BrF3", "IF3", "ICl3", "XeF3+", "XeOF2")),
+    ("seesaw, one lone pair", ("SF4", "SeF4", "TeF4", "SCl4", "TeCl4", "SbCl4-", "ClF4+", "SF3Cl", "XeO2F2")),
+    ("square planar", ("XeF4", "ICl4-", "BrF4-", "ClF4-")),
+    ("square pyramidal", ("ClF5", "BrF5", "IF5", "XeOF4", "XeF5+")),
+    ("trigonal bipyramidal, F axial", (
+        "PF5", "PCl5", "AsF5", "SbF5", "SbCl5", "PCl3F2", "PCl2F3", "PClF4", "PBrF4", "SOF4")),
+    ("octahedral, sp3d2", (
+        "SF6", "TeF6", "PF6-", "PCl6-", "SiF6^2-", "AsF6-", "SbF6-", "BrF6+", "IF6+", "SF5Cl", "SF4Cl2",
+        "IOF5", "IO6^5-")),
+    ("pentagonal planar", ("XeF5-",)),
+    ("pentagonal bipyramidal", ("IF7",)),
+    ("distorted octahedral", ("XeF6",)),
+    ("polar", (
+        "CH3OH", "CH3COOH", "N2H4", "H2O2", "CH3CN", "HCOOH", "CH3CHO", "CH3NH2", "CH3OCH3", "CH2=CHCl",
+        "CH3CH2OH", "(CH3)2CO", "NH2OH", "HNO2", "HCN", "CH2O", 'smiles "CC(=O)N"', 'smiles "c1ccncc1"',
+        'smiles "OCCO"', 'smiles "C=CC#N"')),
+    ("nonpolar", ("C2H4", "C2H6", "C2H2", "C6H6", 'smiles "C1CC1"', 'smiles "CC#CC"', 'smiles "C=C=C"')),
+    ("1 unpaired electron", ("CH3CH2",)),
+)
 
-def measure() -> dict[str, str]:
+
+def note_text() -> str:
+    lines = ["# Two hundred species", "", "```bonding"]
+    lines += [f"{species}: {claim}" for claim, group in NOTE_SPECIES for species in group]
+    return "\n".join([*lines, "```", ""])
+
+
+def _check(note: Path, cache: str, *extra: str) -> tuple[float, float, dict]:
+    """Wall time, CPU time (the process and its workers) and parsed JSON report of one ``notelsp check``."""
+    environment = {key: value for key, value in os.environ.items()
+                   if key not in ("XDG_CACHE_HOME", "NOTELSP_COMPUTE", "NOTELSP_WORKERS")}
+    environment["NOTELSP_CACHE_DIR"] = cache
+    before = resource.getrusage(resource.RUSAGE_CHILDREN)
+    start = time.perf_counter()
+    done = subprocess.run([sys.executable, "-m", "notelsp", "check", str(note), "--format", "json", *extra],
+                          cwd=ROOT, env=environment, capture_output=True, text=True, timeout=1800)
+    elapsed = time.perf_counter() - start
+    after = resource.getrusage(resource.RUSAGE_CHILDREN)
+    cpu = after.ru_utime + after.ru_stime - before.ru_utime - before.ru_stime
+    if done.returncode not in (0, 1):
+        raise RuntimeError(f"notelsp check exited {done.returncode}: {done.stderr[-2000:]}")
+    return elapsed, cpu, json.loads(done.stdout)
+
+
+def _findings(report: dict) -> list:
+    return [finding for file in report["files"] for finding in file["findings"]]
+
+
+def measure_note() -> dict[str, str]:
+    from notelsp.chem import analyse
+    from notelsp.compute.geometry import Skipped, start_structures
+    from notelsp.notation import parse_formula
+
+    species = [s for _, group in NOTE_SPECIES for s in group]
+    assert len(species) == len(set(species)) == 200, "the note must name 200 distinct species"
+    figures: dict[str, str] = {"note200_species": str(len(species))}
+    with tempfile.TemporaryDirectory() as folder:
+        note = Path(folder) / "two-hundred.md"
+        note.write_text(note_text(), encoding="utf-8")
+        cache = str(Path(folder) / "cache")
+        cold_s, cold_cpu, cold = _check(note, cache)
+        warm_s, warm_cpu, warm = _check(note, cache)
+        rules_s, rules_cpu, _ = _check(note, cache, "--rules-only")
+    if _findings(warm) != _findings(cold):
+        raise RuntimeError("the warm check's findings differ from the cold check's")
+    failed = {f["formula"]: f["message"].split(": ", 1)[-1] for f in _findings(cold)
+              if f["code"] == "calculation-failed"}
+    for text in species:  # species the calculation does not build are not reported by check
+        built = start_structures(analyse(parse_formula(text)))
+        if isinstance(built, Skipped):
+            failed[text] = f"not built: {built.reason}"
+    figures["note200_cold_s"] = f"{cold_s:.1f}"
+    figures["note200_warm_s"] = f"{warm_s:.2f}"
+    figures["note200_rules_only_s"] = f"{rules_s:.2f}"
+    # CPU seconds of the whole process tree: steadier than wall time on a machine shared with other work
+    figures["note200_cold_cpu_s"] = f"{cold_cpu:.1f}"
+    figures["note200_warm_cpu_s"] = f"{warm_cpu:.2f}"
+    figures["note200_rules_only_cpu_s"] = f"{rules_cpu:.2f}"
+    figures["note200_findings"] = str(len(_findings(cold)))
+    figures["note200_failed"] = str(len(failed))
+    figures["note200_failed_species"] = "; ".join(f"{name} ({why})" for name, why in failed.items()) or "none"
+    return figures
+
+
+def measure_pool() -> dict[str, str]:
     from notelsp.compute import GeometryPool, cache
     from notelsp.compute.geometry import start_structures
     from notelsp.compute.pool import Request
@@ -66,6 +192,10 @@ def measure() -> dict[str, str]:
                 else:
                     os.environ[name] = value
     return figures
+
+
+def measure() -> dict[str, str]:
+    return {**measure_note(), **measure_pool()}
 
 
 def main() -> None:

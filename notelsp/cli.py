@@ -632,19 +632,22 @@ def _computed_for(items: list, options: CheckOptions, settings: Any) -> dict[str
     import contextlib
     import io
 
+    from .compute import species_cache
     from .notation import scan
-    from .review.document import species_to_compute
 
-    wanted: dict[str, None] = {}
+    # Keyed as review_text's ``computed`` is (Formula.text, as species_to_compute lists them); each is
+    # asked for as written, so a SMILES or a named centre (HOCl @O) is computed as what it is.
+    wanted: dict[str, str] = {}
     with contextlib.redirect_stderr(io.StringIO()):  # what reading a note says is printed when it is reviewed
         for item in items:
             if not getattr(settings if item is None else item.settings, "compute", True):
                 continue  # its settings file says compute = false
             for text, kind in _texts_of(item, options):
-                wanted.update(dict.fromkeys(species_to_compute(scan(text, kind))))
+                for entry in scan(text, kind).found:
+                    for formula in entry[4].formulas:
+                        wanted.setdefault(formula.text, species_cache.written(formula))
     if not wanted:
         return {}
-    from .compute import GeometryPool
     from .compute.method import missing_packages
 
     missing = missing_packages()
@@ -652,13 +655,19 @@ def _computed_for(items: list, options: CheckOptions, settings: Any) -> dict[str
         print(f"notelsp: computing no geometries ({' and '.join(missing)} not installed); the rules judge alone",
               file=sys.stderr)
         return {}
-    progress = _Progress(len(wanted), sys.stderr)
-    with GeometryPool() as pool:
-        try:
-            results = pool.compute(list(wanted), on_species=lambda _: progress.step())
-        finally:
-            progress.done()
-    return dict(zip(wanted, results))
+    # species cached whole are read without the pool (no chemistry, no worker processes)
+    found = species_cache.load_many(list(wanted.values()))
+    rest = [text for text in wanted.values() if text not in found]
+    if rest:
+        from .compute import GeometryPool
+
+        progress = _Progress(len(rest), sys.stderr)
+        with GeometryPool() as pool:
+            try:
+                found.update(zip(rest, pool.compute(rest, on_species=lambda _: progress.step())))
+            finally:
+                progress.done()
+    return {key: found[text] for key, text in wanted.items()}
 
 
 def _texts_of(item: Any, options: CheckOptions) -> list[tuple[str, str]]:

@@ -27,12 +27,14 @@ import stat
 import tempfile
 import time
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from ..notefiles import bounded_json, read_cache_entry
-from .geometry import Structure
 from .method import METHOD, versions
 from .result import BadResult, ComputedGeometry, geometry_from_dict, geometry_to_dict
+
+if TYPE_CHECKING:  # building structures needs the chemistry; reading entries does not
+    from .geometry import Structure
 
 FORMAT = 2  # bump when an entry changes shape or meaning (2: molecules, with their bonds)
 MAX_ENTRY_BYTES = 64 * 1024  # a structure of 40 atoms is about 8 kB
@@ -56,15 +58,31 @@ def cache_root() -> Path:
 
 def entry_key(structure: Structure) -> list[Any]:
     """Everything a computed structure depends on, as JSON."""
-    return [FORMAT, METHOD, [list(v) for v in versions()], structure.species, structure.charge, structure.isomer,
-            list(structure.symbols), list(structure.labels), list(structure.sites),
-            [[round(c, 6) for c in p] for p in structure.positions], structure.unpaired,
-            [list(c) for c in structure.connections]]
+    return _key(structure, structure.positions)
+
+
+def geometry_key(geometry: ComputedGeometry) -> list[Any]:
+    """The key of the structure a result was computed from (its start): the key it is stored under."""
+    return _key(geometry, geometry.start)
+
+
+def _key(of: Structure | ComputedGeometry, start: tuple) -> list[Any]:
+    return [FORMAT, METHOD, [list(v) for v in versions()], of.species, of.charge, of.isomer,
+            list(of.symbols), list(of.labels), list(of.sites),
+            [[round(c, 6) for c in p] for p in start], of.unpaired,
+            [list(c) for c in of.connections]]
+
+
+def key_digest(key: list[Any]) -> str:
+    return hashlib.sha256(json.dumps(key).encode()).hexdigest()[:32]
+
+
+def entry_file(digest: str) -> Path:
+    return cache_root() / f"{digest}.json"
 
 
 def entry_path(structure: Structure) -> Path:
-    digest = hashlib.sha256(json.dumps(entry_key(structure)).encode()).hexdigest()[:32]
-    return cache_root() / f"{digest}.json"
+    return entry_file(key_digest(entry_key(structure)))
 
 
 def parse_entry(data: bytes, structure: Structure) -> ComputedGeometry:
@@ -106,11 +124,9 @@ def store(geometry: ComputedGeometry) -> None:
     global _stores
     if geometry.failed is not None:
         return
-    structure = Structure(geometry.species, geometry.charge, geometry.isomer, geometry.rank, geometry.symbols,
-                          geometry.labels, geometry.sites, geometry.start, (), geometry.unpaired, geometry.spin,
-                          geometry.connections)
-    path = entry_path(structure)
-    payload = json.dumps({"key": entry_key(structure), "geometry": geometry_to_dict(geometry)}, allow_nan=False)
+    key = geometry_key(geometry)
+    path = entry_file(key_digest(key))
+    payload = json.dumps({"key": key, "geometry": geometry_to_dict(geometry)}, allow_nan=False)
     try:
         path.parent.mkdir(parents=True, exist_ok=True)
         descriptor, temporary = tempfile.mkstemp(dir=path.parent, prefix=".entry-", suffix=".tmp")

@@ -25,7 +25,7 @@ from ..chem import analyse
 from ..chem.analysis import SpeciesAnalysis
 from ..notation import parse_formula
 from ..notation.model import Formula
-from . import cache, worker
+from . import cache, species_cache, worker
 from .geometry import Skipped, Structure, failure, start_structures
 from .identity import closest_start
 from .method import METHOD, Limits, missing_packages, versions
@@ -111,7 +111,13 @@ class GeometryPool:
         if missing:
             return [ComputedSpecies(_name(r.species), 0, METHOD, versions(), (),
                                     f"{' and '.join(missing)} not installed (pip install tblite ase)") for r in asked]
-        starts = [_structures(r, self.limits) for r in asked]
+        results: list[ComputedSpecies | None] = [None] * len(asked)
+        if self.use_cache:  # a species indexed whole needs no analysis, no structures built
+            for index, request in enumerate(asked):
+                if isinstance(request.species, str):
+                    results[index] = species_cache.load(request.species, request.unpaired, self.limits)
+        starts = [_structures(r, self.limits) if results[i] is None else Skipped("indexed")
+                  for i, r in enumerate(asked)]
         slots: list[list[ComputedGeometry | None]] = [[] if isinstance(s, Skipped) else [None] * len(s[1])
                                                       for s in starts]
         cached = [0] * len(asked)
@@ -126,12 +132,17 @@ class GeometryPool:
                     cached[index] += 1
                 else:
                     pending.append(_Job(index, slot, structure))
-        results: list[ComputedSpecies | None] = [None] * len(asked)
+        heard = [False] * len(asked)
 
         def finish_ready() -> None:
             for index, start in enumerate(starts):
                 if results[index] is None and all(g is not None for g in slots[index]):
                     results[index] = _species(asked[index], start, slots[index], cached[index])  # type: ignore[arg-type]
+                    request = asked[index]
+                    if self.use_cache and isinstance(request.species, str):
+                        species_cache.store(request.species, request.unpaired, self.limits, results[index])
+                if results[index] is not None and not heard[index]:
+                    heard[index] = True
                     if on_species is not None:
                         on_species(results[index])  # type: ignore[arg-type]
 
