@@ -38,6 +38,12 @@ from .protocol import NoteProtocol, report_wire_fault
 
 log = logging.getLogger("notelsp.server")
 SETTINGS_FILE = ".notelsp.toml"
+# Notebook sync (LSP 3.17), offered only to clients that declare it: the Markdown cells of notebooks
+# stored as .ipynb ("jupyter-notebook", VS Code's name and the specification's examples'); see notebooks.
+NOTEBOOK_SYNC = types.NotebookDocumentSyncOptions(
+    notebook_selector=[types.NotebookDocumentFilterWithNotebook(
+        notebook="jupyter-notebook", cells=[types.NotebookCellLanguage(language="markdown")])],
+)
 
 # Registered in this order; optional modules are skipped when they cannot be imported.
 FEATURES = (
@@ -73,7 +79,7 @@ class HeldDocument:
 class NoteServer(LanguageServer):
     def __init__(self) -> None:
         super().__init__("notelsp", __version__, text_document_sync_kind=types.TextDocumentSyncKind.Incremental,
-                         protocol_cls=NoteProtocol)
+                         notebook_document_sync=NOTEBOOK_SYNC, protocol_cls=NoteProtocol)
         self.settings = Settings()
         self.file_settings: Settings | None = None  # from .notelsp.toml, the base editor settings apply over
         self.pushed_settings: dict | None = None  # the "notelsp" section of the last didChangeConfiguration

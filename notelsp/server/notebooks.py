@@ -6,6 +6,8 @@ cell as a text document of its own (its URI is the cell's, e.g.
 is Markdown, in a notebook whose file the settings review, is reviewed like
 any open note: diagnostics are scheduled as for a note's own changes (and
 pulled for it the same way), so hover, fixes and hints work in cells too.
+The capability itself (which notebooks and cells) is a constructor option of
+pygls's server: ``app.NOTEBOOK_SYNC``.
 """
 
 from __future__ import annotations
@@ -17,16 +19,6 @@ from lsprotocol import types
 from ..review.workspace import is_hidden, is_selected, note_kind
 from .app import NoteServer
 from .diagnostics import publish_json, schedule
-
-# VS Code's (and the LSP specification's examples') name for notebooks stored as .ipynb files.
-NOTEBOOK_TYPE = "jupyter-notebook"
-SYNC_OPTIONS = types.NotebookDocumentSyncOptions(
-    notebook_selector=[
-        types.NotebookDocumentFilterWithNotebook(
-            notebook=NOTEBOOK_TYPE, cells=[types.NotebookCellLanguage(language="markdown")]
-        )
-    ],
-)
 
 
 def reviewed_cell(ls: NoteServer, uri: str) -> bool | None:
@@ -57,9 +49,6 @@ def _forget(ls: NoteServer, uri: str) -> None:
 
 
 def register(server: NoteServer) -> None:
-    # pygls builds the notebookDocumentSync capability from this constructor option (offered only to
-    # clients that declare notebook support); setting it here keeps the feature in this module.
-    server._notebook_document_sync = SYNC_OPTIONS
     server.cell_reviewed = reviewed_cell
 
     @server.feature(types.NOTEBOOK_DOCUMENT_DID_OPEN)

@@ -2,10 +2,12 @@
 
 Counted as objects the server holds (documents, scheduled publications,
 pending futures), never as process memory.  pygls keeps the future of every
-notification it runs unless the server drops it (notelsp.server.protocol).
+notification it runs unless the server drops it (notelsp.server.pygls_adapter).
 """
 
 from __future__ import annotations
+
+from notelsp.server.pygls_adapter import held_futures
 
 from .in_process import notification, request, serve, start
 from .scale import scaled, tried
@@ -18,8 +20,8 @@ def _held_per_uri(server) -> dict[str, int]:
     held = {
         "open documents": len(server.workspace.text_documents),
         "scheduled diagnostics": len(server.pending),
-        "futures of running handlers": len(server.protocol._request_futures),
-        "cancellable request steps": len(server.protocol._request_steps),
+        "futures of running handlers": held_futures(server.protocol),
+        "running commands": len(server.protocol.running_commands),
         "documents of the analysis host": len(server.host.uris()),  # with their settings and cross-checks
     }
     for name in ("crosscheck_automatic", "crosscheck_calculating", "crosscheck_look_again"):
@@ -43,7 +45,7 @@ def test_one_character_edits_leave_no_future_behind():
     tried("one-character edits sent in process (futures counted after)", edits)
     assert server.workspace.get_text_document(uri).source == "x" * edits + NOTE  # every edit was applied
     assert [m for m in sent if m.get("id") == 2 and m.get("result")]  # and the session was served
-    assert len(server.protocol._request_futures) == 0
+    assert held_futures(server.protocol) == 0
 
 
 def test_opening_and_closing_documents_leaves_nothing_held():

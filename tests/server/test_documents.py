@@ -12,7 +12,8 @@ from lsprotocol import types
 from pygls.workspace import TextDocument, Workspace
 from pygls.workspace.position_codec import PositionCodec
 
-from notelsp.server.documents import SplicedDocument, SplicedWorkspace, spliced
+from notelsp.server.app import build_server
+from notelsp.server.documents import SplicedDocument, adopt
 
 ENCODINGS = ("utf-8", "utf-16", "utf-32")
 PIECES = ["ClF3", " ", "{SF4: seesaw}", "\n", "\r\n", "é", "😀", "e\u0301", "中文", "H₂O", "\t", "x"]
@@ -66,8 +67,58 @@ def test_positions_past_the_end_clamp_to_it():
     assert ours.source == "ab\ncd!"
 
 
-def test_the_workspace_pygls_builds_is_turned_into_one_that_splices():
+def test_a_document_pygls_opens_is_swapped_for_one_that_splices():
     workspace = Workspace(None, types.TextDocumentSyncKind.Incremental)
-    assert isinstance(spliced(workspace), SplicedWorkspace)
     workspace.put_text_document(types.TextDocumentItem(uri="file:///n.md", language_id="markdown", version=1, text="x"))
-    assert isinstance(workspace.get_text_document("file:///n.md"), SplicedDocument)
+    adopt(workspace, "file:///n.md")
+    document = workspace.get_text_document("file:///n.md")
+    assert isinstance(document, SplicedDocument) and (document.source, document.version) == ("x", 1)
+    workspace.update_text_document(types.VersionedTextDocumentIdentifier(uri="file:///n.md", version=2),
+                                   _change((0, 1), (0, 1), "\u2028y"))
+    assert (document.source, document.version) == ("x\u2028y", 2)
+
+
+class _Discarded:
+    def write(self, data: bytes) -> None:
+        pass
+
+    def close(self) -> None:
+        pass
+
+
+def _handle(server, method: str, params: dict, request_id: int | None = None) -> None:
+    message = {"jsonrpc": "2.0", "method": method, "params": params}
+    if request_id is not None:
+        message["id"] = request_id
+    server.protocol.handle_message(server.protocol.structure_message(message))
+
+
+def test_documents_and_cells_the_server_opens_splice_their_changes():
+    server = build_server()
+    server.protocol.set_writer(_Discarded())
+    _handle(server, "initialize", {"capabilities": {}}, 1)
+    _handle(server, "textDocument/didOpen", {"textDocument": {
+        "uri": "file:///n.md", "languageId": "markdown", "version": 1, "text": "a\u2028b\nc"}})
+    _handle(server, "textDocument/didChange", {"textDocument": {"uri": "file:///n.md", "version": 2},
+                                               "contentChanges": [{"range": {"start": {"line": 1, "character": 0},
+                                                                             "end": {"line": 1, "character": 1}},
+                                                                   "text": "C"}]})
+    assert server.workspace.get_text_document("file:///n.md").source == "a\u2028b\nC"
+    cell = {"uri": "cell:1", "languageId": "markdown", "version": 1, "text": "x"}
+    _handle(server, "notebookDocument/didOpen", {
+        "notebookDocument": {"uri": "file:///b.ipynb", "notebookType": "jupyter-notebook", "version": 1,
+                             "cells": [{"kind": 1, "document": "cell:1"}]},
+        "cellTextDocuments": [cell]})
+    # a cell opened and edited in one change: the edit reaches a document that splices
+    new_cell = {"uri": "cell:2", "languageId": "markdown", "version": 1, "text": "p\u2028q\nr"}
+    _handle(server, "notebookDocument/didChange", {
+        "notebookDocument": {"uri": "file:///b.ipynb", "version": 2},
+        "change": {"cells": {
+            "structure": {"array": {"start": 1, "deleteCount": 0, "cells": [{"kind": 1, "document": "cell:2"}]},
+                          "didOpen": [new_cell]},
+            "textContent": [{"document": {"uri": "cell:2", "version": 2}, "changes": [
+                {"range": {"start": {"line": 1, "character": 0}, "end": {"line": 1, "character": 1}}, "text": "R"}]}],
+        }}})
+    for uri, text in (("cell:1", "x"), ("cell:2", "p\u2028q\nR")):
+        document = server.workspace.get_text_document(uri)
+        assert isinstance(document, SplicedDocument) and document.source == text
