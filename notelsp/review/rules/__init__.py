@@ -20,7 +20,7 @@ from typing import TYPE_CHECKING, TypeVar, cast
 from ...notation.model import Annotation, Claim, Span
 from ..findings import Finding, Fix, Severity
 
-if TYPE_CHECKING:  # types only: the compute package is the edge's (numpy, ASE), and these import nothing heavy
+if TYPE_CHECKING:  # types only: the rules never load the compute package (the edge's), nor add to start-up
     from ...chem.analysis import SpeciesAnalysis
     from ...chem.exceptions import KnownException
     from ...compute.result import ComputedSpecies
