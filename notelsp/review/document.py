@@ -351,7 +351,8 @@ def _review_relative(annotation: Annotation, settings: Settings,
             if not settings.enabled(rule.code):
                 continue
             if rule.code in TARGET_RULES:
-                found.extend(rule.run(rules.context(rule, annotation, claim, analyses, settings, computed)))
+                if target.problem is not None:  # they report only a claim that cannot be placed
+                    found.extend(rule.run(rules.context(rule, annotation, claim, analyses, settings, computed)))
             elif target.problem is None:
                 judged = rule.run(rules.context(rule, annotation, target.claim, target.analyses, settings,
                                                 computed, target.centre))

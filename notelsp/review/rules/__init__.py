@@ -12,6 +12,7 @@ happens once, in one place.
 
 from __future__ import annotations
 
+import functools
 import inspect
 from collections.abc import Callable, Iterable, Iterator
 from dataclasses import dataclass
@@ -215,14 +216,18 @@ def whole_note_findings(text: str, reviewed_chars: int, settings: Settings) -> l
     return found
 
 
-def rules_for(claim: Claim | None) -> Iterator[Rule]:
-    for candidate in RULES.values():
-        if candidate.whole_note or candidate.reported_outside:
-            continue
-        if claim is None and not candidate.claims:
-            yield candidate
-        elif claim is not None and isinstance(claim, candidate.claims):
-            yield candidate
+def rules_for(claim: Claim | None) -> tuple[Rule, ...]:
+    """The rules that judge ``claim`` (None: the annotation as a whole), in registration order."""
+    return _rules_for_kind(type(claim), len(RULES))
+
+
+@functools.lru_cache(maxsize=256)
+def _rules_for_kind(kind: type, registered: int) -> tuple[Rule, ...]:
+    # asked once per claim of every annotation: the answer depends only on the claim's class
+    # (and on the registry, which only grows, hence its size in the key)
+    return tuple(candidate for candidate in RULES.values()
+                 if not (candidate.whole_note or candidate.reported_outside)
+                 and (not candidate.claims if kind is type(None) else issubclass(kind, candidate.claims)))
 
 
 # Registering happens on import; every rule module is listed here.
