@@ -87,7 +87,7 @@ class _Chemistry(NamedTuple):
 
     analyse: Callable[[Formula], SpeciesAnalysis]
     reviewed_length: Callable[[str], int]  # how much of a note is reviewed (the rest: note-too-large)
-    rules_for: Callable[[Claim | None], Iterator[Rule]]
+    rules_for: Callable[[Claim | None], tuple[Rule, ...]]
     whole_note_findings: Callable[[str, int, Settings], list[Finding]]
     context: type[RuleContext]
 

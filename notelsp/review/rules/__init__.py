@@ -218,16 +218,17 @@ def whole_note_findings(text: str, reviewed_chars: int, settings: Settings) -> l
 
 def rules_for(claim: Claim | None) -> tuple[Rule, ...]:
     """The rules that judge ``claim`` (None: the annotation as a whole), in registration order."""
-    return _rules_for_kind(type(claim), len(RULES))
+    # mypy does not see a class as Hashable (it reads the instances' __hash__); it is
+    return _rules_for_kind(None if claim is None else type(claim), len(RULES))  # type: ignore[arg-type]
 
 
 @functools.lru_cache(maxsize=256)
-def _rules_for_kind(kind: type, registered: int) -> tuple[Rule, ...]:
+def _rules_for_kind(kind: type[Claim] | None, registered: int) -> tuple[Rule, ...]:
     # asked once per claim of every annotation: the answer depends only on the claim's class
     # (and on the registry, which only grows, hence its size in the key)
     return tuple(candidate for candidate in RULES.values()
                  if not (candidate.whole_note or candidate.reported_outside)
-                 and (not candidate.claims if kind is type(None) else issubclass(kind, candidate.claims)))
+                 and (not candidate.claims if kind is None else issubclass(kind, candidate.claims)))
 
 
 # Registering happens on import; every rule module is listed here.
