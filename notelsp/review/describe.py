@@ -7,7 +7,7 @@ decided here.
 from __future__ import annotations
 
 from functools import lru_cache
-from typing import Any
+from typing import TYPE_CHECKING
 
 from ..notation.model import Annotation
 from .document import DocumentReview
@@ -15,39 +15,36 @@ from .predictions import written_shape
 from .rules import RULES
 from .target import centre_label
 
+if TYPE_CHECKING:  # read only; importing chem here would load it for every hover of a server just started
+    from ..chem.analysis import CentreAnalysis, SpeciesAnalysis
+    from ..chem.molecule_analysis import MoleculeAnalysis
+
 # Where each rule is explained to people: the README's rule list (written by rules_markdown below).
 # One base for every consumer (LSP codeDescription, SARIF helpUri), one anchor per rule.
 PROJECT_URL = "https://github.com/notelsp/notelsp"
 RULES_DOC_URL = f"{PROJECT_URL}/blob/main/README.md"
 
-def _angles(values: Any) -> str:
-    if not values:
-        return "—"
-    if isinstance(values, dict):
-        return ", ".join(f"{name} {value:g}°" for name, value in values.items())
-    return ", ".join(f"{value:g}°" for value in values)
+def _angles(values: tuple[float, ...]) -> str:
+    return ", ".join(f"{value:g}°" for value in values) if values else "—"
 
 
-def centre_markdown(centre: Any, name: str | None = None) -> str:
+def centre_markdown(centre: CentreAnalysis, name: str | None = None) -> str:
     """A compact description of one centre (``name``: how the heading names it, e.g. "C2, bonded to C1, O1")."""
     lines = [
         f"**Centre {name or centre.central}** — {centre.valence_electrons} valence electrons, "
         f"steric number {centre.steric_number} ({centre.bonded_atoms} bonded, "
         f"{centre.lone_pairs} lone pair{'s' if centre.lone_pairs != 1 else ''}"
-        + (f", {centre.odd_electrons} odd electron" if getattr(centre, "odd_electrons", 0) else "")
+        + (f", {centre.odd_electrons} odd electron" if centre.odd_electrons else "")
         + ")",
         f"- electron geometry: {written_shape(centre.electron_geometry)}",
         f"- shape: {written_shape(centre.shape)}",
         f"- hybridization: {centre.hybridization}" + _coulson_suffix(centre),
-        f"- ideal angles: {_angles(getattr(centre, 'ideal_angles', None))}",
+        f"- ideal angles: {_angles(centre.ideal_angles)}",
     ]
-    drago = getattr(centre, "drago", None)
-    if drago is not None:
-        lines.append(f"- Drago's rule: {_summary(drago)}")
-    bent = getattr(centre, "bent", None)
-    if bent is not None and _summary(bent):
-        lines.append(f"- Bent's rule: {_summary(bent)}")
-    isomers = getattr(centre, "isomers", ())
+    lines.append(f"- Drago's rule: {centre.drago.summary()}")
+    if centre.bent.summary():
+        lines.append(f"- Bent's rule: {centre.bent.summary()}")
+    isomers = centre.isomers
     if len(isomers) > 1:
         lines.append(f"- isomers ({len(isomers)}), expected first:")
         for isomer in isomers:
@@ -57,33 +54,23 @@ def centre_markdown(centre: Any, name: str | None = None) -> str:
     elif isomers:
         isomer = isomers[0]
         lines.append(f"- point group {isomer.point_group}, {'polar' if isomer.polar else 'nonpolar'}")
-    for note in getattr(centre, "notes", ()):
+    for note in centre.notes:
         lines.append(f"- {note}")
     return "\n".join(lines)
 
 
-def _coulson_suffix(centre: Any) -> str:
-    coulson = getattr(centre, "coulson", None)
-    text = _summary(coulson) if coulson is not None else ""
+def _coulson_suffix(centre: CentreAnalysis) -> str:
+    coulson = centre.coulson
+    text = coulson.summary() if coulson is not None else ""
     return f" ({text})" if text else ""
 
 
-def _summary(value: Any) -> str:
-    """Prefer an object's own one-line summary; fall back to its string form."""
-    summary = getattr(value, "summary", None)
-    if callable(summary):
-        return summary()
-    if isinstance(summary, str):
-        return summary
-    return str(value) if value else ""
-
-
-def species_markdown(analysis: Any, first: str | None = None) -> str:
+def species_markdown(analysis: SpeciesAnalysis, first: str | None = None) -> str:
     """Everything the analyser says about one species (``first``: the atom to describe first, by name)."""
     parts = [f"### {analysis.formula}" + (f" (charge {analysis.charge:+d})" if analysis.charge else "")]
     if analysis.outside_model:
         parts.append(f"Outside the model: {analysis.outside_model}")
-    whole = getattr(analysis, "molecule", None)
+    whole = analysis.molecule
     if whole is not None:
         parts.append(_molecule_line(whole))
         parts.extend(_molecule_centres(whole, first))
@@ -103,7 +90,7 @@ def species_markdown(analysis: Any, first: str | None = None) -> str:
 _BOND_MARK = {1: "-", 2: "=", 3: "≡"}
 
 
-def _molecule_line(whole: Any) -> str:
+def _molecule_line(whole: MoleculeAnalysis) -> str:
     """The molecule's atoms by name and its bonds, as claims name them."""
     atoms = whole.molecule.atoms
     bonds = ", ".join(f"{atoms[b.first].label}{_BOND_MARK.get(b.order, '-')}{atoms[b.second].label}"
@@ -113,7 +100,7 @@ def _molecule_line(whole: Any) -> str:
     return f"Atoms: {names}" + (f"  \nBonds between heavy atoms: {bonds}" if bonds else "")
 
 
-def _molecule_centres(whole: Any, first: str | None) -> list[str]:
+def _molecule_centres(whole: MoleculeAnalysis, first: str | None) -> list[str]:
     """Each centre of a molecule, the named one first; alike centres (a ring's CH) described once."""
     centres = sorted(whole.centres, key=lambda c: c.label != first)
     blocks: dict[str, list[str]] = {}

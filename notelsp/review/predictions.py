@@ -7,21 +7,24 @@ of its own chemistry.
 
 from __future__ import annotations
 
-from typing import Any
+from typing import TYPE_CHECKING
 
 from ..notation.model import Annotation, Span
 from .findings import Fix
 
+if TYPE_CHECKING:
+    from ..chem.analysis import SpeciesAnalysis
 
-def predicted_shape(analysis: Any) -> str | None:
+
+def predicted_shape(analysis: SpeciesAnalysis | None) -> str | None:
     """The VSEPR shape name of the species' first centre, or None outside the model."""
-    if analysis is None or getattr(analysis, "outside_model", None):
+    if analysis is None or analysis.outside_model:
         return None
     centres = analysis.centres
     if not centres or centres[0].shape is None:
         return None
     shape = centres[0].shape
-    return str(getattr(shape, "value", shape))
+    return shape
 
 
 def written_shape(shape: str) -> str:
@@ -33,7 +36,7 @@ def written_shape(shape: str) -> str:
     return "T-shaped" if shape == "t-shaped" else shape.replace("-", " ")
 
 
-def predicted_description_fix(annotation: Annotation, analysis: Any) -> Fix | None:
+def predicted_description_fix(annotation: Annotation, analysis: SpeciesAnalysis | None) -> Fix | None:
     """For a bare ``{FORMULA}``: insert ``: <predicted shape>`` after the formula."""
     formula = annotation.formula
     if annotation.claims or annotation.errors or formula is None or annotation.is_comparison:
