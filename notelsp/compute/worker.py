@@ -31,9 +31,11 @@ def initialise(memory_bytes: int) -> None:
         pass
     signal.signal(signal.SIGALRM, _out_of_time)
     global _load_error
-    try:  # load the libraries now, so a job's wall-time bound is spent on the job
+    try:  # load the libraries (and the chemistry that builds structures) now: a job's wall time is the job's
         import ase.optimize  # noqa: F401
         import tblite.ase  # noqa: F401
+
+        from . import geometry  # noqa: F401
     except (ImportError, MemoryError, OSError) as error:  # each job then fails with the reason
         _load_error = (f"the worker could not load tblite and ASE within its memory bound "
                        f"({memory_bytes >> 20} MB of address space): {type(error).__name__}: {str(error)[:200]}")
@@ -47,16 +49,14 @@ def _out_of_time(signum: int, frame: Any) -> None:
 
 def run(job: dict[str, Any]) -> dict[str, Any]:
     """Optimise the structure ``job`` describes; answer its result as a dict (never raises for the chemistry)."""
+    if _load_error is not None:  # answered from the job alone: the chemistry may be what did not load
+        return _failure(job["structure"], _load_error)
     from .geometry import Structure, optimise
     from .method import Limits
     from .result import geometry_to_dict
 
     structure = Structure.from_dict(job["structure"])
     limits = Limits(**job["limits"])
-    if _load_error is not None:
-        from .geometry import failure
-
-        return geometry_to_dict(failure(structure, _load_error))
     _cap_cpu_time(limits.wall_time_s)
     # The optimiser checks the clock every step; the alarm (a little later) stops a single step that hangs.
     signal.setitimer(signal.ITIMER_REAL, limits.wall_time_s + 2.0)
@@ -64,6 +64,20 @@ def run(job: dict[str, Any]) -> dict[str, Any]:
         return geometry_to_dict(optimise(structure, limits))
     finally:
         signal.setitimer(signal.ITIMER_REAL, 0)
+
+
+def _failure(structure: dict[str, Any], reason: str) -> dict[str, Any]:
+    """The answer for a structure this worker cannot compute, as ``geometry.failure`` words it."""
+    from .method import METHOD, versions
+
+    positions = [list(p) for p in structure["positions"]]
+    return {"species": structure["species"], "charge": structure["charge"], "isomer": structure["isomer"],
+            "rank": structure["rank"], "method": METHOD, "versions": [list(v) for v in versions()],
+            "symbols": list(structure["symbols"]), "labels": list(structure["labels"]),
+            "sites": list(structure["sites"]), "unpaired": structure["unpaired"], "spin": structure["spin"],
+            "start": positions, "positions": positions, "energy_ev": None, "converged": False, "steps": 0,
+            "wall_time_s": 0.0, "failed": reason, "notes": [],
+            "connections": [list(c) for c in structure["connections"]]}
 
 
 def _cap_cpu_time(wall_time_s: float) -> None:

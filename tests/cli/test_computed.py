@@ -118,3 +118,19 @@ def test_a_settings_file_saying_compute_false_keeps_its_notes_rules_only(note, t
     assert done.returncode == 0, done.stderr
     assert "against-calculation" not in done.stdout and "no findings" in done.stdout
     assert not any((tmp_path / "cache").rglob("computed"))
+
+
+def test_a_smiles_species_is_computed_as_the_smiles_it_names(tmp_path):
+    # As a formula "CO" is carbon monoxide (two atoms, no angle to compute); as SMILES it is methanol,
+    # whose C-O-H angle is 108.5° in the gas phase (from memory).
+    import re
+
+    from notelsp.compute import ANGLE_UNCERTAINTY_DEG
+
+    path = tmp_path / "methanol.md"
+    path.write_text('Methanol {smiles "CO": C-O-H 125°}.\n', encoding="utf-8")
+    done = _run(str(path), cache=tmp_path / "cache")
+    (line,) = [line for line in done.stdout.splitlines() if "C-O-H 125°" in line and "implausible" in line]
+    computed = re.search(r"computed \(GFN2-xTB\) ([\d.]+)°", line)
+    assert computed is not None, line
+    assert abs(float(computed.group(1)) - 108.5) <= ANGLE_UNCERTAINTY_DEG
