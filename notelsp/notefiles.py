@@ -14,7 +14,6 @@ cap, so a FIFO, a device or an endless file never hangs or exhausts a run.
 from __future__ import annotations
 
 import codecs
-import json
 import os
 import re
 import stat
@@ -280,6 +279,8 @@ def bounded_json(data: bytes, max_nesting: int):
         raise ValueError("not UTF-8") from error
     if json_nesting_depth(text) > max_nesting:
         raise ValueError(f"nested deeper than {max_nesting}")
+    import json  # notebooks only: a check of notes never loads it
+
     try:
         return json.loads(text)
     except (ValueError, RecursionError) as error:

@@ -5,7 +5,6 @@ These are translators at the edge: they read findings and never decide any.
 
 from __future__ import annotations
 
-import json
 import re
 from bisect import bisect_right
 from dataclasses import dataclass, field
@@ -263,6 +262,8 @@ def json_text(value: object, indent: int | None = None) -> str:
     notebook may hold one as ``\\udcff``) is written back as a JSON escape, since it
     cannot be UTF-8. Compact unless ``indent`` is given.
     """
+    import json  # JSON and SARIF reports only: the text report never loads it
+
     separators = (",", ":") if indent is None else None
     text = json.dumps(value, ensure_ascii=False, indent=indent, separators=separators)
     if _SURROGATE.search(text):  # surrogates occur only inside strings, where the escape means the same

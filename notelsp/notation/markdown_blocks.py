@@ -49,7 +49,7 @@ from __future__ import annotations
 import re
 from bisect import bisect_left, bisect_right
 from dataclasses import dataclass
-from functools import cached_property, lru_cache
+from functools import cache, cached_property, lru_cache
 from itertools import accumulate
 from typing import NamedTuple
 
@@ -165,22 +165,30 @@ _TABLE_DELIMITER = re.compile(r"[|:\-][|:\- \t]*$")
 _TABLE_DELIMITER_CELL = re.compile(r":?-+:?$")
 _REFERENCE_DEFINITION = re.compile(r"\[((?:[^\[\]\\]|\\.){1,999})\]:")
 _MATH_LABEL_CLOSE = re.compile(r".*\$\$\s*\([^)$\r\n]+?\)\s*$")
-_HTML_OPENERS = (  # CommonMark 0.31, section 4.6: start condition -> end condition (None: a blank line)
-    (re.compile(r"<(?:script|pre|style|textarea)(?:[ \t>]|$)", re.I), re.compile(r"</(?:script|pre|style|textarea)>", re.I)),
-    (re.compile(r"<!--"), re.compile(r"-->")),
-    (re.compile(r"<\?"), re.compile(r"\?>")),
-    (re.compile(r"<![A-Za-z]"), re.compile(r">")),
-    (re.compile(r"<!\[CDATA\["), re.compile(r"\]\]>")),
-    (re.compile(
-        r"</?(?:address|article|aside|base|basefont|blockquote|body|caption|center|col|colgroup|dd|details|"
-        r"dialog|dir|div|dl|dt|fieldset|figcaption|figure|footer|form|frame|frameset|h[1-6]|head|header|hr|"
-        r"html|iframe|legend|li|link|main|menu|menuitem|nav|noframes|ol|optgroup|option|p|param|search|"
-        r"section|summary|table|tbody|td|tfoot|th|thead|title|tr|track|ul)(?:[ \t]|/?>|$)", re.I), None),
-)
 _ATTRIBUTE = r"""(?:[ \t]+[A-Za-z_:][A-Za-z0-9:._\-]*(?:[ \t]*=[ \t]*(?:[^"'=<>`\x00-\x20]+|'[^']*'|"[^"]*"))?)"""
-_HTML_TAG_ALONE = re.compile(  # start condition 7: one complete tag and nothing else on the line
-    r"(?:<[A-Za-z][A-Za-z0-9\-]*" + _ATTRIBUTE + r"*[ \t]*/?>|</[A-Za-z][A-Za-z0-9\-]*[ \t]*>)[ \t]*$"
-)
+
+
+@cache  # compiled when a line first starts with "<": a note without HTML never pays for them
+def _html_openers() -> tuple[tuple[re.Pattern[str], re.Pattern[str] | None], ...]:
+    """CommonMark 0.31, section 4.6: start condition -> end condition (None: a blank line)."""
+    return (
+        (re.compile(r"<(?:script|pre|style|textarea)(?:[ \t>]|$)", re.I), re.compile(r"</(?:script|pre|style|textarea)>", re.I)),
+        (re.compile(r"<!--"), re.compile(r"-->")),
+        (re.compile(r"<\?"), re.compile(r"\?>")),
+        (re.compile(r"<![A-Za-z]"), re.compile(r">")),
+        (re.compile(r"<!\[CDATA\["), re.compile(r"\]\]>")),
+        (re.compile(
+            r"</?(?:address|article|aside|base|basefont|blockquote|body|caption|center|col|colgroup|dd|details|"
+            r"dialog|dir|div|dl|dt|fieldset|figcaption|figure|footer|form|frame|frameset|h[1-6]|head|header|hr|"
+            r"html|iframe|legend|li|link|main|menu|menuitem|nav|noframes|ol|optgroup|option|p|param|search|"
+            r"section|summary|table|tbody|td|tfoot|th|thead|title|tr|track|ul)(?:[ \t]|/?>|$)", re.I), None),
+    )
+
+
+@cache
+def _html_tag_alone() -> re.Pattern[str]:
+    """Start condition 7: one complete tag and nothing else on the line."""
+    return re.compile(r"(?:<[A-Za-z][A-Za-z0-9\-]*" + _ATTRIBUTE + r"*[ \t]*/?>|</[A-Za-z][A-Za-z0-9\-]*[ \t]*>)[ \t]*$")
 
 
 @lru_cache(maxsize=64)
@@ -1005,11 +1013,11 @@ class _Parser:
         return None
 
     def _html_block(self, index: int, line: str, at: int) -> bool:
-        for opener, end in _HTML_OPENERS:
+        for opener, end in _html_openers():
             if opener.match(line, at):
                 break
         else:
-            if type(self.leaf) is _Paragraph or not _HTML_TAG_ALONE.match(line, at):
+            if type(self.leaf) is _Paragraph or not _html_tag_alone().match(line, at):
                 return False
             end = None
         self._close_leaf()
@@ -1079,7 +1087,7 @@ class _Parser:
             return True
         if character in "*-_" and _THEMATIC_BREAK.match(line, at):
             return True
-        if character == "<" and any(opener.match(line, at) for opener, _ in _HTML_OPENERS):
+        if character == "<" and any(opener.match(line, at) for opener, _ in _html_openers()):
             return True
         if character in "-+*0123456789":
             marker = _LIST_MARKER.match(line, at)

@@ -23,6 +23,7 @@ from __future__ import annotations
 
 import re
 import unicodedata
+from functools import cache
 
 Skip = tuple[int, int]  # half-open range of the inline text
 
@@ -34,12 +35,17 @@ _WIKI_LINK = re.compile(r"\[\[([^\[\]|\r\n]+)(?:\|([^\[\]\r\n]*))?\]\]")
 _ASCII_PUNCTUATION = frozenset("!\"#$%&'()*+,-./:;<=>?@[\\]^_`{|}~")
 _BACKTICK_RUN = re.compile(r"`+")
 
-# CommonMark 0.31, section 6.5 (autolinks) and 6.6 (raw HTML).
-_AUTOLINK = re.compile(r"<(?:[A-Za-z][A-Za-z0-9.+\-]{1,31}:[^<>\x00-\x20]*"
-                       r"|[A-Za-z0-9.!#$%&'*+/=?^_`{|}~\-]+@[A-Za-z0-9](?:[A-Za-z0-9\-]{0,61}[A-Za-z0-9])?"
-                       r"(?:\.[A-Za-z0-9](?:[A-Za-z0-9\-]{0,61}[A-Za-z0-9])?)*)>")
 _ATTRIBUTE = r"""(?:\s+[A-Za-z_:][A-Za-z0-9:._\-]*(?:\s*=\s*(?:[^"'=<>`\x00-\x20]+|'[^']*'|"[^"]*"))?)"""
-_HTML_TAG = re.compile(r"<[A-Za-z][A-Za-z0-9\-]*" + _ATTRIBUTE + r"*\s*/?>|</[A-Za-z][A-Za-z0-9\-]*\s*>")
+
+
+@cache  # compiled when a paragraph first holds "<": a note without it never pays for them
+def _autolink_and_html_tag() -> tuple[re.Pattern[str], re.Pattern[str]]:
+    """CommonMark 0.31, section 6.5 (autolinks) and 6.6 (raw HTML)."""
+    autolink = re.compile(r"<(?:[A-Za-z][A-Za-z0-9.+\-]{1,31}:[^<>\x00-\x20]*"
+                          r"|[A-Za-z0-9.!#$%&'*+/=?^_`{|}~\-]+@[A-Za-z0-9](?:[A-Za-z0-9\-]{0,61}[A-Za-z0-9])?"
+                          r"(?:\.[A-Za-z0-9](?:[A-Za-z0-9\-]{0,61}[A-Za-z0-9])?)*)>")
+    html_tag = re.compile(r"<[A-Za-z][A-Za-z0-9\-]*" + _ATTRIBUTE + r"*\s*/?>|</[A-Za-z][A-Za-z0-9\-]*\s*>")
+    return autolink, html_tag
 # Raw HTML that runs to a fixed closer (CommonMark 0.31, 6.6), longest opener first.
 _HTML_CLOSERS = (("<![CDATA[", "]]>"), ("<!--", "-->"), ("<?", "?>"), ("<!", ">"))
 _ANGLE_DESTINATION = re.compile(r"(?:\\.|[^>\r\n<\\])*")  # up to the first unescaped ">", "<" or line break
@@ -267,7 +273,8 @@ def _html_end(text: str, position: int, end: int, dead_ends: DeadEnds) -> int | 
                     return None
                 return closing + len(closer)
         return None
-    match = _AUTOLINK.match(text, position, end) or _HTML_TAG.match(text, position, end)
+    autolink, html_tag = _autolink_and_html_tag()
+    match = autolink.match(text, position, end) or html_tag.match(text, position, end)
     return match.end() if match else None
 
 

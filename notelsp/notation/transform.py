@@ -9,7 +9,6 @@ re-parses only the annotations whose text changed.
 from __future__ import annotations
 
 import dataclasses
-import difflib
 import re
 from functools import lru_cache
 
@@ -443,6 +442,8 @@ class _ClaimBuilder:
             return HybridizationClaim(self.text, self.span, None, float(written[2:]))
         if written in HYBRID_LABELS:
             return HybridizationClaim(self.text, self.span, written)
+        import difflib  # suggestions are made for mistakes only
+
         suggestion = difflib.get_close_matches(written, sorted(HYBRID_LABELS), n=1)
         self.error(UNKNOWN_CLAIM, f"unknown hybridization '{token}'" + (f"; did you mean '{suggestion[0]}'?" if suggestion else ""),
                    self.at(token), suggestion[0] if suggestion else None)
@@ -723,6 +724,8 @@ def _unknown_element(word: str) -> tuple[str, str | None]:
     """Message and suggestion for a word that should name an element."""
     if elements.is_symbol(word.capitalize()):
         return f"unknown element '{word}'; did you mean '{word.capitalize()}'?", word.capitalize()
+    import difflib  # suggestions are made for mistakes only
+
     names = [element.name.lower() for element in elements.table().values()]
     close = difflib.get_close_matches(word.lower(), names, n=1, cutoff=0.8)
     if close:
@@ -732,6 +735,8 @@ def _unknown_element(word: str) -> tuple[str, str | None]:
 
 def _unreadable_claim(text: str, offset: int) -> NotationError:
     """unknown-claim for a word the notation lacks, malformed-claim for known words in a wrong form."""
+    import difflib  # suggestions are made for mistakes only
+
     span = Span(offset, offset + len(text))
     for match in re.finditer(r"[^\W\d_]+", text):
         word = match.group()

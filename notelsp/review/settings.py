@@ -9,7 +9,6 @@ server shows it).  A settings file's problems carry the line they are on.
 
 from __future__ import annotations
 
-import json
 import re
 import reprlib
 from dataclasses import dataclass, replace
@@ -159,6 +158,8 @@ def _shown(value: Any) -> str:
     if value is None:
         return "null"
     if isinstance(value, str):
+        import json  # only to show a bad value: a valid settings file never needs it
+
         shown = json.dumps(value if len(value) <= 40 else value[:37] + "...", ensure_ascii=False)
         return shown
     return _SHORT.repr(value)
