@@ -12,7 +12,10 @@ each wrapped around pygls's own (``super()``).  The one private name left
   null), and nothing is shown in the editor for a fault of the wire.
 - The fast start-up (``quickstart``) answers ``initialize`` before the server
   exists; the server's own reply to it is checked against that one and not
-  written (the writer pygls is given lets every other frame through).
+  written (the writer pygls is given lets every other frame through).  It
+  brings only ``initialize``'s reply forward: in headless Neovim 0.7 the
+  first diagnostics of a note came ~2.6 s after start with it and without it
+  (medians of 8 runs each, on a loaded 2-core machine).
 - Open documents take incremental changes by offset (``documents.DocumentSync``),
   not by pygls's rebuilding of the text line by line.
 - ``$/cancelRequest`` also cancels the command an ``executeCommand`` is running

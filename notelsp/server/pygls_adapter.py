@@ -27,7 +27,6 @@ anything else runs into it.
 
 from __future__ import annotations
 
-from concurrent.futures import Future
 from typing import Any
 
 PYGLS_VERSION = "2.1.1"
@@ -43,7 +42,7 @@ class _FuturesDroppedWhenDone(dict):
 
     def __setitem__(self, msg_id: Any, future: Any) -> None:
         super().__setitem__(msg_id, future)
-        if isinstance(future, Future) or hasattr(future, "add_done_callback"):
+        if hasattr(future, "add_done_callback"):  # concurrent and asyncio futures alike
             future.add_done_callback(lambda done: self._drop(msg_id, done))
 
     def _drop(self, msg_id: Any, future: Any) -> None:
