@@ -19,11 +19,11 @@ from .hazards import cautions as hazard_cautions
 from .model import Ligand
 from .on_demand import CoulsonRequest, IsomerRequest, OnDemand
 from .condensed import is_condensed, read_condensed
-from .molecule import Molecule
 from .species import CentreModel, build_species
 from .vsepr import SiteAngle, vsepr
 
 if TYPE_CHECKING:
+    from .molecule import Molecule  # a condensed formula's or a SMILES's graph: loaded only for those
     from .molecule_analysis import MoleculeAnalysis
 
 

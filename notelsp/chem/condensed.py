@@ -63,12 +63,14 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from functools import lru_cache
-from typing import Iterator
+from typing import TYPE_CHECKING, Iterator
 
 from .. import elements
 from ..notation.model import Atom, BondMark, Formula, Group, Span
-from .molecule import Molecule, MoleculeAtom, MoleculeBond, label_atoms
 from .species import build_species
+
+if TYPE_CHECKING:
+    from .molecule import Molecule
 
 SUBSTITUENTS = frozenset({"H", "F", "Cl", "Br", "I", "At"})  # written after an atom, they sit on it
 HALOGENS = frozenset({"F", "Cl", "Br", "I", "At"})
@@ -648,6 +650,8 @@ def _pick_states(by_valence: list[dict], sums: list[int], charge: int, electrone
 
 
 def _molecule(build: _Build, solved: _Solved, source: str) -> Molecule:
+    from .molecule import Molecule, MoleculeAtom, MoleculeBond, label_atoms  # only a formula read as condensed
+
     labels = label_atoms(build.symbols)
     atoms = tuple(MoleculeAtom(symbol, label, state.charge, state.unpaired)
                   for symbol, label, state in zip(build.symbols, labels, solved.states))
