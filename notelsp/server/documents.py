@@ -135,23 +135,26 @@ class DocumentSync:
                 yield handler, (params,), None  # the user's handler still hears of it, as from pygls
             return None
         cells = params.change.cells
-        text_content = None
-        if cells is not None and cells.text_content:
-            opening = {unquote(item.uri) for item in (cells.structure.did_open or ())} if cells.structure else set()
-            text_content = [content for content in cells.text_content
-                            if unquote(content.document.uri) in workspace.text_documents
-                            or unquote(content.document.uri) in opening]
-            cells.text_content = None  # applied below, once the cells just opened splice
+        text_content = cells.text_content if cells is not None else None
+        if text_content:
+            cells.text_content = None  # held back until the cells this change opens splice, see below
 
         def adopt_then_edit() -> None:
             if cells is None:
                 return
             for opened in (cells.structure.did_open or ()) if cells.structure else ():
                 adopt(workspace, opened.uri)
-            for content in text_content or ():
+            if not text_content:
+                return
+            applied = []
+            for content in text_content:
+                if unquote(content.document.uri) not in workspace.text_documents:  # not open (or just closed)
+                    log.warning("change to a notebook cell that is not open: %s", content.document.uri)
+                    continue
                 for change in content.changes:
                     workspace.update_text_document(content.document, change)
-            cells.text_content = text_content  # the user's handler sees the change as sent (less what was dropped)
+                applied.append(content)
+            cells.text_content = applied  # the user's handler sees the change as sent, less what was dropped
 
         steps = super().lsp_notebook_document__did_change(params)  # type: ignore[misc]
         return (yield from _then(steps, adopt_then_edit))

@@ -122,3 +122,28 @@ def test_documents_and_cells_the_server_opens_splice_their_changes():
     for uri, text in (("cell:1", "x"), ("cell:2", "p\u2028q\nR")):
         document = server.workspace.get_text_document(uri)
         assert isinstance(document, SplicedDocument) and document.source == text
+
+
+def test_a_notebook_change_touching_cells_not_open_keeps_the_rest():
+    server = build_server()
+    server.protocol.set_writer(_Discarded())
+    _handle(server, "initialize", {"capabilities": {}}, 1)
+    cells = [{"uri": f"cell:{n}", "languageId": "markdown", "version": 1, "text": "ab"} for n in (1, 2)]
+    _handle(server, "notebookDocument/didOpen", {
+        "notebookDocument": {"uri": "file:///b.ipynb", "notebookType": "jupyter-notebook", "version": 1,
+                             "cells": [{"kind": 1, "document": cell["uri"]} for cell in cells]},
+        "cellTextDocuments": cells})
+
+    def edit(uri: str) -> dict:
+        return {"document": {"uri": uri, "version": 2}, "changes": [
+            {"range": {"start": {"line": 0, "character": 0}, "end": {"line": 0, "character": 1}}, "text": "X"}]}
+
+    # cell:1 closed and edited in the same change, cell:9 never opened: only cell:2's edit applies
+    _handle(server, "notebookDocument/didChange", {
+        "notebookDocument": {"uri": "file:///b.ipynb", "version": 2},
+        "change": {"cells": {
+            "structure": {"array": {"start": 0, "deleteCount": 1}, "didClose": [{"uri": "cell:1"}]},
+            "textContent": [edit("cell:1"), edit("cell:9"), edit("cell:2")],
+        }}})
+    assert "cell:1" not in server.workspace.text_documents
+    assert server.workspace.get_text_document("cell:2").source == "Xb"
