@@ -6,17 +6,26 @@ the mendeleev package; mendeleev stays a dependency because it ships the data
 (``tests/test_elements.py`` checks every value against mendeleev's own API).
 The table is read lazily, under a lock, the first time anything asks; the
 server may call :func:`preload` in a background thread right after it answers
-``initialize``. Everything in notelsp (the notation needs the symbols, the
+``initialize``. The rows read are kept in the user's cache folder (``user_cache.py``)
+as ``marshal`` data, headed by what they were read from (the database's path, size
+and modification time, the columns); a later process whose database is the same
+reads them back in well under a millisecond, without loading ``sqlite3`` (which,
+with the ``datetime`` it imports, is a few percent of a one-note check). Everything in notelsp (the notation needs the symbols, the
 chemistry the properties) asks this module, never mendeleev directly.
 """
 
 from __future__ import annotations
 
+import marshal
 import math
+import os
+import sys
 import threading
 from dataclasses import dataclass
 from functools import cache
 from pathlib import Path
+
+from .user_cache import cache_folder, trusted, write_whole
 
 DATA_PACKAGE = "mendeleev"
 DATABASE_NAME = "elements.db"
@@ -93,12 +102,63 @@ def database_path() -> Path:
     )
 
 
+CACHE_FILE = f"elements-py{sys.version_info[0]}{sys.version_info[1]}.cache"  # marshal's format is the interpreter's
+CACHE_MAGIC = b"notelsp-elements-cache-1\0"
+
+
 def _load() -> dict[str, Element]:
-    return read_database(database_path())
+    path = database_path()
+    folder, key = cache_folder(), _source_key(path)
+    cached = folder / CACHE_FILE if folder is not None and key is not None else None
+    if cached is not None and key is not None:
+        rows = _cached_rows(cached, key)
+        if rows is not None:
+            try:
+                return _table_from_rows(rows)
+            except (TypeError, ValueError):  # well-formed but not rows of ours: read the database instead
+                pass
+    rows = _database_rows(path)
+    if cached is not None and key is not None:
+        write_whole(cached, len(key).to_bytes(4, "little") + key + marshal.dumps(tuple(map(tuple, rows))))
+    return _table_from_rows(rows)
+
+
+def _source_key(path: Path) -> bytes | None:
+    """What rows read from ``path`` were read from: its resolved path, size and modification time, the columns."""
+    try:
+        source = os.stat(path)
+    except OSError:
+        return None
+    identity = "\0".join((str(path.resolve()), str(source.st_size), str(source.st_mtime_ns), *COLUMNS))
+    return CACHE_MAGIC + identity.encode("utf-8", "surrogateescape")
+
+
+def _cached_rows(path: Path, key: bytes) -> list[tuple] | None:
+    """The rows kept at ``path`` if they were read from the database ``key`` names and the file is the user's own."""
+    try:
+        with open(path, "rb") as handle:
+            if not trusted(os.fstat(handle.fileno())):
+                return None
+            data = handle.read()
+        length = int.from_bytes(data[:4], "little")
+        if data[4:4 + length] != key:
+            return None
+        rows = marshal.loads(data[4 + length:])
+    except Exception:  # absent, unreadable, truncated or damaged: read the database instead
+        return None
+    if not (isinstance(rows, tuple) and rows and all(isinstance(row, tuple) and len(row) == len(COLUMNS)
+                                                     for row in rows)):
+        return None
+    return list(rows)
 
 
 def read_database(path: Path) -> dict[str, Element]:
     """Every element in a mendeleev-layout SQLite file, by symbol."""
+    return _table_from_rows(_database_rows(path))
+
+
+def _database_rows(path: Path) -> list[tuple]:
+    """The ``COLUMNS`` of every row of a mendeleev-layout SQLite file, by atomic number."""
     import sqlite3
 
     # Read-only, through a URI so the path is taken literally; immutable: no locking, no journal.
@@ -120,6 +180,10 @@ def read_database(path: Path) -> dict[str, Element]:
             connection.close()
     except sqlite3.Error as error:
         raise ElementDataError(f"cannot read the element data in {path}: {error}") from None
+    return rows
+
+
+def _table_from_rows(rows: list[tuple]) -> dict[str, Element]:
     table: dict[str, Element] = {}
     for symbol, name, number, group, period, block, pauling, single, double, triple in rows:
         table[symbol] = Element(

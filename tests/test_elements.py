@@ -3,7 +3,10 @@
 from __future__ import annotations
 
 import math
+import os
 import sqlite3
+import subprocess
+import sys
 
 import pytest
 
@@ -84,3 +87,65 @@ def test_a_database_without_a_needed_column_is_a_clear_error(tmp_path):
 def test_a_missing_database_is_a_clear_error(tmp_path):
     with pytest.raises(elements.ElementDataError, match="cannot read"):
         elements.read_database(tmp_path / "absent.db")
+
+
+# --- the rows kept in the user's cache folder ---------------------------------------------------
+
+
+@pytest.fixture
+def cache_home(tmp_path, monkeypatch):
+    monkeypatch.setenv("XDG_CACHE_HOME", str(tmp_path / "cache"))
+    return tmp_path / "cache" / "notelsp" / elements.CACHE_FILE
+
+
+def _database_reads(monkeypatch) -> list:
+    """The paths the database is read from from now on."""
+    read: list = []
+    original = elements._database_rows
+    monkeypatch.setattr(elements, "_database_rows", lambda path: read.append(path) or original(path))
+    return read
+
+
+def test_the_rows_read_are_kept_and_read_back_as_the_database_gives_them(cache_home, monkeypatch):
+    from_database = elements.read_database(elements.database_path())
+    assert elements._load() == from_database and cache_home.is_file()
+    read = _database_reads(monkeypatch)
+    assert elements._load() == from_database and read == []
+
+
+def test_a_later_process_reads_the_cache_without_sqlite3(cache_home, tmp_path):
+    elements._load()
+    script = ("import sys; from notelsp import elements; table = elements.table(); "
+              "print(len(table), table['Cl'].electronegativity, 'sqlite3' in sys.modules)")
+    done = subprocess.run([sys.executable, "-c", script], env={**os.environ, "XDG_CACHE_HOME": str(tmp_path / "cache")},
+                          capture_output=True, text=True, check=True)
+    assert done.stdout.split() == ["118", "3.16", "False"]  # chlorine's Pauling electronegativity (common practice, no source)
+
+
+def test_rows_kept_from_another_database_are_not_used(cache_home, monkeypatch, tmp_path):
+    elements._load()
+    copy = tmp_path / "elements.db"
+    copy.write_bytes(elements.database_path().read_bytes())  # the same rows, but another file: read it
+    expected = elements.read_database(copy)
+    monkeypatch.setattr(elements, "database_path", lambda: copy)
+    read = _database_reads(monkeypatch)
+    assert elements._load() == expected and read == [copy]
+
+
+@pytest.mark.parametrize("damage", ["garbage", "truncated", "rows of another shape", "writable by others"])
+def test_a_damaged_or_foreign_cache_file_means_reading_the_database(cache_home, monkeypatch, damage):
+    import marshal
+
+    from_database = elements._load()
+    data = cache_home.read_bytes()
+    if damage == "garbage":
+        cache_home.write_bytes(b"\x00\xff" * 40)
+    elif damage == "truncated":
+        cache_home.write_bytes(data[: len(data) // 2])
+    elif damage == "rows of another shape":
+        length = int.from_bytes(data[:4], "little")
+        cache_home.write_bytes(data[: 4 + length] + marshal.dumps((("H", None, None),)))
+    else:
+        os.chmod(cache_home, 0o666)
+    read = _database_reads(monkeypatch)
+    assert elements._load() == from_database and read == [elements.database_path()]

@@ -20,18 +20,18 @@ from __future__ import annotations
 
 import hashlib
 import os
-import stat
 import sys
 from functools import cache
 from pathlib import Path
 
 from lark import Lark, __version__ as LARK_VERSION
 
+from ..user_cache import CACHE_FOLDER_NAME, cache_folder, trusted as _trusted  # noqa: F401 (name kept here)
+
 GRAMMAR_FILE = "notation.lark"
 START_SYMBOLS = ("formula_spec", "claim")
 PARSER_OPTIONS = {"parser": "lalr", "lexer": "contextual", "start": list(START_SYMBOLS)}
 
-CACHE_FOLDER_NAME = "notelsp"
 CACHE_MAGIC = b"notelsp-grammar-cache-1 "
 # One cache file per interpreter and lark version; a new grammar replaces the file of the same prefix.
 CACHE_PREFIX = f"grammar-py{sys.version_info[0]}{sys.version_info[1]}-lark{LARK_VERSION}-"
@@ -81,17 +81,6 @@ def grammar_fingerprint(text: str) -> str:
     return hashlib.sha256(identity.encode("utf-8")).hexdigest()
 
 
-def cache_folder() -> Path | None:
-    """$XDG_CACHE_HOME/notelsp (an absolute XDG_CACHE_HOME only), else ~/.cache/notelsp; None without a home."""
-    base = os.environ.get("XDG_CACHE_HOME", "")
-    if not os.path.isabs(base):
-        try:
-            base = str(Path.home() / ".cache")
-        except (RuntimeError, KeyError, OSError):
-            return None
-    return Path(base) / CACHE_FOLDER_NAME
-
-
 def load_cached_parser(path: Path, fingerprint: str) -> Lark | None:
     """The parser saved at ``path`` if the file is verifiably this grammar's and the user's own; else None."""
     try:
@@ -104,15 +93,6 @@ def load_cached_parser(path: Path, fingerprint: str) -> Lark | None:
     except Exception:  # absent, unreadable, truncated or corrupted: build instead
         return None
     return loaded if isinstance(loaded, Lark) else None
-
-
-def _trusted(status: os.stat_result) -> bool:
-    """A regular file owned by this user that no one else may write (where the system has owners and modes)."""
-    if not stat.S_ISREG(status.st_mode):
-        return False
-    if not hasattr(os, "getuid"):  # Windows: no POSIX owner or group bits; the user's profile folder guards it
-        return True
-    return status.st_uid == os.getuid() and not status.st_mode & (stat.S_IWGRP | stat.S_IWOTH)
 
 
 def save_cached_parser(built: Lark, path: Path, fingerprint: str) -> None:

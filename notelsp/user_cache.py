@@ -1,0 +1,59 @@
+"""The user's cache folder, where notelsp keeps what it builds once and later processes read back.
+
+``$XDG_CACHE_HOME/notelsp`` (an absolute ``XDG_CACHE_HOME`` only), else ``~/.cache/notelsp``.
+The grammar's built parser (``notation/grammar.py``) and the element table (``elements.py``)
+live there. What is read back is read only from a file that is the user's own and that no
+one else may write (``trusted``); a file that is missing, foreign or damaged means building
+the thing again, silently.
+"""
+
+from __future__ import annotations
+
+import os
+import stat
+from pathlib import Path
+
+CACHE_FOLDER_NAME = "notelsp"
+
+
+def cache_folder() -> Path | None:
+    """$XDG_CACHE_HOME/notelsp (an absolute XDG_CACHE_HOME only), else ~/.cache/notelsp; None without a home."""
+    base = os.environ.get("XDG_CACHE_HOME", "")
+    if not os.path.isabs(base):
+        try:
+            base = str(Path.home() / ".cache")
+        except (RuntimeError, KeyError, OSError):
+            return None
+    return Path(base) / CACHE_FOLDER_NAME
+
+
+def trusted(status: os.stat_result) -> bool:
+    """A regular file owned by this user that no one else may write (where the system has owners and modes)."""
+    if not stat.S_ISREG(status.st_mode):
+        return False
+    if not hasattr(os, "getuid"):  # Windows: no POSIX owner or group bits; the user's profile folder guards it
+        return True
+    return status.st_uid == os.getuid() and not status.st_mode & (stat.S_IWGRP | stat.S_IWOTH)
+
+
+def write_whole(path: Path, data: bytes) -> bool:
+    """Write the file whole or not at all (a temporary file renamed into place); never raises."""
+    import tempfile  # only needed when writing
+
+    temporary = None
+    try:
+        path.parent.mkdir(mode=0o700, parents=True, exist_ok=True)
+        descriptor, temporary = tempfile.mkstemp(dir=path.parent, prefix=f".{path.stem}-", suffix=".tmp")
+        with os.fdopen(descriptor, "wb") as handle:
+            handle.write(data)
+        os.replace(temporary, path)
+        temporary = None
+        return True
+    except Exception:  # a read-only or full disk: what was built in memory is enough
+        return False
+    finally:
+        if temporary is not None:
+            try:
+                os.unlink(temporary)
+            except OSError:
+                pass
