@@ -21,6 +21,7 @@ import math
 import os
 import sys
 import threading
+import zlib
 from dataclasses import dataclass
 from functools import cache
 from pathlib import Path
@@ -102,14 +103,14 @@ def database_path() -> Path:
     )
 
 
-CACHE_FILE = f"elements-py{sys.version_info[0]}{sys.version_info[1]}.cache"  # marshal's format is the interpreter's
+CACHE_PREFIX = f"elements-py{sys.version_info[0]}{sys.version_info[1]}-"  # marshal's format is the interpreter's
 CACHE_MAGIC = b"notelsp-elements-cache-1\0"
 
 
 def _load() -> dict[str, Element]:
     path = database_path()
     folder, key = cache_folder(), _source_key(path)
-    cached = folder / CACHE_FILE if folder is not None and key is not None else None
+    cached = folder / cache_file_name(path) if folder is not None and key is not None else None
     if cached is not None and key is not None:
         rows = _cached_rows(cached, key)
         if rows is not None:
@@ -121,6 +122,11 @@ def _load() -> dict[str, Element]:
     if cached is not None and key is not None:
         write_whole(cached, len(key).to_bytes(4, "little") + key + marshal.dumps(tuple(map(tuple, rows))))
     return _table_from_rows(rows)
+
+
+def cache_file_name(path: Path) -> str:
+    """One file per database: environments with a mendeleev each (two virtual environments) keep one each."""
+    return f"{CACHE_PREFIX}{zlib.crc32(str(path).encode('utf-8', 'surrogateescape')):08x}.cache"
 
 
 def _source_key(path: Path) -> bytes | None:

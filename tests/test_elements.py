@@ -95,7 +95,7 @@ def test_a_missing_database_is_a_clear_error(tmp_path):
 @pytest.fixture
 def cache_home(tmp_path, monkeypatch):
     monkeypatch.setenv("XDG_CACHE_HOME", str(tmp_path / "cache"))
-    return tmp_path / "cache" / "notelsp" / elements.CACHE_FILE
+    return tmp_path / "cache" / "notelsp" / elements.cache_file_name(elements.database_path())
 
 
 def _database_reads(monkeypatch) -> list:
@@ -122,13 +122,17 @@ def test_a_later_process_reads_the_cache_without_sqlite3(cache_home, tmp_path):
     assert done.stdout.split() == ["118", "3.16", "False"]  # chlorine's Pauling electronegativity (common practice, no source)
 
 
-def test_rows_kept_from_another_database_are_not_used(cache_home, monkeypatch, tmp_path):
+def test_rows_kept_from_another_database_are_not_used_and_both_are_kept(cache_home, monkeypatch, tmp_path):
     elements._load()
     copy = tmp_path / "elements.db"
     copy.write_bytes(elements.database_path().read_bytes())  # the same rows, but another file: read it
     expected = elements.read_database(copy)
+    original = elements.database_path()
     monkeypatch.setattr(elements, "database_path", lambda: copy)
     read = _database_reads(monkeypatch)
+    assert elements._load() == expected and read == [copy]
+    # each database keeps its own file: going back to the first (another environment) reads no database
+    monkeypatch.setattr(elements, "database_path", lambda: original)
     assert elements._load() == expected and read == [copy]
 
 
