@@ -50,8 +50,7 @@ def serve(frames: list[bytes]) -> tuple[NoteServer, list[dict[str, Any]]]:
     """Run a fresh server over ``frames`` until the input ends; the server and every message it sent."""
     server = build_server()
     written = _Collected()
-    server.protocol.set_writer(written)
-    server.protocol._include_headers = True  # frames on the wire, as on stdio
+    server.protocol.set_writer(written)  # with Content-Length headers (the default): frames as on stdio
     reader = StdinAsyncReader(FrameInput(io.BytesIO(b"".join(frames))), server.thread_pool)
     asyncio.run(run_async(threading.Event(), reader, server.protocol))
     return server, [json.loads(body) for body in frame_bodies(io.BytesIO(bytes(written.data)))]
