@@ -116,15 +116,22 @@ class GeometryPool:
             for index, request in enumerate(asked):
                 if isinstance(request.species, str):
                     results[index] = species_cache.load(request.species, request.unpaired, self.limits)
-        starts = [_structures(r, self.limits) if results[i] is None else Skipped("indexed")
-                  for i, r in enumerate(asked)]
-        slots: list[list[ComputedGeometry | None]] = [[] if isinstance(s, Skipped) else [None] * len(s[1])
-                                                      for s in starts]
+        # Species are built one at a time while the workers compute what was built before (building
+        # is the chemistry: isomers, point groups, a molecule's 3D model), so the first job starts at
+        # once and the parent's building overlaps the workers' start and their calculations.
+        starts: list[tuple[SpeciesAnalysis, tuple[Structure, ...]] | Skipped | None] = [None] * len(asked)
+        slots: list[list[ComputedGeometry | None]] = [[] for _ in asked]
         cached = [0] * len(asked)
+        unbuilt = deque(index for index, result in enumerate(results) if result is None)
         pending: deque[_Job] = deque()
-        for index, start in enumerate(starts):
+        heard = [False] * len(asked)
+
+        def build_next() -> None:
+            index = unbuilt.popleft()
+            start = starts[index] = _structures(asked[index], self.limits)
             if isinstance(start, Skipped):
-                continue
+                return
+            slots[index] = [None] * len(start[1])
             for slot, structure in enumerate(start[1]):
                 stored = cache.load(structure) if self.use_cache else None
                 if stored is not None:
@@ -132,12 +139,11 @@ class GeometryPool:
                     cached[index] += 1
                 else:
                     pending.append(_Job(index, slot, structure))
-        heard = [False] * len(asked)
 
         def finish_ready() -> None:
             for index, start in enumerate(starts):
-                if results[index] is None and all(g is not None for g in slots[index]):
-                    results[index] = _species(asked[index], start, slots[index], cached[index])  # type: ignore[arg-type]
+                if results[index] is None and start is not None and all(g is not None for g in slots[index]):
+                    results[index] = _species(asked[index], start, slots[index], cached[index])
                     request = asked[index]
                     if self.use_cache and isinstance(request.species, str):
                         species_cache.store(request.species, request.unpaired, self.limits, results[index])
@@ -147,14 +153,16 @@ class GeometryPool:
                         on_species(results[index])  # type: ignore[arg-type]
 
         finish_ready()
-        self._run(pending, slots, finish_ready)
+        self._run(pending, slots, unbuilt, build_next, finish_ready)
         return results  # type: ignore[return-value]
 
-    def _run(self, pending: deque[_Job], slots: list[list[ComputedGeometry | None]],
-             finish_ready: Callable[[], None]) -> None:
+    def _run(self, pending: deque[_Job], slots: list[list[ComputedGeometry | None]], unbuilt: deque[int],
+             build_next: Callable[[], None], finish_ready: Callable[[], None]) -> None:
         running: dict[Future, tuple[_Job, float]] = {}
-        while pending or running:
+        while pending or running or unbuilt:
             if self._cancelled.is_set():
+                while unbuilt:  # built, so that each of its structures comes back cancelled
+                    build_next()
                 while pending:
                     job = pending.popleft()
                     slots[job.species][job.slot] = failure(job.structure, "cancelled before it started")
@@ -165,10 +173,15 @@ class GeometryPool:
                 future = self._pool().submit(worker.run, {"structure": job.structure.to_dict(),
                                                           "limits": _limits_dict(self.limits)})
                 running[future] = (job, time.monotonic() + self.limits.wall_time_s + 2.0 + STARTUP_GRACE_S)
+            timeout = POLL_S
+            if unbuilt and not self._cancelled.is_set():
+                build_next()  # one species between looks at the workers, so answers are taken in time
+                finish_ready()  # a species found whole in the cache is done at once
+                timeout = 0.0
             if not running:
                 continue
             soonest = min(deadline for _, deadline in running.values())
-            done, _ = wait(running, timeout=max(0.0, min(POLL_S, soonest - time.monotonic())),
+            done, _ = wait(running, timeout=max(0.0, min(timeout, soonest - time.monotonic())),
                            return_when=FIRST_COMPLETED)
             broken = False
             for future in done:
