@@ -1,13 +1,29 @@
 """``cli_start_ratio``: a one-annotation ``notelsp check`` against a bare Python start, in the same run.
 
-Both are whole processes, timed from spawn to exit, alternated so that a busy
-moment of the machine slows both alike; one untimed run of each first (the
+The goal figure is ``cli_start_ratio``: the default ``check`` (rules and computed
+geometries) of a one-annotation note, with notelsp installed from a wheel, against
+``python -c pass`` of that same environment. An editable install is not measured:
+its import hook runs in every Python start, ``pass`` included, and so made the ratio
+look better than any installed copy gets. The run builds a wheel of this source
+tree, makes a fresh virtual environment without pip and installs the wheel there
+(with its console script); the dependencies are read from this environment's
+site-packages through a ``.pth`` path entry, so nothing is downloaded. That entry
+is a plain path: the ``.pth`` files of the dependencies themselves are not run, so
+``pass`` there is, if anything, a little cheaper than in an environment with
+everything installed (a stricter floor).
+
+The species' geometry is computed once, untimed, before the timed runs: they all
+read it from the disk cache (``~/.cache/notelsp``), as every check after a note's
+first does. ``cli_start_rules_only_ratio`` is the same note with ``--rules-only``
+(no geometry asked for at all).
+
+All three are whole processes, timed from spawn to exit, alternated so that a busy
+moment of the machine slows them alike; one untimed run of each first (the
 grammar's parser cache is written once per install, and the files are in the
-page cache afterwards, as on any second use). Both may write and read
-compiled bytecode, kept in a temporary folder of their own
-(``PYTHONPYCACHEPREFIX``), as an installed package has it: a
-``PYTHONDONTWRITEBYTECODE`` in the environment would otherwise make every
-run compile notelsp's sources again.
+page cache afterwards, as on any second use). All may write and read compiled
+bytecode, kept in a temporary folder of their own (``PYTHONPYCACHEPREFIX``): a
+``PYTHONDONTWRITEBYTECODE`` in the environment would otherwise make every run
+compile notelsp's sources again.
 """
 
 from __future__ import annotations
@@ -17,17 +33,14 @@ import resource
 import statistics
 import subprocess
 import sys
+import sysconfig
 import tempfile
 import time
 from pathlib import Path
 
 RUNS = 11
 ONE_NOTE = "# Fluorides\n\nChlorine trifluoride is {ClF3: T-shaped}.\n"
-
-
-def notelsp_command() -> list[str]:
-    script = Path(sys.executable).parent / "notelsp"
-    return [str(script)] if script.exists() else [sys.executable, "-m", "notelsp"]
+SOURCE_TREE = Path(__file__).resolve().parents[1]
 
 
 def _run_s(command: list[str], cwd: str, env: dict[str, str]) -> tuple[float, float]:
@@ -35,31 +48,56 @@ def _run_s(command: list[str], cwd: str, env: dict[str, str]) -> tuple[float, fl
     before = resource.getrusage(resource.RUSAGE_CHILDREN)
     start = time.perf_counter()
     subprocess.run(command, cwd=cwd, env=env, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, check=False,
-                   timeout=120)
+                   timeout=600)
     wall = time.perf_counter() - start
     after = resource.getrusage(resource.RUSAGE_CHILDREN)
     return wall, (after.ru_utime - before.ru_utime) + (after.ru_stime - before.ru_stime)
 
 
+def installed_from_wheel(folder: Path) -> Path:
+    """A fresh virtual environment in ``folder`` with notelsp installed from a wheel of this tree; its python."""
+    wheels = folder / "wheel"
+    subprocess.run([sys.executable, "-m", "pip", "wheel", "-q", "--no-deps", "-w", str(wheels), str(SOURCE_TREE)],
+                   check=True, stdout=subprocess.DEVNULL)
+    venv = folder / "venv"
+    subprocess.run([sys.executable, "-m", "venv", "--without-pip", str(venv)], check=True)
+    python = venv / "bin" / "python"
+    subprocess.run([sys.executable, "-m", "pip", "--python", str(python), "install", "-q", "--no-deps",
+                    *map(str, wheels.glob("notelsp-*.whl"))], check=True, stdout=subprocess.DEVNULL)
+    site = subprocess.run([str(python), "-c", "import sysconfig; print(sysconfig.get_paths()['purelib'])"],
+                          check=True, capture_output=True, text=True).stdout.strip()
+    Path(site, "notelsp_bench_dependencies.pth").write_text(sysconfig.get_paths()["purelib"] + "\n", encoding="utf-8")
+    return python
+
+
 def measure(runs: int = RUNS) -> dict[str, str]:
     with tempfile.TemporaryDirectory() as folder:
+        python = installed_from_wheel(Path(folder))
         Path(folder, "one.md").write_text(ONE_NOTE, encoding="utf-8")
-        env = {k: v for k, v in os.environ.items() if k != "PYTHONDONTWRITEBYTECODE"}
+        env = {k: v for k, v in os.environ.items() if k not in ("PYTHONDONTWRITEBYTECODE", "PYTHONPATH")}
         env["PYTHONPYCACHEPREFIX"] = str(Path(folder, "bytecode"))
-        check = [*notelsp_command(), "check", "one.md"]
-        bare = [sys.executable, "-c", "pass"]
-        _run_s(check, folder, env), _run_s(bare, folder, env)
-        checks, bares = [], []
+        script = str(python.parent / "notelsp")
+        commands = {
+            "check": [script, "check", "one.md"],
+            "rules_only": [script, "check", "--rules-only", "one.md"],
+            "bare": [str(python), "-c", "pass"],
+        }
+        for command in commands.values():  # untimed: the geometry computed and cached, bytecode written
+            _run_s(command, folder, env)
+        samples: dict[str, list[tuple[float, float]]] = {name: [] for name in commands}
         for _ in range(runs):
-            checks.append(_run_s(check, folder, env))
-            bares.append(_run_s(bare, folder, env))
-    check_s, bare_s = (statistics.median(wall for wall, _ in samples) for samples in (checks, bares))
-    check_cpu_s, bare_cpu_s = (statistics.median(cpu for _, cpu in samples) for samples in (checks, bares))
+            for name, command in commands.items():
+                samples[name].append(_run_s(command, folder, env))
+    wall = {name: statistics.median(w for w, _ in taken) for name, taken in samples.items()}
+    cpu = {name: statistics.median(c for _, c in taken) for name, taken in samples.items()}
     return {
-        "cli_check_ms": f"{check_s * 1e3:.0f}",
-        "python_start_ms": f"{bare_s * 1e3:.0f}",
-        "cli_start_ratio": f"{check_s / bare_s:.1f}",
-        "cli_start_cpu_ratio": f"{check_cpu_s / bare_cpu_s:.1f}",
+        "cli_check_ms": f"{wall['check'] * 1e3:.0f}",
+        "cli_check_rules_only_ms": f"{wall['rules_only'] * 1e3:.0f}",
+        "python_start_ms": f"{wall['bare'] * 1e3:.0f}",
+        "cli_start_ratio": f"{wall['check'] / wall['bare']:.1f}",  # the goal figure (≤ 10)
+        "cli_start_cpu_ratio": f"{cpu['check'] / cpu['bare']:.1f}",
+        "cli_start_rules_only_ratio": f"{wall['rules_only'] / wall['bare']:.1f}",
+        "cli_start_rules_only_cpu_ratio": f"{cpu['rules_only'] / cpu['bare']:.1f}",
     }
 
 
