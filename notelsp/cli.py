@@ -530,6 +530,8 @@ def _stop_fork_server(context: Any) -> None:
 
 @dataclass(frozen=True)
 class _FoundNotes:
+    """The notes each named path stands for, and the settings of the first."""
+
     named: dict[str, list[Any]]  # each named path -> its notes (notelsp.notefiles.NoteFile)
     settings: Any  # the first path's settings (standard input: the current folder's), for the cross-check
 

@@ -51,6 +51,8 @@ class ElementDataError(RuntimeError):
 
 @dataclass(frozen=True, slots=True)
 class Element:
+    """One element's properties, as mendeleev's database gives them."""
+
     symbol: str
     name: str
     number: int

@@ -60,6 +60,8 @@ class ReportedFile(NamedTuple):
 
 @dataclass(frozen=True)
 class ReviewedFile:
+    """One reviewed note (or notebook cell) as a report lists it."""
+
     path: str  # as the user named it (relative paths stay relative); may hold os.fsdecode surrogates
     review: DocumentReview
     cell: int | None = None  # a notebook's Markdown cell (1-based among all its cells); one ReviewedFile each
@@ -137,6 +139,8 @@ class ReviewedFile:
 
 @dataclass(frozen=True)
 class Unreadable:
+    """A named file that could not be read, and why."""
+
     path: str
     reason: str  # e.g. "not UTF-8 text (byte 0)", "Permission denied"
 

@@ -26,12 +26,14 @@ from pathlib import Path
 
 from lark import Lark, __version__ as LARK_VERSION
 
-from ..user_cache import CACHE_FOLDER_NAME, cache_folder, trusted as _trusted  # noqa: F401 (name kept here)
+from .. import user_cache
+from ..user_cache import cache_folder, trusted as _trusted
 
 GRAMMAR_FILE = "notation.lark"
 START_SYMBOLS = ("formula_spec", "claim")
 PARSER_OPTIONS = {"parser": "lalr", "lexer": "contextual", "start": list(START_SYMBOLS)}
 
+CACHE_FOLDER_NAME = user_cache.CACHE_FOLDER_NAME
 CACHE_MAGIC = b"notelsp-grammar-cache-1 "
 # One cache file per interpreter and lark version; a new grammar replaces the file of the same prefix.
 CACHE_PREFIX = f"grammar-py{sys.version_info[0]}{sys.version_info[1]}-lark{LARK_VERSION}-"

@@ -22,6 +22,8 @@ __all__ = ["BONDING_INFO", "BlockMemory", "MarkdownStructure", "Segment", "line_
 
 @dataclass(frozen=True, slots=True)
 class MarkdownStructure:
+    """What of a Markdown document is read for annotations: its prose segments and ```bonding lines."""
+
     segments: tuple[Segment, ...]
     bonding_lines: tuple[Span, ...]  # content lines of ```bonding blocks
 
@@ -56,6 +58,8 @@ _SEGMENTS, _BONDING = attrgetter("segments"), attrgetter("bonding")
 
 @dataclass(slots=True)
 class _Parsed:
+    """One version of a document with its parsed blocks, kept for re-parsing the next version."""
+
     text: str
     parsed: ParsedBlocks
     _reaches_across: bool | None = None  # found out when first compared with a later version

@@ -398,6 +398,8 @@ _ITEM, _QUOTE, _DIRECTIVE, _ADMONITION = range(4)
 
 @dataclass(slots=True, eq=False)
 class _Container:
+    """An open container block: a list item, a block quote, a directive or an admonition."""
+
     kind: int  # _ITEM, _QUOTE, _DIRECTIVE or _ADMONITION
     indent: int = 0  # a list item's or admonition's content column; a directive fence's indentation
     closer: str = ""  # a directive's shortest closing run
@@ -436,6 +438,8 @@ def _lines_of(text: str, begin: int, end: int) -> list[tuple[int, str]]:
 
 @dataclass(slots=True)
 class _Fence:
+    """An open fenced code block (a ```bonding one holds annotations)."""
+
     character: str
     length: int
     indent: int
@@ -457,6 +461,8 @@ class _Swallowing:
 
 @dataclass(slots=True)
 class _Table:
+    """An open table, by its number of columns."""
+
     columns: int
     delimiter_next: bool = False  # the header was found looking ahead: the next line is its delimiter row
 

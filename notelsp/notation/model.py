@@ -93,6 +93,8 @@ class Formula:
 
 @dataclass(frozen=True, slots=True)
 class Claim:
+    """What an annotation claims about its species (each kind a subclass), with its text and range."""
+
     text: str
     span: Span
     # The one atom the claim is about, named before it: "C2" in "C2 trigonal planar" (then
@@ -105,16 +107,22 @@ class Claim:
 
 @dataclass(frozen=True, slots=True)
 class ShapeClaim(Claim):
+    """The molecular shape: ``T-shaped``, ``trigonal pyramidal``."""
+
     shape: str  # lowercase hyphenated VSEPR name: "t-shaped", "trigonal-pyramidal"
 
 
 @dataclass(frozen=True, slots=True)
 class ElectronGeometryClaim(Claim):
+    """The arrangement of all electron domains: ``tetrahedral electron geometry``."""
+
     geometry: str  # "tetrahedral", "trigonal-bipyramidal", ...
 
 
 @dataclass(frozen=True, slots=True)
 class HybridizationClaim(Claim):
+    """The centre's hybridization: ``sp3d``, ``sp^2.4``, ``unhybridized``."""
+
     label: str | None  # "sp", "sp2", "sp3", "sp3d", "sp3d2", "sp3d3", "unhybridized"
     index: float | None = None  # fractional "sp^2.4" -> 2.4 (label None)
 
@@ -124,6 +132,8 @@ Site = Literal["axial", "equatorial", "apical", "basal", "cis", "trans", "fac", 
 
 @dataclass(frozen=True, slots=True)
 class PlacementClaim(Claim):
+    """Where ligands or lone pairs sit: ``F axial``, ``lone pairs equatorial``, ``one Cl apical``."""
+
     subject: str  # element symbol, or "lone-pair"
     site: Site
     quantity: Literal["all", "one", "some"] | int = "all"  # "one F axial" -> "one"
@@ -131,11 +141,15 @@ class PlacementClaim(Claim):
 
 @dataclass(frozen=True, slots=True)
 class PolarityClaim(Claim):
+    """Polar or not: ``polar``, ``nonpolar``, ``zero dipole``."""
+
     polar: bool
 
 
 @dataclass(frozen=True, slots=True)
 class AngleClaim(Claim):
+    """A bond angle or range: ``90°``, ``~107°``, ``H-N-H 107°``, ``121.9(2)°``."""
+
     low: float  # degrees; a single value has low == high
     high: float
     # ("H", "N", "H") for "H-N-H 107°"; each is an element symbol, an atom's name ("C1") or a
@@ -154,6 +168,8 @@ ESD_COVERAGE = 3.0
 
 @dataclass(frozen=True, slots=True)
 class BondLengthValueClaim(Claim):
+    """A bond length: ``C-F 1.39 Å``, ``bond length 139 pm``."""
+
     angstrom: float  # the claimed length in ångström (pm and nm converted)
     bond: tuple[str, str] | None = None  # ("C", "F") for "C-F 1.39 Å", ("C1", "C2") for "C1-C2 1.50 Å"; None: "bond length 1.39 Å"
     allowance: float = 0.0  # ångström allowed on each side by the claim's own uncertainty
@@ -163,6 +179,8 @@ class BondLengthValueClaim(Claim):
 
 @dataclass(frozen=True, slots=True)
 class CouplingClaim(Claim):
+    """A coupling constant: ``1J(C,H) 125 Hz``."""
+
     bonds: int  # n in nJ: how many bonds apart the coupled nuclei are
     nuclei: tuple[str, str]  # element symbols, as written ("C", "H")
     hertz: float
@@ -171,22 +189,30 @@ class CouplingClaim(Claim):
 
 @dataclass(frozen=True, slots=True)
 class UnpairedElectronClaim(Claim):
+    """How many unpaired electrons: ``2 unpaired electrons``."""
+
     count: int
 
 
 @dataclass(frozen=True, slots=True)
 class MagnetismClaim(Claim):
+    """``paramagnetic`` or ``diamagnetic``."""
+
     paramagnetic: bool
 
 
 @dataclass(frozen=True, slots=True)
 class AxeClaim(Claim):
+    """The VSEPR class: ``AX3E2``."""
+
     bonded: int  # X count
     lone_pairs: int  # E count
 
 
 @dataclass(frozen=True, slots=True)
 class AngleOrderClaim(Claim):
+    """Two angles compared: ``H-N-H < H-C-H``."""
+
     left: tuple[str, str, str]
     relation: Literal["<", ">", "="]
     right: tuple[str, str, str]
@@ -198,22 +224,30 @@ class AngleOrderClaim(Claim):
 
 @dataclass(frozen=True, slots=True)
 class IndexClaim(Claim):
+    """Coulson's hybridization index: ``index 2.4``."""
+
     value: float  # Coulson hybridization index i in sp^i
 
 
 @dataclass(frozen=True, slots=True)
 class SCharacterClaim(Claim):
+    """The s character of a bond hybrid: ``25% s character``, ``s-character 25% in C-F``."""
+
     percent: float
     ligand: str | None = None  # "s-character 25% in C-F"
 
 
 @dataclass(frozen=True, slots=True)
 class LonePairClaim(Claim):
+    """How many lone pairs the centre has: ``2 lone pairs``."""
+
     count: int
 
 
 @dataclass(frozen=True, slots=True)
 class BondLengthClaim(Claim):
+    """One bond compared between this species and another: ``C=C shorter``."""
+
     bond: tuple[str, str]  # ("C", "C"); atom names ("C1") or groups as in AngleClaim.atoms
     relation: Literal["shorter", "longer", "equal"]  # first species relative to the second
     order: int = 1  # as written: 2 for "C=C shorter"
@@ -221,11 +255,15 @@ class BondLengthClaim(Claim):
 
 @dataclass(frozen=True, slots=True)
 class PointGroupClaim(Claim):
+    """The point group, in Schoenflies notation: ``C2v``, ``D3h``."""
+
     symbol: str  # Schoenflies, normalised: "C2v", "D3h", "Td", "Cinfv"
 
 
 @dataclass(frozen=True, slots=True)
 class IsomerCountClaim(Claim):
+    """How many isomers there are: ``2 isomers``."""
+
     count: int
 
 
