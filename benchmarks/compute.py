@@ -13,7 +13,9 @@ list exactly the cold one's findings (the benchmark stops otherwise).
 note200_failed counts the species with no usable computed geometry, and
 note200_failed_species names each with its reason: a calculation that failed
 (its ``calculation-failed`` finding) or a species the calculation does not
-build (none of these 200 should be one).
+build (none of these 200 should be one).  note200_warm_indexed counts the
+species the species index (``notelsp.compute.species_cache``) answers after
+the warm run: 200 unless notelsp's chemistry code changed between the runs.
 
 computed_species_per_s: 20 distinct species (4 of them mixed halides with
 several isomers) optimised with GFN2-xTB by a pool of one worker per core,
@@ -111,6 +113,26 @@ def _findings(report: dict) -> list:
     return [finding for file in report["files"] for finding in file["findings"]]
 
 
+def _indexed(species: list[str], cache: str) -> int:
+    """How many species the species index answers now (fewer than all when notelsp's chemistry code
+    changed between the runs, in a working tree being edited: then the warm run took the full path)."""
+    try:
+        from notelsp.compute import species_cache
+    except ImportError:  # a release from before the index
+        return 0
+    from notelsp.notation import parse_formula
+
+    previous = os.environ.get("NOTELSP_CACHE_DIR")
+    os.environ["NOTELSP_CACHE_DIR"] = cache
+    try:
+        return len(species_cache.load_many([species_cache.written(parse_formula(text)) for text in species]))
+    finally:
+        if previous is None:
+            os.environ.pop("NOTELSP_CACHE_DIR", None)
+        else:
+            os.environ["NOTELSP_CACHE_DIR"] = previous
+
+
 def measure_note() -> dict[str, str]:
     from notelsp.chem import analyse
     from notelsp.compute.geometry import Skipped, start_structures
@@ -125,6 +147,7 @@ def measure_note() -> dict[str, str]:
         cache = str(Path(folder) / "cache")
         cold_s, cold_cpu, cold = _check(note, cache)
         warm_s, warm_cpu, warm = _check(note, cache)
+        indexed = _indexed(species, cache)
         rules_s, rules_cpu, _ = _check(note, cache, "--rules-only")
     if _findings(warm) != _findings(cold):
         raise RuntimeError("the warm check's findings differ from the cold check's")
@@ -141,6 +164,7 @@ def measure_note() -> dict[str, str]:
     figures["note200_cold_cpu_s"] = f"{cold_cpu:.1f}"
     figures["note200_warm_cpu_s"] = f"{warm_cpu:.2f}"
     figures["note200_rules_only_cpu_s"] = f"{rules_cpu:.2f}"
+    figures["note200_warm_indexed"] = str(indexed)
     figures["note200_findings"] = str(len(_findings(cold)))
     figures["note200_failed"] = str(len(failed))
     figures["note200_failed_species"] = "; ".join(f"{name} ({why})" for name, why in failed.items()) or "none"
