@@ -43,7 +43,7 @@ def main() -> None:
         print(f"{name}: {value}", flush=True)
     for name, value in repo.measure().items():  # notelsp check over 3,000 notes, then 1,000: CPU and memory
         print(f"{name}: {value}", flush=True)
-    for name, value in compute.measure().items():  # GFN2-xTB worker processes, one per core
+    for name, value in compute.measure().items():  # a 200-species note through check, cold and warm; the pool
         print(f"{name}: {value}", flush=True)
     for name, value in soak.measure().items():  # a long server session (a few minutes): memory only, no time
         print(f"{name}: {value}", flush=True)

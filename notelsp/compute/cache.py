@@ -15,7 +15,9 @@ result schema (``result.geometry_from_dict``) and describes exactly the
 structure asked for; anything else is treated as absent and recomputed.
 Writers write a temporary file and rename it into place, so concurrent
 writers and readers never see half an entry.  Past ``MAX_TOTAL_BYTES`` the
-oldest entries are removed.
+oldest entries are removed (the species index's small files,
+``species_cache.py``, live in the same folder and are counted and removed
+alike).
 """
 
 from __future__ import annotations
