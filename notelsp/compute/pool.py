@@ -143,10 +143,10 @@ class GeometryPool:
         def finish_ready() -> None:
             for index, start in enumerate(starts):
                 if results[index] is None and start is not None and all(g is not None for g in slots[index]):
-                    results[index] = _species(asked[index], start, slots[index], cached[index])
+                    done = results[index] = _species(asked[index], start, slots[index], cached[index])  # type: ignore[arg-type]
                     request = asked[index]
                     if self.use_cache and isinstance(request.species, str):
-                        species_cache.store(request.species, request.unpaired, self.limits, results[index])
+                        species_cache.store(request.species, request.unpaired, self.limits, done)
                 if results[index] is not None and not heard[index]:
                     heard[index] = True
                     if on_species is not None:

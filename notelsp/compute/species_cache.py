@@ -206,9 +206,10 @@ def store(text: str, unpaired: int | None, limits: Limits, species: ComputedSpec
         return
     if any(s.failed is not None for s in species.structures) or (species.skipped is None) == (not species.structures):
         return
-    listed = [{"entry": cache.key_digest(cache.geometry_key(s)), "became": s.became} for s in species.structures]
-    if not all(cache.entry_file(item["entry"]).is_file() for item in listed):
+    digests = [cache.key_digest(cache.geometry_key(s)) for s in species.structures]
+    if not all(cache.entry_file(digest).is_file() for digest in digests):
         return  # a structure entry was not written (a full disk): nothing to point at
+    listed = [{"entry": digest, "became": s.became} for digest, s in zip(digests, species.structures)]
     key = species_key(text, unpaired, limits)
     payload = {"key": key, "species": {"species": species.species, "charge": species.charge,
                                        "skipped": species.skipped, "notes": list(species.notes),
