@@ -32,13 +32,12 @@ import sys
 import tempfile
 from dataclasses import replace
 from functools import lru_cache
-from importlib import metadata
 from pathlib import Path
 from typing import Any
 
 from ..notefiles import bounded_json, read_cache_entry
 from . import cache
-from .method import METHOD, Limits, versions
+from .method import METHOD, Limits, installed_version, versions
 from .result import BadResult, ComputedGeometry, ComputedSpecies, geometry_from_dict, ordered
 
 FORMAT = 1  # bump when a species file changes shape or meaning
@@ -74,11 +73,7 @@ def code_fingerprint() -> str:
     grammar = package.parent / "grammar" / "notation.lark"  # a source tree's grammar (editable install)
     seen.append(_stat_text(grammar, package.parent))
     seen.append(sys.version)
-    for name in BUILDERS:
-        try:
-            seen.append(f"{name} {metadata.version(name)}")
-        except metadata.PackageNotFoundError:
-            seen.append(f"{name} missing")
+    seen.extend(f"{name} {installed_version(name) or 'missing'}" for name in BUILDERS)
     return hashlib.sha256("\n".join(seen).encode()).hexdigest()
 
 
