@@ -125,7 +125,7 @@ def _indexed(species: list[str], cache: str) -> int:
     previous = os.environ.get("NOTELSP_CACHE_DIR")
     os.environ["NOTELSP_CACHE_DIR"] = cache
     try:
-        return len(species_cache.load_many([species_cache.written(parse_formula(text)) for text in species]))
+        return len(species_cache.load_many([parse_formula(text).written for text in species]))
     finally:
         if previous is None:
             os.environ.pop("NOTELSP_CACHE_DIR", None)

@@ -655,9 +655,9 @@ def _computed_for(items: list, options: CheckOptions, settings: Any) -> dict[str
     from .compute import species_cache
     from .notation import scan
 
-    # Keyed as review_text's ``computed`` is (Formula.text, as species_to_compute lists them); each is
-    # asked for as written, so a SMILES or a named centre (HOCl @O) is computed as what it is.
-    wanted: dict[str, str] = {}
+    # Each species as written (Formula.written: a SMILES or a named centre, HOCl @O, is computed as what
+    # it is), which is also the key review_text's ``computed`` reads.
+    wanted: dict[str, None] = {}
     with contextlib.redirect_stderr(io.StringIO()):  # what reading a note says is printed when it is reviewed
         for item in items:
             if not getattr(settings if item is None else item.settings, "compute", True):
@@ -665,7 +665,7 @@ def _computed_for(items: list, options: CheckOptions, settings: Any) -> dict[str
             for text, kind in _texts_of(item, options):
                 for entry in scan(text, kind).found:
                     for formula in entry[4].formulas:
-                        wanted.setdefault(formula.text, species_cache.written(formula))
+                        wanted.setdefault(formula.written, None)
     if not wanted:
         return {}
     from .compute.method import missing_packages
@@ -676,8 +676,8 @@ def _computed_for(items: list, options: CheckOptions, settings: Any) -> dict[str
               file=sys.stderr)
         return {}
     # species cached whole are read without the pool (no chemistry, no worker processes)
-    found = species_cache.load_many(list(wanted.values()))
-    rest = [text for text in wanted.values() if text not in found]
+    found = species_cache.load_many(list(wanted))
+    rest = [text for text in wanted if text not in found]
     if rest:
         from .compute import GeometryPool
 
@@ -687,7 +687,7 @@ def _computed_for(items: list, options: CheckOptions, settings: Any) -> dict[str
                 found.update(zip(rest, pool.compute(rest, on_species=lambda _: progress.step())))
             finally:
                 progress.done()
-    return {key: found[text] for key, text in wanted.items()}
+    return {text: found[text] for text in wanted}
 
 
 def _texts_of(item: Any, options: CheckOptions) -> list[tuple[str, str]]:

@@ -85,14 +85,6 @@ def _stat_text(path: Path, base: Path) -> str:
     return f"{path.relative_to(base)} {status.st_size} {status.st_mtime_ns}"
 
 
-def written(formula: Any) -> str:
-    """The notation text that reads back as ``formula`` (a ``notation.model.Formula``): its text, with the
-    SMILES marker or the named centre it was written with, so a request by text computes the species written."""
-    if formula.smiles is not None:
-        return f'smiles "{formula.smiles}"'
-    return formula.text if formula.centre is None else f"{formula.text} @{formula.centre}"
-
-
 def species_key(text: str, unpaired: int | None, limits: Limits) -> list[Any]:
     """Everything a computed species depends on, as JSON (the structures' own keys hold the rest)."""
     return [FORMAT, cache.FORMAT, METHOD, [list(v) for v in versions()], text, unpaired,

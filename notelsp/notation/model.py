@@ -71,6 +71,15 @@ class Formula:
     bracketed: bool = False
     smiles: str | None = None  # set when the species was given as SMILES (then ``parts`` is empty)
 
+    @property
+    def written(self) -> str:
+        """The notation that reads back as this species: the text, with the SMILES marker or the named
+        centre it was written with (``smiles "CO"`` is methanol, ``CO`` carbon monoxide).  What a
+        species is computed as, and the key of its computed result."""
+        if self.smiles is not None:
+            return f'smiles "{self.smiles}"'
+        return self.text if self.centre is None else f"{self.text} @{self.centre}"
+
     def composition(self) -> dict[str, int]:
         """Element symbol -> total count, in order of first appearance."""
         counts: dict[str, int] = {}

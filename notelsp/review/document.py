@@ -109,7 +109,7 @@ def analyses_of(annotation: Annotation) -> tuple[SpeciesAnalysis, ...]:
 
 
 def species_to_compute(scanned: ScannedDocument | DocumentReview) -> tuple[str, ...]:
-    """Every species the annotations name, as written (``Formula.text``), each once, in document order.
+    """Every species the annotations name, as written (``Formula.written``), each once, in document order.
 
     These are the keys of ``review_text``'s ``computed``: compute each (``GeometryPool.compute``
     takes the text as it is) and pass the results keyed by the same text.
@@ -118,7 +118,7 @@ def species_to_compute(scanned: ScannedDocument | DocumentReview) -> tuple[str, 
     seen: dict[str, None] = {}
     for entry in found:
         for formula in entry[4].formulas:
-            seen.setdefault(formula.text, None)
+            seen.setdefault(formula.written, None)
     return tuple(seen)
 
 
@@ -136,7 +136,7 @@ def review_text(
     """Every finding of ``text``.
 
     ``computed`` holds computed geometries (``notelsp.compute.ComputedSpecies``) keyed by the
-    species as written in the annotations (``Formula.text``; :func:`species_to_compute` lists
+    species as written in the annotations (``Formula.written``; :func:`species_to_compute` lists
     them).  Claims about species found there are also judged against the calculation; a species
     missing from it is judged by the rules alone.  The review never computes: results are an
     input, and the findings stay a function of the arguments (caches key on them).
@@ -245,7 +245,7 @@ def _review_found(found_in_order: Iterable[Found], text: str, settings: Settings
         source = text[start:end]
         # An annotation's findings depend on its text, form and settings, and on the computed
         # results of its own species: those join the cache key (nothing when none is computed).
-        results = tuple(computed.get(f.text) for f in parsed.formulas) if computed else ()
+        results = tuple(computed.get(f.written) for f in parsed.formulas) if computed else ()
         own = tuple(None if r is None else _Same(r) for r in results) if any(results) else ()
         relative = reviews.get((source, form, own))
         if relative is None:

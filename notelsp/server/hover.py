@@ -37,7 +37,7 @@ def register(server: NoteServer) -> None:
             return None
 
         markdown = hover_markdown(held.review, annotation, offset)
-        computed = hover_lines(ls, held.uri, [formula.text for formula in annotation.formulas])
+        computed = hover_lines(ls, held.uri, [formula.written for formula in annotation.formulas])
         if computed:  # the calculation's geometry, "computing…" while it runs, or why it failed
             markdown = "\n\n".join(([markdown, "---"] if markdown else []) + computed)
         if not markdown:

@@ -162,6 +162,18 @@ def test_species_to_compute_lists_each_species_as_written_once_in_order():
     assert species_to_compute(review_text("{SF4: seesaw}")) == ("SF4",)
 
 
+def test_a_smiles_and_a_named_centre_are_computed_and_looked_up_as_written():
+    # SMILES "CO" is methanol, the formula CO carbon monoxide (common practice, no source): two species
+    scanned = scan('{smiles "CO": C sp3} {CO: linear} {HOCl @O: bent}', "markdown")
+    assert species_to_compute(scanned) == ('smiles "CO"', "CO", "HOCl @O")
+    # a result is read under the species as written, and only there
+    text = "{NH3 @N: H-N-H 115°}"
+    rules_only = review_text(text).findings
+    assert review_text(text, computed={"NH3": stored()["NH3"]}).findings == rules_only
+    (judged,) = review_text(text, computed={"NH3 @N": stored()["NH3"]}).findings
+    assert "GFN2-xTB" in judged.message and all("GFN2-xTB" not in f.message for f in rules_only)
+
+
 def test_a_computed_order_within_the_uncertainty_softens_the_rules_finding_without_deciding():
     # CH2Cl2: Cl-C-Cl 112.0° and H-C-H 111.8° measured (from memory): all but equal
     text = "{CH2Cl2: Cl-C-Cl < H-C-H}"
