@@ -98,27 +98,21 @@ def load_cached_parser(path: Path, fingerprint: str) -> Lark | None:
 
 
 def save_cached_parser(built: Lark, path: Path, fingerprint: str) -> None:
-    """Write the cache file whole or not at all (a temporary file renamed); never raises."""
-    import tempfile  # only needed when writing
+    """Write the cache file whole or not at all (user_cache.write_whole); never raises."""
+    import io  # only needed when writing
 
-    temporary = None
+    buffer = io.BytesIO()
+    buffer.write(CACHE_MAGIC + fingerprint.encode("ascii") + b"\n")
     try:
-        path.parent.mkdir(mode=0o700, parents=True, exist_ok=True)
-        descriptor, temporary = tempfile.mkstemp(dir=path.parent, prefix=".grammar-", suffix=".tmp")
-        with os.fdopen(descriptor, "wb") as handle:
-            handle.write(CACHE_MAGIC + fingerprint.encode("ascii") + b"\n")
-            built.save(handle)
-        os.replace(temporary, path)
-        temporary = None
+        built.save(buffer)
+    except Exception:  # a parser that cannot be saved: the one in memory is enough
+        return
+    if not user_cache.write_whole(path, buffer.getvalue()):
+        return
+    try:
         for stale in path.parent.glob(f"{CACHE_PREFIX}*{CACHE_SUFFIX}"):  # an earlier grammar's
             if stale != path:
                 stale.unlink(missing_ok=True)
-    except Exception:  # a read-only or full disk: the parser in memory is enough
+    except OSError:
         pass
-    finally:
-        if temporary is not None:
-            try:
-                os.unlink(temporary)
-            except OSError:
-                pass
 
