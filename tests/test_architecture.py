@@ -28,29 +28,25 @@ IO_CALLS = {"open", "read_text", "read_bytes", "write_text", "write_bytes", "unl
             "rename", "fdopen", "iterdir", "glob", "rglob", "listdir", "scandir", "getenv"}
 
 
-def module_name(path: Path) -> str:
-    parts = path.relative_to(PACKAGE.parent).with_suffix("").parts
-    return ".".join(parts[:-1] if parts[-1] == "__init__" else parts)
+def _import_drawing():
+    """tools/import_drawing.py: the one reader of the package's imports (the drawing and these tests)."""
+    import importlib.util
+
+    spec = importlib.util.spec_from_file_location("import_drawing", PACKAGE.parent / "tools" / "import_drawing.py")
+    module = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(module)
+    return module
+
+
+drawing = _import_drawing()
+module_name = drawing.module_name
 
 
 def imported(path: Path, top_level_only: bool = False) -> set[str]:
-    """Every module ``path`` imports (relative imports resolved); only module-level ones if asked."""
-    tree = ast.parse(path.read_text(encoding="utf-8"))
-    package = module_name(path) if path.name == "__init__.py" else module_name(path).rpartition(".")[0]
-    nodes = tree.body if top_level_only else list(ast.walk(tree))
-    found: set[str] = set()
-    for node in nodes:
-        if isinstance(node, ast.Import):
-            found.update(alias.name for alias in node.names)
-        elif isinstance(node, ast.ImportFrom):
-            if node.level:
-                base = package.split(".")[: len(package.split(".")) - node.level + 1]
-                module = ".".join(base + ([node.module] if node.module else []))
-            else:
-                module = node.module or ""
-            found.add(module)
-            found.update(f"{module}.{alias.name}" for alias in node.names)
-    return found
+    """Every module ``path`` imports, for the type checker too (relative imports resolved); only those
+    run at import if asked."""
+    return {module for module, at_import in drawing.imports_of(path, typing_too=True)
+            if at_import or not top_level_only}
 
 
 def layer_files(layer: str) -> list[Path]:
@@ -96,22 +92,7 @@ def test_no_import_cycle_between_modules() -> None:
     # a package's __init__ importing its own submodules is how registries load: not a cycle of design
     for name in graph:
         graph[name] = {m for m in graph[name] if not m.startswith(name + ".")}
-    cycles: list[list[str]] = []
-    state: dict[str, int] = {}
-
-    def visit(node: str, trail: list[str]) -> None:
-        state[node] = 1
-        for nxt in sorted(graph[node]):
-            if state.get(nxt) == 1:
-                cycles.append(trail[trail.index(nxt):] + [nxt])
-            elif nxt not in state:
-                visit(nxt, trail + [nxt])
-        state[node] = 2
-
-    for start in sorted(graph):
-        if start not in state:
-            visit(start, [start])
-    assert cycles == []
+    assert drawing.cycle({(a, b): True for a in graph for b in graph[a]}) is None
 
 
 
@@ -120,16 +101,7 @@ def test_the_server_has_no_import_cycle_even_through_lazy_imports() -> None:
     modules = {module_name(p): p for p in (PACKAGE / "server").rglob("*.py")}
     graph = {name: {m for m in imported(path) if m in modules and m != name and not m.startswith(name + ".")}
              for name, path in modules.items()}
-    loops = sorted((a, b) for a in graph for b in graph[a] if a in graph[b] and a < b)
-    longer = []
-    for start in graph:  # any longer loop: start reaches itself
-        seen, frontier = set(), set(graph[start])
-        while frontier:
-            seen |= frontier
-            frontier = {n for m in frontier for n in graph[m]} - seen
-        if start in seen:
-            longer.append(start)
-    assert loops == [] and longer == []
+    assert drawing.cycle({(a, b): False for a in graph for b in graph[a]}, lazy_too=True) is None
 
 
 # Module-level memo of pure functions keyed by value may stay outside the analysis host: the same
@@ -187,24 +159,13 @@ def test_the_state_check_sees_a_module_level_cache(tmp_path: Path) -> None:
     assert _module_state(module) == ["_reviews line 1", "_recent line 2", "_count line 6"]
 
 
-def _import_drawing():
-    import importlib.util
-
-    path = PACKAGE.parent / "tools" / "import_drawing.py"
-    spec = importlib.util.spec_from_file_location("import_drawing", path)
-    module = importlib.util.module_from_spec(spec)
-    spec.loader.exec_module(module)
-    return module
-
 
 def test_the_drawing_of_the_imports_in_developers_md_is_current() -> None:
-    drawing = _import_drawing()
     text = drawing.DEVELOPERS.read_text(encoding="utf-8")
     assert drawing.rewritten(text) == text, "DEVELOPERS.md's drawing of the imports is stale: run tools/import_drawing.py"
 
 
 def test_the_drawing_shows_no_cycle_and_the_layers_one_way() -> None:
-    drawing = _import_drawing()
     parts = drawing.edges()
     assert drawing.cycle(parts) is None
     assert drawing.cycle(drawing.edges("server"), lazy_too=True) is None
@@ -216,7 +177,6 @@ def test_the_drawing_shows_no_cycle_and_the_layers_one_way() -> None:
 
 
 def test_the_cycle_finder_finds_a_cycle() -> None:
-    drawing = _import_drawing()
     assert drawing.cycle({("a", "b"): True, ("b", "a"): True}) == ["a", "b", "a"]
     assert drawing.cycle({("a", "b"): True, ("b", "a"): False}) is None
     assert drawing.cycle({("a", "b"): True, ("b", "a"): False}, lazy_too=True) == ["a", "b", "a"]

@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import ast
 import sys
+from collections.abc import Mapping
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parent.parent
@@ -34,15 +35,18 @@ def part_of(module: str, within: str = "") -> str | None:
     return name if (folder / name).is_dir() or (folder / f"{name}.py").is_file() else None
 
 
-def _module_name(path: Path) -> str:
+def module_name(path: Path) -> str:
     parts = path.relative_to(ROOT).with_suffix("").parts
     return ".".join(parts[:-1] if parts[-1] == "__init__" else parts)
 
 
-def _imports(path: Path) -> list[tuple[str, bool]]:
-    """(imported module, at module level?) for every import of ``path``, relative ones resolved."""
+def imports_of(path: Path, typing_too: bool = False) -> list[tuple[str, bool]]:
+    """(imported module, run at import?) for every import of ``path``, relative ones resolved.
+
+    Imports under ``if TYPE_CHECKING:`` are for the type checker only: left out unless ``typing_too``
+    (then counted as not run at import)."""
     tree = ast.parse(path.read_text(encoding="utf-8"))
-    name = _module_name(path)
+    name = module_name(path)
     package = name if path.name == "__init__.py" else name.rpartition(".")[0]
     at_import = _run_at_import(tree)
     # imports under ``if TYPE_CHECKING:`` at module level are for the type checker only: not drawn
@@ -50,9 +54,9 @@ def _imports(path: Path) -> list[tuple[str, bool]]:
                    and "TYPE_CHECKING" in ast.unparse(node.test) for child in ast.walk(node)}
     found = []
     for node in ast.walk(tree):
-        if id(node) in typing_only:
+        if id(node) in typing_only and not typing_too:
             continue
-        at_top = id(node) in at_import
+        at_top = id(node) in at_import and id(node) not in typing_only
         if isinstance(node, ast.Import):
             found.extend((alias.name, at_top) for alias in node.names)
         elif isinstance(node, ast.ImportFrom):
@@ -78,10 +82,10 @@ def edges(within: str = "") -> dict[tuple[str, str], bool]:
     """(importer part, imported part) -> True if any of those imports is at module level."""
     drawn: dict[tuple[str, str], bool] = {}
     for path in sorted(PACKAGE.joinpath(within).rglob("*.py")):
-        source = part_of(_module_name(path), within)
+        source = part_of(module_name(path), within)
         if source is None:
             continue
-        for module, at_top in _imports(path):
+        for module, at_top in imports_of(path):
             target = part_of(module, within)
             if target is None or target == source:
                 continue
@@ -89,7 +93,7 @@ def edges(within: str = "") -> dict[tuple[str, str], bool]:
     return drawn
 
 
-def cycle(drawn: dict[tuple[str, str], bool], lazy_too: bool = False) -> list[str] | None:
+def cycle(drawn: Mapping[tuple[str, str], bool], lazy_too: bool = False) -> list[str] | None:
     """A cycle through module-level arrows (every arrow if ``lazy_too``), or None."""
     graph: dict[str, list[str]] = {}
     for (a, b), at_top in drawn.items():
