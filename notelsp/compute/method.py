@@ -40,7 +40,7 @@ def versions() -> tuple[tuple[str, str], ...]:
     return tuple((package, installed_version(package) or "missing") for package in ("tblite", "ase"))
 
 
-@lru_cache(maxsize=None)
+@lru_cache(maxsize=32)  # a handful of packages are asked about
 def installed_version(package: str) -> str | None:
     """The installed version of ``package``, None when it is not installed.
 
@@ -58,7 +58,7 @@ def installed_version(package: str) -> str | None:
     return None if _only_plain_folders() else _from_metadata(package)
 
 
-@lru_cache(maxsize=None)
+@lru_cache(maxsize=64)  # one entry per folder of sys.path
 def _installed_in(folder: str) -> dict[str, str | None]:
     """Distribution name -> version in one folder of sys.path (None: ask importlib.metadata)."""
     found: dict[str, str | None] = {}
