@@ -128,22 +128,30 @@ def store(geometry: ComputedGeometry) -> None:
         return
     key = geometry_key(geometry)
     path = entry_file(key_digest(key))
-    payload = json.dumps({"key": key, "geometry": geometry_to_dict(geometry)}, allow_nan=False)
+    if not write_entry(path, {"key": key, "geometry": geometry_to_dict(geometry)}):
+        return
+    _stores += 1
+    if _stores % EVICT_EVERY == 1:
+        evict()
+
+
+def write_entry(path: Path, payload: dict[str, Any]) -> bool:
+    """Write ``payload`` as JSON at ``path`` whole or not at all (a ``.entry-`` temporary file, which
+    :func:`evict` clears when a writer died, renamed into place); False when it cannot be written."""
     try:
+        text = json.dumps(payload, allow_nan=False)
         path.parent.mkdir(parents=True, exist_ok=True)
         descriptor, temporary = tempfile.mkstemp(dir=path.parent, prefix=".entry-", suffix=".tmp")
         try:
             with os.fdopen(descriptor, "w", encoding="utf-8") as handle:
-                handle.write(payload)
+                handle.write(text)
             os.replace(temporary, path)
         except BaseException:
             _remove(Path(temporary))
             raise
     except (OSError, ValueError):
-        return
-    _stores += 1
-    if _stores % EVICT_EVERY == 1:
-        evict()
+        return False
+    return True
 
 
 def evict(limit: int = MAX_TOTAL_BYTES) -> int:

@@ -29,7 +29,6 @@ import json
 import os
 import re
 import sys
-import tempfile
 from dataclasses import replace
 from functools import lru_cache
 from pathlib import Path
@@ -201,16 +200,4 @@ def store(text: str, unpaired: int | None, limits: Limits, species: ComputedSpec
     payload = {"key": key, "species": {"species": species.species, "charge": species.charge,
                                        "skipped": species.skipped, "notes": list(species.notes),
                                        "structures": listed}}
-    path = species_path(key)
-    try:
-        path.parent.mkdir(parents=True, exist_ok=True)
-        descriptor, temporary = tempfile.mkstemp(dir=path.parent, prefix=".entry-", suffix=".tmp")
-        try:
-            with os.fdopen(descriptor, "w", encoding="utf-8") as handle:
-                handle.write(json.dumps(payload, allow_nan=False))
-            os.replace(temporary, path)
-        except BaseException:
-            Path(temporary).unlink(missing_ok=True)
-            raise
-    except (OSError, ValueError):
-        return
+    cache.write_entry(species_path(key), payload)
