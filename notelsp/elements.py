@@ -26,7 +26,7 @@ from dataclasses import dataclass
 from functools import cache
 from pathlib import Path
 
-from .user_cache import cache_folder, trusted, write_whole
+from .user_cache import cache_folder, read_trusted, write_whole
 
 DATA_PACKAGE = "mendeleev"
 DATABASE_NAME = "elements.db"
@@ -143,16 +143,15 @@ def _source_key(path: Path) -> bytes | None:
 
 def _cached_rows(path: Path, key: bytes) -> list[tuple] | None:
     """The rows kept at ``path`` if they were read from the database ``key`` names and the file is the user's own."""
+    data = read_trusted(path)
+    if data is None:
+        return None
     try:
-        with open(path, "rb") as handle:
-            if not trusted(os.fstat(handle.fileno())):
-                return None
-            data = handle.read()
         length = int.from_bytes(data[:4], "little")
         if data[4:4 + length] != key:
             return None
         rows = marshal.loads(data[4 + length:])
-    except Exception:  # absent, unreadable, truncated or damaged: read the database instead
+    except Exception:  # truncated or damaged: read the database instead
         return None
     if not (isinstance(rows, tuple) and rows and all(isinstance(row, tuple) and len(row) == len(COLUMNS)
                                                      for row in rows)):

@@ -36,6 +36,17 @@ def trusted(status: os.stat_result) -> bool:
     return status.st_uid == os.getuid() and not status.st_mode & (stat.S_IWGRP | stat.S_IWOTH)
 
 
+def read_trusted(path: Path) -> bytes | None:
+    """The file's bytes if it is the user's own (:func:`trusted`); None when absent, unreadable or not."""
+    try:
+        with open(path, "rb") as handle:
+            if not trusted(os.fstat(handle.fileno())):
+                return None
+            return handle.read()
+    except OSError:
+        return None
+
+
 def write_whole(path: Path, data: bytes) -> bool:
     """Write the file whole or not at all (a temporary file renamed into place); never raises."""
     import tempfile  # only needed when writing

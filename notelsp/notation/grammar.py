@@ -19,7 +19,6 @@ that cannot be written) means building the parser in memory, silently.
 from __future__ import annotations
 
 import hashlib
-import os
 import sys
 from functools import cache
 from pathlib import Path
@@ -27,7 +26,7 @@ from pathlib import Path
 from lark import Lark, __version__ as LARK_VERSION
 
 from .. import user_cache
-from ..user_cache import cache_folder, trusted as _trusted
+from ..user_cache import cache_folder
 
 GRAMMAR_FILE = "notation.lark"
 START_SYMBOLS = ("formula_spec", "claim")
@@ -85,14 +84,15 @@ def grammar_fingerprint(text: str) -> str:
 
 def load_cached_parser(path: Path, fingerprint: str) -> Lark | None:
     """The parser saved at ``path`` if the file is verifiably this grammar's and the user's own; else None."""
+    import io
+
+    data = user_cache.read_trusted(path)
+    header = CACHE_MAGIC + fingerprint.encode("ascii") + b"\n"
+    if data is None or not data.startswith(header):
+        return None
     try:
-        with open(path, "rb") as handle:
-            if not _trusted(os.fstat(handle.fileno())):
-                return None
-            if handle.readline() != CACHE_MAGIC + fingerprint.encode("ascii") + b"\n":
-                return None
-            loaded = Lark.load(handle)  # unpickles: only after the checks above
-    except Exception:  # absent, unreadable, truncated or corrupted: build instead
+        loaded = Lark.load(io.BytesIO(data[len(header):]))  # unpickles: only after the checks above
+    except Exception:  # truncated or corrupted: build instead
         return None
     return loaded if isinstance(loaded, Lark) else None
 
