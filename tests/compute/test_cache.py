@@ -5,6 +5,7 @@ from __future__ import annotations
 import json
 import os
 import threading
+import time
 from pathlib import Path
 
 import pytest
@@ -155,7 +156,10 @@ def test_concurrent_writers_and_readers_never_see_half_an_entry():
             cache.store(result)
 
     def reader():
-        for _ in range(300):
+        # 300 reads, and on until the first whole entry is seen: 300 reads of a missing file can all
+        # happen before a writer thread gets the interpreter for its first write
+        deadline = time.monotonic() + 30
+        while len(seen) < 300 or (result not in seen and time.monotonic() < deadline):
             seen.append(cache.load(start))
 
     writers = [threading.Thread(target=writer) for _ in range(3)]
