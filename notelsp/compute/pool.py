@@ -302,8 +302,21 @@ def _species(request: Request, start: tuple[SpeciesAnalysis, tuple[Structure, ..
         1 for i, iso in enumerate(centre.isomers) if iso.enantiomer is not None and iso.enantiomer < i)
     if listed > len(built):
         notes = (f"only the first {len(built)} of {listed} isomers (by the analysis's rank) were computed",)
+    group, unavailable = _model_symmetry(analysis, built)
     return ComputedSpecies(analysis.formula, analysis.charge, METHOD, versions(),
-                           ordered(_identified(structures, built)), None, notes, cached)
+                           ordered(_identified(structures, built)), None, notes, cached, group, unavailable)
+
+
+def _model_symmetry(analysis: SpeciesAnalysis, built: tuple[Structure, ...]) -> tuple[str | None, str | None]:
+    """(point group of the 3D model, why none) for a species built as a molecule of several centres,
+    whose polarity and point group the review reads from that model; (None, None) otherwise."""
+    whole = analysis.molecule
+    if not built[0].connections or whole is None or analysis.outside_model is not None or len(whole.centres) <= 1:
+        return None, None
+    from ..chem.molecule_geometry import whole_molecule_symmetry  # the model is made already (the start)
+
+    found = whole_molecule_symmetry(whole.molecule)
+    return (None, found) if isinstance(found, str) else (found[0], None)
 
 
 def _identified(structures: list[ComputedGeometry], built: tuple[Structure, ...]) -> list[ComputedGeometry]:

@@ -146,6 +146,12 @@ class ComputedSpecies:
     skipped: str | None = None  # why nothing was computed (a group ligand, several centres, ...)
     notes: tuple[str, ...] = ()
     cached: int = 0  # structures that came from the disk cache
+    # A species built as a molecule of several centres: the point group of the 3D model its calculation
+    # started from (chem.molecule_geometry.whole_molecule_symmetry, the same answer the rules-only
+    # path finds), or why that has none.  Kept with the species so that a later run reads it instead
+    # of embedding the molecule again; both None for any other species.
+    model_point_group: str | None = None
+    model_unavailable: str | None = None
 
     @property
     def angle_uncertainty_deg(self) -> float:

@@ -39,18 +39,20 @@ from . import cache
 from .method import METHOD, Limits, installed_version, versions
 from .result import BadResult, ComputedGeometry, ComputedSpecies, geometry_from_dict, ordered
 
-FORMAT = 1  # bump when a species file changes shape or meaning
+FORMAT = 2  # bump when a species file changes shape or meaning
 PREFIX = "species-"
 MAX_FILE_BYTES = 16 * 1024  # a species of 12 isomers with long notes is under 4 kB
 MAX_NESTING = 5  # file -> species -> structures -> one structure: 4 levels are used
 MAX_STRUCTURES = 64
 MAX_TEXT = 400
+MAX_REASON = 2000  # why a molecule has no point group: several stereoisomers' groups, each named
 # Packages whose data or code decide a starting structure, beside tblite and ASE (in every key).
 BUILDERS = ("mendeleev", "rdkit", "lark")
 # notelsp's own code a species' structures follow from (the notation reads it, chem analyses it,
 # compute builds and optimises it); the review, formats, server and command line are left out.
 BUILDING_CODE = ("notation", "chem", "compute", "elements.py", "positions.py", "grammar")
 _DIGEST = re.compile(r"[0-9a-f]{32}")
+_POINT_GROUP = re.compile(r"[A-Za-z0-9∞*]{1,8}")  # a Schoenflies symbol as chem.point_group writes it
 
 
 @lru_cache(maxsize=1)
@@ -149,8 +151,27 @@ def parse(data: bytes, key: list[Any]) -> ComputedSpecies:
         if geometry.species != name or geometry.charge != charge:
             raise BadResult("an entry of another species")
         structures.append(geometry if became is None else replace(geometry, became=_text(became)))
+    group, unavailable = _model(raw.get("model"))
     return ComputedSpecies(name, charge, METHOD, versions(), ordered(structures), skipped,
-                           tuple(_text(n) for n in notes), len(structures))
+                           tuple(_text(n) for n in notes), len(structures), group, unavailable)
+
+
+def _model(value: Any) -> tuple[str | None, str | None]:
+    """(point group, why none) of the species' 3D model, from ``{"point_group": ...}``,
+    ``{"unavailable": ...}`` or null."""
+    if value is None:
+        return None, None
+    if isinstance(value, dict) and set(value) == {"point_group"}:
+        group = _text(value["point_group"])
+        if not _POINT_GROUP.fullmatch(group):
+            raise BadResult("not a point group")
+        return group, None
+    if isinstance(value, dict) and set(value) == {"unavailable"}:
+        reason = value["unavailable"]
+        if not isinstance(reason, str) or len(reason) > MAX_REASON:
+            raise BadResult(f"the reason is not a string of at most {MAX_REASON} characters")
+        return None, reason
+    raise BadResult("the model is not a point group or a reason for none")
 
 
 def _entry(digest: str) -> ComputedGeometry:
@@ -199,5 +220,13 @@ def store(text: str, unpaired: int | None, limits: Limits, species: ComputedSpec
     key = species_key(text, unpaired, limits)
     payload = {"key": key, "species": {"species": species.species, "charge": species.charge,
                                        "skipped": species.skipped, "notes": list(species.notes),
-                                       "structures": listed}}
+                                       "structures": listed, "model": _model_dict(species)}}
     cache.write_entry(species_path(key), payload)
+
+
+def _model_dict(species: ComputedSpecies) -> dict[str, str] | None:
+    if species.model_point_group is not None:
+        return {"point_group": species.model_point_group}
+    if species.model_unavailable is not None and len(species.model_unavailable) <= MAX_REASON:
+        return {"unavailable": species.model_unavailable}
+    return None

@@ -66,6 +66,16 @@ def test_a_species_with_a_failed_structure_is_not_indexed():
     assert not species_file("NH3").exists()
 
 
+@pytest.mark.parametrize("group, unavailable", [("D3d", None), (None, "the point group depends on the stereoisomer")])
+def test_the_point_group_of_a_molecule_model_comes_back_with_it(group, unavailable):
+    from dataclasses import replace
+
+    stored = replace(fake_species("NH3"), model_point_group=group, model_unavailable=unavailable)
+    species_cache.store("NH3", None, Limits(), stored)
+    found = species_cache.load("NH3")
+    assert (found.model_point_group, found.model_unavailable) == (group, unavailable)
+
+
 def test_a_skipped_species_is_indexed_with_its_reason():
     skipped = ComputedSpecies("C(OH)4", 0, METHOD, versions(), (), "ligands that are groups are not built yet")
     species_cache.store("C(OH)4", None, Limits(), skipped)
@@ -101,6 +111,10 @@ def test_a_missing_or_changed_structure_entry_is_a_miss():
     lambda p: _edit(p, lambda d: d["species"]["structures"][0].update(extra=1)),
     lambda p: _edit(p, lambda d: d["species"].update(structures=[d["species"]["structures"][0]] * 65)),
     lambda p: _edit(p, lambda d: d["species"].update(notes="not a list")),
+    lambda p: _edit(p, lambda d: d["species"].update(model={"point_group": "C2v; rm -rf"})),
+    lambda p: _edit(p, lambda d: d["species"].update(model={"point_group": "C2v", "unavailable": "both"})),
+    lambda p: _edit(p, lambda d: d["species"].update(model={"unavailable": 12})),
+    lambda p: _edit(p, lambda d: d["species"].update(model=["C2v", True])),
 ])
 def test_a_corrupt_or_hostile_index_file_is_a_miss_never_an_error(mangle):
     species_cache.store("NH3", None, Limits(), fake_species("NH3"))

@@ -92,3 +92,35 @@ def test_a_claim_ten_degrees_off_is_flagged_with_the_centre_named(computed, temp
         assert "computed (GFN2-xTB)" in finding.message
         return
     pytest.fail("both claims 10° off were flagged by the rules already")
+
+
+# Point groups of the conformers chemists mean (common practice, no source): ethene is planar D2h,
+# methanol (staggered) and acetic acid (planar heavy-atom frame) have one mirror plane, Cs.
+MODEL_GROUPS = {"C2H4": ("D2h", False), "CH3OH": ("Cs", True), "CH3COOH": ("Cs", True)}
+
+
+@pytest.mark.parametrize("name", sorted(MODEL_GROUPS))
+def test_a_computed_molecule_keeps_the_point_group_of_the_model_it_started_from(name, computed):
+    group, polar = MODEL_GROUPS[name]
+    assert computed[name].model_point_group == group and computed[name].model_unavailable is None
+    from notelsp.chem.polarity import is_polar
+
+    assert is_polar(group) is polar
+
+
+@pytest.mark.parametrize("name", sorted(MODEL_GROUPS))
+def test_polarity_is_judged_from_the_kept_model_without_embedding_again(name, computed, monkeypatch):
+    _, polar = MODEL_GROUPS[name]
+    wrong = "nonpolar" if polar else "polar"
+    text = f"{{{name}: {wrong}}} and {{{name}: {'polar' if polar else 'nonpolar'}}}"
+    rules_only = [(f.code, f.message) for f in _review(text, {})]
+    from notelsp.chem import molecule_geometry
+
+    def no_second_model(molecule):
+        raise AssertionError("the review embedded the molecule again")
+
+    monkeypatch.setattr(molecule_geometry, "whole_molecule_symmetry", no_second_model)
+    with_model = [(f.code, f.message) for f in _review(text, {name: computed[name]})
+                  if f.code == "wrong-polarity"]
+    assert [m for m in rules_only if m[0] == "wrong-polarity"] == with_model
+    assert len(with_model) == 1 and wrong in with_model[0][1]

@@ -199,9 +199,18 @@ def _whole_molecule(context: RuleContext) -> tuple[str, bool, str] | str | None:
     whole = analysis.molecule if analysis is not None and analysis.outside_model is None else None
     if whole is None or len(whole.centres) <= 1:
         return None
-    from ...chem.molecule_geometry import whole_molecule_symmetry  # RDKit's embedding, only when asked
+    computed = context.computed_of(0)
+    if computed is not None and computed.model_unavailable is not None:
+        return computed.model_unavailable
+    if computed is not None and computed.model_point_group is not None:
+        # the model the calculation started from, kept with its result: no second embedding
+        from ...chem.polarity import is_polar
 
-    found = whole_molecule_symmetry(whole.molecule)
+        found: tuple[str, bool] | str = (computed.model_point_group, is_polar(computed.model_point_group))
+    else:
+        from ...chem.molecule_geometry import whole_molecule_symmetry  # RDKit's embedding, only when asked
+
+        found = whole_molecule_symmetry(whole.molecule)
     return found if isinstance(found, str) else (*found, "of the whole molecule, from one 3D model of it")
 
 
