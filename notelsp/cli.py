@@ -85,6 +85,12 @@ def _parser() -> argparse.ArgumentParser:
         action="store_true",
         help="judge by the rules alone, at once: compute no geometries (also NOTELSP_COMPUTE=off)",
     )
+    check.add_argument(
+        "--review-all",
+        action="store_true",
+        help="review every note again, neither reading nor keeping the reports of unchanged notes "
+             "(also NOTELSP_REPORT_CACHE=off)",
+    )
 
     explain = commands.add_parser("explain", help="show the full analysis of one species")
     explain.add_argument("formula", metavar="FORMULA", help="e.g. ClF3, 'SO4^2-', 'HOCl @O'")
@@ -175,6 +181,7 @@ class CheckOptions:
     source_root: str = "."
     stdin_name: str | None = None
     compute: bool = True  # compute each species' geometry (GFN2-xTB) and judge claims against it too
+    remembered: bool = True  # reuse the kept report of a note unchanged since it was reviewed (report_cache.py)
 
 
 def _check_command(args: argparse.Namespace, out: TextIO) -> int:
@@ -202,6 +209,7 @@ def _check_command(args: argparse.Namespace, out: TextIO) -> int:
         source_root=args.source_root,
         stdin_name=args.stdin_name,
         compute=not args.rules_only,
+        remembered=not args.review_all,
     )
     return _check(paths, options, out)
 
@@ -277,16 +285,22 @@ def _check(paths: Sequence[str], options: CheckOptions, out: TextIO) -> int:
     items: list[Any] = []  # in the order reports list them: None for standard input, else a note
     for name in paths:
         items.extend([None] if name == STDIN else found.named[name])
-    notes = sum(item is not None for item in items)
-    workers = 1 if options.output == "html" else _workers_for(notes)  # the page needs whole reviews
-    computed = _computed_for(items, options, settings) if options.compute and not computing_switched_off() else {}
+    cache = _report_cache(options, writer)
+    looked_up = _looked_up(items, options, settings, cache, options.compute and not computing_switched_off())
+    computed = _computed_for(looked_up.wanted, looked_up.computing_hit)
     _computed.clear()
     _computed.update(computed)
+    looked_up.keep_only_whole(computed)
+    misses = [(item, looked_up.remember.get(index)) for index, item in enumerate(items) if index not in looked_up.hits]
+    notes = sum(item is not None for item, _ in misses)
+    workers = 1 if options.output == "html" else _workers_for(notes)  # the page needs whole reviews
     thresholds = gc.get_threshold()
     gc.freeze()  # what the imports made is kept to the end: no collection need walk it
     gc.set_threshold(*BATCH_GC_THRESHOLD)
     try:
-        for item, outcome in _reviewed_items(items, workers, writer, options, settings):
+        outcomes = _reviewed_items([item for item, _ in misses], workers, writer, options, settings,
+                                   [remember for _, remember in misses])
+        for item, outcome in _in_order(items, looked_up.hits, outcomes):
             files, problem, notebook, messages = outcome
             if messages:
                 sys.stderr.write(messages)  # what reading the note said, in a worker, in its place
@@ -303,6 +317,9 @@ def _check(paths: Sequence[str], options: CheckOptions, out: TextIO) -> int:
     finally:
         gc.set_threshold(*thresholds)
         gc.unfreeze()
+    if cache is not None:
+        cache.kept = len(looked_up.remember)
+        cache.finish()
     threshold = FAIL_LEVELS.index(options.fail_level)
     failing = any(writer.tally.findings[level] for level in FAIL_LEVELS[: threshold + 1])
     cannot_run = bool(unreadable)
@@ -356,6 +373,91 @@ def _report_writer(options: CheckOptions, out: TextIO) -> Any:
     return TextWriter(out, options.cautions)  # type: ignore[arg-type]
 
 
+def _report_cache(options: CheckOptions, writer: Any) -> Any:
+    """The kept reports of unchanged notes (notelsp/report_cache.py); None for the page (it needs whole
+    reviews), with --review-all or NOTELSP_REPORT_CACHE=off, or without a cache folder."""
+    if options.output == "html" or not options.remembered:
+        return None
+    from . import report_cache
+
+    where = None if report_cache.switched_off() else report_cache.folder()
+    if where is None:
+        return None
+    return report_cache.ReportCache(where, writer.wants_cautions, writer.wants_annotation_texts)
+
+
+@dataclass
+class _LookedUp:
+    """What reading every note once before any review found (by each note's index among the items)."""
+
+    hits: dict[int, Any]  # the outcome kept for a note unchanged since its report was kept
+    remember: dict[int, Any]  # where a reviewed note's report is to be kept (report_cache.Remembered)
+    wanted: dict[str, None]  # the species the notes to review name, as written, in order
+    named: dict[int, dict[str, None]]  # the species each note to review with computed geometries names
+    computing_hit: bool = False  # a kept report was made with computed geometries
+
+    def keep_only_whole(self, computed: dict[str, Any]) -> None:
+        """A report that used a failed or unfinished calculation may come out otherwise next time: not kept."""
+        for index, named in self.named.items():
+            if index in self.remember and not all(_computed_whole(computed[text]) for text in named if text in computed):
+                del self.remember[index]
+
+
+def _computed_whole(species: Any) -> bool:
+    """Every structure computed to the end, or skipped for a reason of the species itself (species_cache.store's
+    condition for keeping a species: what the same code, versions and limits give again)."""
+    if any(structure.failed is not None for structure in species.structures):
+        return False
+    return (species.skipped is None) != (not species.structures)
+
+
+def _looked_up(items: list, options: CheckOptions, settings: Any, cache: Any, computing: bool) -> _LookedUp:
+    """Each note read once before any review: its kept report when it has one (then it is not scanned or
+    reviewed), else, when geometries are computed for it, the species it names.
+
+    What cannot be read here is reported when it is reviewed; what reading says is printed in the note's place.
+    """
+    import contextlib
+    import io
+
+    found = _LookedUp({}, {}, {}, {})
+    if cache is None and not computing:
+        return found
+    for index, item in enumerate(items):
+        note_settings = settings if item is None else item.settings
+        computes = computing and getattr(note_settings, "compute", True)
+        said = io.StringIO()
+        try:
+            with contextlib.redirect_stderr(said):
+                text, kind = (_read_stdin(), _stdin_kind(options)) if item is None else (_read_note(item), item.kind)
+        except UsageError:
+            continue
+        remember = None
+        if cache is not None and item is not None:  # standard input is not kept
+            path = str(item.path)
+            remember = cache.remembered(path, kind, text, note_settings, computes)
+            kept = None if remember is None else cache.load(remember, path, kind == "notebook")
+            if kept is not None:
+                found.hits[index] = (kept, None, kind == "notebook", said.getvalue())
+                found.computing_hit = found.computing_hit or computes
+                continue
+        if computes:
+            found.named[index] = _species_named(text, kind)
+            found.wanted.update(found.named[index])
+        if remember is not None:
+            found.remember[index] = remember
+    return found
+
+
+def _in_order(items: list, hits: dict[int, Any], reviewed: Any):
+    """Each item with its outcome in the order of ``items``: kept outcomes where there are, the rest reviewed."""
+    try:
+        for index, item in enumerate(items):
+            yield (item, hits.pop(index)) if index in hits else next(reviewed)
+    finally:
+        reviewed.close()  # a pool's workers end when the report stops early
+
+
 class _PageWriter:
     """The reviewer's page shows each annotation beside its findings: it keeps the whole reviews."""
 
@@ -392,7 +494,8 @@ def _workers_for(notes: int) -> int:
     return min(cores, 8) if notes >= POOL_MIN_NOTES else 1
 
 
-def _review_note(note: Any, reported: Any) -> _Outcome:
+def _review_note(note: Any, reported: Any, remember: Any = None) -> _Outcome:
+    """One note's outcome; its report kept where ``remember`` (report_cache.Remembered) says, if given."""
     from .formats import ReviewedFile
 
     try:
@@ -401,11 +504,14 @@ def _review_note(note: Any, reported: Any) -> _Outcome:
         return [], str(problem), False, ""
     if note.kind == "notebook":  # one review per Markdown cell, each report naming its cell
         try:
-            return [reported(cell) for cell in _notebook_reviews(str(note.path), text, note.settings)], None, True, ""
+            files = [reported(cell) for cell in _notebook_reviews(str(note.path), text, note.settings)]
         except UsageError as problem:
             return [], str(problem), True, ""
-    return [reported(ReviewedFile(str(note.path), _reviewed(str(note.path), text, note.kind, note.settings)))], \
-        None, False, ""
+    else:
+        files = [reported(ReviewedFile(str(note.path), _reviewed(str(note.path), text, note.kind, note.settings)))]
+    if remember is not None:
+        remember.keep(text, files)
+    return files, None, note.kind == "notebook", ""
 
 
 def _review_stdin(options: CheckOptions, settings: Any, reported: Any) -> _Outcome:
@@ -426,7 +532,8 @@ def _review_stdin(options: CheckOptions, settings: Any, reported: Any) -> _Outco
         None, False, ""
 
 
-def _review_notes_in_worker(notes: list, wants_cautions: bool, wants_annotation_texts: bool) -> list[_Outcome]:
+def _review_notes_in_worker(notes: list, wants_cautions: bool, wants_annotation_texts: bool,
+                            remember: list | None = None) -> list[_Outcome]:
     """A worker's task: review these notes, return what the report needs of each (no review objects)."""
     import contextlib
     import io
@@ -435,10 +542,10 @@ def _review_notes_in_worker(notes: list, wants_cautions: bool, wants_annotation_
         return reviewed.reported(wants_cautions, wants_annotation_texts)
 
     outcomes = []
-    for note in notes:
+    for note, kept_at in zip(notes, remember or [None] * len(notes)):
         said = io.StringIO()
         with contextlib.redirect_stderr(said):  # e.g. "only its beginning was read": printed by the parent
-            files, problem, notebook, _ = _review_note(note, reported)
+            files, problem, notebook, _ = _review_note(note, reported, kept_at)
         outcomes.append((files, problem, notebook, said.getvalue()))
     return outcomes
 
@@ -453,8 +560,11 @@ def _worker_started(computed: dict | None = None) -> None:
     gc.set_threshold(*BATCH_GC_THRESHOLD)
 
 
-def _reviewed_items(items: list, workers: int, writer: Any, options: CheckOptions, settings: Any):
-    """Each item with its outcome, in order; notes reviewed by ``workers`` processes when more than one."""
+def _reviewed_items(items: list, workers: int, writer: Any, options: CheckOptions, settings: Any,
+                    remember: list | None = None):
+    """Each item with its outcome, in order; notes reviewed by ``workers`` processes when more than one, each
+    report kept where ``remember`` (one place or None per item) says."""
+    remember = remember or [None] * len(items)
     if options.output == "html":
         def reported(reviewed: Any) -> Any:
             return reviewed
@@ -463,13 +573,15 @@ def _reviewed_items(items: list, workers: int, writer: Any, options: CheckOption
             return reviewed.reported(writer.wants_cautions, writer.wants_annotation_texts)
 
     if workers <= 1:
-        for item in items:
-            yield item, (_review_stdin(options, settings, reported) if item is None else _review_note(item, reported))
+        for item, kept_at in zip(items, remember):
+            yield item, (_review_stdin(options, settings, reported) if item is None
+                         else _review_note(item, reported, kept_at))
         return
-    yield from _pooled(items, workers, writer, options, settings, reported)
+    yield from _pooled(items, workers, writer, options, settings, reported, remember)
 
 
-def _pooled(items: list, workers: int, writer: Any, options: CheckOptions, settings: Any, reported: Any):
+def _pooled(items: list, workers: int, writer: Any, options: CheckOptions, settings: Any, reported: Any,
+            remember: list):
     """Notes in tasks of a few to a pool of processes; standard input in this one; outcomes in order."""
     import multiprocessing
     from collections import deque
@@ -481,21 +593,22 @@ def _pooled(items: list, workers: int, writer: Any, options: CheckOptions, setti
     if context.get_start_method() == "forkserver":
         context.set_forkserver_preload(["notelsp.cli", "notelsp.formats", "notelsp.review.document"])
     pool = ProcessPoolExecutor(workers, mp_context=context, initializer=_worker_started, initargs=(dict(_computed),))
-    tasks: list[tuple[Any, list]] = []  # (None, []) for standard input, (None, notes) for a task of notes
-    for item in items:
+    tasks: list[tuple[list, list]] = []  # ([], []) for standard input, (remember, notes) for a task of notes
+    for item, kept_at in zip(items, remember):
         if item is None:
-            tasks.append((None, []))
+            tasks.append(([], []))
         elif tasks and tasks[-1][1] and len(tasks[-1][1]) < NOTES_PER_TASK:
+            tasks[-1][0].append(kept_at)
             tasks[-1][1].append(item)
         else:
-            tasks.append((None, [item]))
+            tasks.append(([kept_at], [item]))
     wanted = (writer.wants_cautions, writer.wants_annotation_texts)
     pending: deque = deque()
     window = 4 * workers  # tasks sent ahead: workers never wait, and results waiting to be written stay few
     finished = False
     try:
-        for _, notes in tasks:
-            pending.append((notes, pool.submit(_review_notes_in_worker, notes, *wanted) if notes else None))
+        for kept_at, notes in tasks:
+            pending.append((notes, pool.submit(_review_notes_in_worker, notes, *wanted, kept_at) if notes else None))
             while len(pending) > window:
                 yield from _task_outcomes(*pending.popleft(), options, settings, reported)
         while pending:
@@ -643,37 +756,24 @@ def _computed_with(settings: Any) -> dict[str, Any]:
     return _computed if getattr(settings, "compute", True) else {}
 
 
-def _computed_for(items: list, options: CheckOptions, settings: Any) -> dict[str, Any]:
-    """Every species the notes name, computed (from the disk cache where it can) over every core.
+def _computed_for(wanted: dict[str, None], computing_hit: bool = False) -> dict[str, Any]:
+    """Every species the notes to review name (``_looked_up``), computed (from the disk cache where it can)
+    over every core.
 
-    Reading the notes twice (once here for their species, once to review them) keeps the review
-    streaming; what cannot be read here is reported when it is reviewed.
+    Reading the notes twice (once for their species, once to review them) keeps the review streaming.
+    ``computing_hit``: a kept report was made with computing on, so a missing package is said still.
     """
-    import contextlib
-    import io
-
-    from .compute import species_cache
-    from .notation import scan
-
-    # Each species as written (Formula.written: a SMILES or a named centre, HOCl @O, is computed as what
-    # it is), which is also the key review_text's ``computed`` reads.
-    wanted: dict[str, None] = {}
-    with contextlib.redirect_stderr(io.StringIO()):  # what reading a note says is printed when it is reviewed
-        for item in items:
-            if not getattr(settings if item is None else item.settings, "compute", True):
-                continue  # its settings file says compute = false
-            for text, kind in _texts_of(item, options):
-                for entry in scan(text, kind).found:
-                    for formula in entry[4].formulas:
-                        wanted.setdefault(formula.written, None)
-    if not wanted:
+    if not wanted and not computing_hit:
         return {}
+    from .compute import species_cache
     from .compute.method import missing_packages
 
     missing = missing_packages()
     if missing:
         print(f"notelsp: computing no geometries ({' and '.join(missing)} not installed); the rules judge alone",
               file=sys.stderr)
+        return {}
+    if not wanted:
         return {}
     # species cached whole are read without the pool (no chemistry, no worker processes)
     found = species_cache.load_many(list(wanted))
@@ -690,26 +790,28 @@ def _computed_for(items: list, options: CheckOptions, settings: Any) -> dict[str
     return {text: found[text] for text in wanted}
 
 
-def _texts_of(item: Any, options: CheckOptions) -> list[tuple[str, str]]:
-    """(text, kind) of each part of a note that is reviewed on its own (a notebook's cells); [] if unreadable."""
+def _species_named(text: str, kind: str) -> dict[str, None]:
+    """Each species a note names as written (Formula.written: a SMILES or a named centre, HOCl @O, is computed
+    as what it is), which is also the key review_text's ``computed`` reads; a notebook's by its cells."""
+    from .notation import scan
+
+    parts = [(text, kind)]
+    if kind == "notebook":
+        from .notation.notebook import NotebookError, markdown_cells
+
+        try:
+            parts = [(cell.source, "markdown") for cell in markdown_cells(text)]
+        except NotebookError:
+            return {}
+    return {formula.written: None for part, part_kind in parts for entry in scan(part, part_kind).found
+            for formula in entry[4].formulas}
+
+
+def _stdin_kind(options: CheckOptions) -> str:
     from .review.document import kind_of_path
 
-    try:
-        if item is None:
-            name = options.stdin_name or STDIN_NAME
-            text, kind = _read_stdin(), ("notebook" if name.lower().endswith(".ipynb") else kind_of_path(name))
-        else:
-            text, kind = _read_note(item), item.kind
-        if kind == "notebook":
-            from .notation.notebook import NotebookError, markdown_cells
-
-            try:
-                return [(cell.source, "markdown") for cell in markdown_cells(text)]
-            except NotebookError:
-                return []
-        return [(text, kind)]
-    except UsageError:
-        return []
+    name = options.stdin_name or STDIN_NAME
+    return "notebook" if name.lower().endswith(".ipynb") else kind_of_path(name)
 
 
 class _Progress:

@@ -1,0 +1,436 @@
+"""Each note's report as ``check`` last wrote it, kept on disk, so a note that has not changed is not reviewed again.
+
+One small JSON file per note in ``$NOTELSP_CACHE_DIR/reports``, else in the ``reports`` folder of the
+user's cache (``user_cache.cache_folder()``), named by the hash of everything the note's report
+depends on: this format, a fingerprint of all of notelsp's installed files and the grammar (size and
+modification time of each), the Python version and the versions of the packages that decide
+findings, the note's path as reports show it, its kind, a hash of its text as reviewed, every field
+of its settings, what the report writer asks of each file (cautions, annotation texts) and whether
+geometries are computed for it (then also the method, its versions and limits). A report that used
+computed geometries is kept only when every species it names was computed whole: a failure or a
+structure cut short by a limit may come out otherwise next time.
+
+Entries are read as the compute cache reads its own: a regular file (no link followed), the user's own
+and written by no one else, of bounded size, parsed as JSON only after its nesting depth is checked
+(never pickle or marshal, never executed), and every field checked; anything off is a miss, the note is
+reviewed and its entry written again. Writing is a temporary file renamed into place; a folder that cannot
+be written is no error. Past ``MAX_ENTRIES`` files the least recently used are removed, at the end of a run
+that wrote entries, when a small counter file says the cap may have been passed. Safe to delete at any time.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import os
+import re
+import stat
+import sys
+from dataclasses import dataclass, fields
+from enum import Enum
+from functools import lru_cache
+from pathlib import Path
+from typing import Any
+
+from .formats import ReportedFile, ReportedFinding, ReportedFix
+from .review.findings import Severity
+from .user_cache import cache_folder, trusted
+
+FORMAT = 1  # bump when an entry changes shape or meaning
+FOLDER_NAME = "reports"
+SWITCH_VARIABLE = "NOTELSP_REPORT_CACHE"  # "off" (or 0, false, no): no report is read or kept
+# Packages whose code or data decide findings (element data, SMILES, the grammar's parser, isomers and fits).
+DECIDING_PACKAGES = ("mendeleev", "rdkit", "lark", "numpy")
+
+MAX_ENTRY_BYTES = 8 * 1024 * 1024  # a note of 4,000 findings writes about 1 MB; a larger report is not kept
+MAX_NESTING = 8  # entry -> files -> file -> findings -> finding -> fixes -> fix -> region
+MAX_FILES = 10_000  # a notebook's Markdown cells
+MAX_STRING = 1_000_000  # an annotation's text, a replacement, a message (the entry's size bounds them all)
+MAX_POSITION = 1 << 31
+MAX_ENTRIES = 50_000
+PRUNE_TO = 0.9  # of MAX_ENTRIES, so pruning does not come back on the next run
+STALE_TEMPORARY_S = 3600.0  # a temporary file this old belongs to a writer that died
+COUNTER_NAME = "written"  # entries at the last count and entries written since, as two numbers
+
+_ENTRY_NAME = re.compile(r"[0-9a-f]{32}\.json")
+_CODE = re.compile(r"[a-z0-9]+(?:-[a-z0-9]+)*")
+_SEVERITIES = frozenset(severity.value for severity in Severity)
+_NONBLOCKING = getattr(os, "O_NONBLOCK", 0) | getattr(os, "O_NOFOLLOW", 0) | getattr(os, "O_BINARY", 0)
+
+
+class BadEntry(ValueError):
+    """An entry that is not a report this run can use (the reason, for tests)."""
+
+
+def switched_off() -> bool:
+    return os.environ.get(SWITCH_VARIABLE, "").strip().lower() in ("off", "0", "false", "no")
+
+
+def folder() -> Path | None:
+    """``$NOTELSP_CACHE_DIR/reports`` (as the compute cache honours it), else the user's cache's ``reports``."""
+    override = os.environ.get("NOTELSP_CACHE_DIR")
+    if override:
+        return Path(override) / FOLDER_NAME
+    base = cache_folder()
+    return None if base is None else base / FOLDER_NAME
+
+
+# --- the key ---------------------------------------------------------------------------------
+
+
+@lru_cache(maxsize=1)
+def code_fingerprint() -> str:
+    """Size and modification time of every file of the installed package and of the grammar, the Python
+    version and the versions of the packages that decide findings: computed once per process."""
+    from .compute.method import installed_version
+
+    package = Path(__file__).resolve().parent
+    seen = [sys.version]
+    for where, folders, names in os.walk(package):
+        folders[:] = sorted(f for f in folders if f != "__pycache__")
+        for name in sorted(names):
+            seen.append(_stat_text(Path(where, name), package.parent))
+    grammar = package.parent / "grammar" / "notation.lark"  # a source tree's grammar (editable install)
+    seen.append(_stat_text(grammar, package.parent))
+    seen.extend(f"{name} {installed_version(name) or 'missing'}" for name in DECIDING_PACKAGES)
+    return hashlib.sha256("\n".join(seen).encode("utf-8", "surrogatepass")).hexdigest()
+
+
+def _stat_text(path: Path, base: Path) -> str:
+    try:
+        status = path.stat()
+    except OSError:
+        return f"{path.relative_to(base)} absent"
+    return f"{path.relative_to(base)} {status.st_size} {status.st_mtime_ns}"
+
+
+@lru_cache(maxsize=1)
+def _computing_key() -> str:
+    """The method, its versions and every limit of one calculation: what computed species follow from."""
+    from .compute.method import METHOD, Limits, versions
+
+    limits = Limits()
+    return _json([METHOD, [list(v) for v in versions()], [[f.name, getattr(limits, f.name)] for f in fields(limits)]])
+
+
+@lru_cache(maxsize=64)  # a run meets a few settings files
+def _settings_key(settings: Any) -> str | None:
+    """Every field of ``settings`` in a canonical form (sets sorted, severities as text); None when one
+    holds something this cannot write faithfully (then nothing is kept for the note)."""
+    if not hasattr(settings, "__dataclass_fields__"):
+        return None
+    try:
+        return _json([[f.name, _canonical(getattr(settings, f.name))] for f in fields(settings)])
+    except (TypeError, ValueError):
+        return None
+
+
+def _canonical(value: Any) -> Any:
+    if isinstance(value, Enum):
+        return _canonical(value.value)
+    if value is None or isinstance(value, (bool, int, float, str)):
+        return value
+    if isinstance(value, (frozenset, set)):
+        return sorted((_canonical(v) for v in value), key=_json)
+    if isinstance(value, (tuple, list)):
+        return [_canonical(v) for v in value]
+    raise TypeError(f"cannot key a {type(value).__name__}")
+
+
+def _json(value: Any) -> str:
+    import json
+
+    return json.dumps(value, allow_nan=False, separators=(",", ":"))
+
+
+def text_digest(text: str) -> str:
+    return hashlib.sha256(text.encode("utf-8", "surrogatepass")).hexdigest()
+
+
+@dataclass(frozen=True)
+class Remembered:
+    """Where one note's report is kept and the digest of the text it is the report of (picklable: a
+    worker that reviews the note writes the entry)."""
+
+    folder: str
+    key: str  # the hex digest of the whole key; the file is named by its first 32 digits
+    text: str  # the digest of the note's text as looked up
+
+    @property
+    def path(self) -> Path:
+        return Path(self.folder, f"{self.key[:32]}.json")
+
+    def keep(self, text: str, files: list[ReportedFile]) -> bool:
+        """Write the report of ``text`` if it is the text looked up (a note edited between the lookup
+        and the review is not kept: the lookup's key does not describe it). False when not written."""
+        if text_digest(text) != self.text:
+            return False
+        try:
+            data = _json({"format": FORMAT, "key": self.key, "files": [_file_list(f) for f in files]})
+        except (TypeError, ValueError):
+            return False
+        if len(data) > MAX_ENTRY_BYTES:
+            return False
+        return write_whole(self.path, data.encode("ascii"))  # json.dumps escapes all but ASCII, surrogates too
+
+
+def _file_list(file: ReportedFile) -> list:
+    return [file.path, file.cell, file.annotations,
+            [[list(f.region), f.severity, f.code, f.message, f.formula, f.claim,
+              [[x.title, x.replacement, list(x.region)] for x in f.fixes], f.annotation] for f in file.findings],
+            [list(pair) for pair in file.cautions]]
+
+
+class ReportCache:
+    """The report cache as one ``check`` run uses it: what the writer asks for is fixed for the run."""
+
+    def __init__(self, where: Path, wants_cautions: bool, wants_annotation_texts: bool) -> None:
+        self.folder = where
+        self.wants_cautions = wants_cautions
+        self.wants_annotation_texts = wants_annotation_texts
+        self._run = _json([FORMAT, code_fingerprint(), wants_cautions, wants_annotation_texts])
+        self.kept = 0  # entries asked to be written (an estimate from above, for pruning)
+
+    def remembered(self, path: str, kind: str, text: str, settings: Any, computes: bool) -> Remembered | None:
+        """The place of this note's report (None when its settings cannot be keyed)."""
+        settings_key = _settings_key(settings)
+        if settings_key is None:
+            return None
+        digest = text_digest(text)
+        key = _json([self._run, settings_key, _computing_key() if computes else None, path, kind, digest])
+        return Remembered(str(self.folder), hashlib.sha256(key.encode("ascii")).hexdigest(), digest)
+
+    def load(self, remembered: Remembered, path: str, notebook: bool) -> list[ReportedFile] | None:
+        """The kept report for ``remembered``, or None when absent or unusable (then the note is reviewed)."""
+        data = read_entry(remembered.path)
+        if data is None:
+            return None
+        try:
+            return parse_entry(data, remembered.key, path, notebook, self.wants_cautions, self.wants_annotation_texts)
+        except BadEntry:
+            return None
+
+    def finish(self) -> None:
+        """Once the run has written its entries: remove the oldest when the count says the cap may be passed."""
+        if self.kept:
+            prune_if_due(self.folder, self.kept)
+
+
+# --- reading ---------------------------------------------------------------------------------
+
+
+def read_entry(path: Path, limit: int = MAX_ENTRY_BYTES) -> bytes | None:
+    """The bytes of an entry that is a regular file (no link), the user's own, of at most ``limit`` bytes.
+
+    Its modification time is set to now (through the open file), so pruning removes the least recently used.
+    """
+    try:
+        descriptor = os.open(path, os.O_RDONLY | _NONBLOCKING)
+    except OSError:
+        return None
+    try:
+        status = os.fstat(descriptor)
+        if not trusted(status) or status.st_size > limit:
+            return None
+        chunks, size = [], 0
+        while size <= limit:
+            chunk = os.read(descriptor, limit + 1 - size)
+            if not chunk:
+                break
+            chunks.append(chunk)
+            size += len(chunk)
+        if size > limit:
+            return None
+        if os.utime in os.supports_fd:
+            try:
+                os.utime(descriptor)
+            except OSError:
+                pass  # a read-only folder: the entry is still good
+        return b"".join(chunks)
+    except OSError:
+        return None
+    finally:
+        os.close(descriptor)
+
+
+def parse_entry(data: bytes, key: str, path: str, notebook: bool, wants_cautions: bool,
+                wants_annotation_texts: bool) -> list[ReportedFile]:
+    """The files of an entry if it is well formed, is the entry for ``key`` and describes ``path``; else BadEntry."""
+    from .notefiles import bounded_json
+
+    try:
+        payload = bounded_json(data, MAX_NESTING)
+    except ValueError as error:
+        raise BadEntry(str(error)) from error
+    if not isinstance(payload, dict) or set(payload) != {"format", "key", "files"}:
+        raise BadEntry("not an entry")
+    if payload["format"] != FORMAT or payload["key"] != key:
+        raise BadEntry("an entry of another format or key")
+    listed = payload["files"]
+    if not isinstance(listed, list) or not 1 <= len(listed) <= MAX_FILES:
+        raise BadEntry("not a list of files")
+    files = [_file(item, path, wants_cautions, wants_annotation_texts) for item in listed]
+    cells = [f.cell for f in files]
+    if notebook:
+        whole = cells == [None]  # a notebook without Markdown cells is listed once, as a file
+        if not whole and (None in cells or any(a >= b for a, b in zip(cells, cells[1:]))):
+            raise BadEntry("a notebook's cells are not in order")
+    elif cells != [None]:
+        raise BadEntry("a note is one file")
+    return files
+
+
+def _file(item: Any, path: str, wants_cautions: bool, wants_annotation_texts: bool) -> ReportedFile:
+    if not isinstance(item, list) or len(item) != 5:
+        raise BadEntry("a file is not five fields")
+    name, cell, annotations, findings, cautions = item
+    if name != path:
+        raise BadEntry("a file of another path")
+    if cell is not None and not _count(cell, 1):
+        raise BadEntry("a cell is not a positive number")
+    if not _count(annotations, 0):
+        raise BadEntry("annotations is not a count")
+    if not isinstance(findings, list) or not isinstance(cautions, list):
+        raise BadEntry("findings or cautions are not lists")
+    if cautions and not wants_cautions:
+        raise BadEntry("cautions the report does not show")
+    return ReportedFile(name, cell, annotations,
+                        tuple(_finding(f, wants_annotation_texts) for f in findings),
+                        tuple(_caution(c) for c in cautions))
+
+
+def _finding(item: Any, wants_annotation_texts: bool) -> ReportedFinding:
+    if not isinstance(item, list) or len(item) != 8:
+        raise BadEntry("a finding is not eight fields")
+    region, severity, code, message, formula, claim, fixes, annotation = item
+    if severity not in _SEVERITIES:
+        raise BadEntry("an unknown severity")
+    if not isinstance(code, str) or len(code) > 100 or not _CODE.fullmatch(code):
+        raise BadEntry("a rule code is not kebab-case")
+    if not isinstance(fixes, list):
+        raise BadEntry("fixes are not a list")
+    annotation = _string(annotation)
+    if annotation and not wants_annotation_texts:
+        raise BadEntry("an annotation's text the report does not show")
+    return ReportedFinding(_region(region), severity, code, _string(message), _optional(formula), _optional(claim),
+                           tuple(_fix(x) for x in fixes), annotation)
+
+
+def _fix(item: Any) -> ReportedFix:
+    if not isinstance(item, list) or len(item) != 3:
+        raise BadEntry("a fix is not three fields")
+    return ReportedFix(_string(item[0]), _string(item[1]), _region(item[2]))
+
+
+def _caution(item: Any) -> tuple[str, str]:
+    if not isinstance(item, list) or len(item) != 2:
+        raise BadEntry("a caution is not a formula and a text")
+    return _string(item[0]), _string(item[1])
+
+
+def _region(item: Any) -> tuple[int, int, int, int]:
+    if not isinstance(item, list) or len(item) != 4 or not all(_count(n, 1) for n in item):
+        raise BadEntry("a region is not four positive numbers")
+    line, column, end_line, end_column = item
+    if (end_line, end_column) < (line, column):
+        raise BadEntry("a region ends before it starts")
+    return line, column, end_line, end_column
+
+
+def _count(value: Any, least: int) -> bool:
+    return type(value) is int and least <= value < MAX_POSITION
+
+
+def _string(value: Any) -> str:
+    if not isinstance(value, str) or len(value) > MAX_STRING:
+        raise BadEntry("not a string of bounded length")
+    return value
+
+
+def _optional(value: Any) -> str | None:
+    return None if value is None else _string(value)
+
+
+# --- writing and pruning ---------------------------------------------------------------------
+
+
+def write_whole(path: Path, data: bytes) -> bool:
+    """Write the file whole or not at all (a ``.entry-`` temporary file, the user's only, renamed into
+    place); False when the folder cannot be written. Never raises for the disk."""
+    temporary = path.with_name(f".entry-{os.getpid()}-{os.urandom(6).hex()}.tmp")
+    try:
+        path.parent.mkdir(mode=0o700, parents=True, exist_ok=True)
+        descriptor = os.open(temporary, os.O_WRONLY | os.O_CREAT | os.O_EXCL | getattr(os, "O_NOFOLLOW", 0), 0o600)
+    except OSError:
+        return False
+    try:
+        with os.fdopen(descriptor, "wb") as handle:
+            handle.write(data)
+        os.replace(temporary, path)
+        return True
+    except OSError:
+        _remove(temporary)
+        return False
+
+
+def prune_if_due(where: Path, written: int, cap: int | None = None) -> int:
+    """Count ``written`` new entries; past the cap (as the counter estimates it from above), remove the
+    least recently used down to ``PRUNE_TO`` of it. The number removed."""
+    cap = MAX_ENTRIES if cap is None else cap
+    counted = _read_counter(where / COUNTER_NAME)
+    if counted is not None and counted[0] + counted[1] + written <= cap:
+        _write_counter(where / COUNTER_NAME, counted[0], counted[1] + written)
+        return 0
+    remaining, removed = prune(where, int(cap * PRUNE_TO))
+    _write_counter(where / COUNTER_NAME, remaining, 0)
+    return removed
+
+
+def prune(where: Path, keep: int) -> tuple[int, int]:
+    """Remove the least recently used entries past ``keep`` and temporary files of writers that died;
+    (entries left, entries removed)."""
+    import time
+
+    entries = []
+    now = time.time()
+    try:
+        with os.scandir(where) as found:
+            for item in found:
+                try:
+                    status = item.stat(follow_symlinks=False)
+                except OSError:
+                    continue
+                if not stat.S_ISREG(status.st_mode):
+                    continue
+                if item.name.startswith(".entry-") and now - status.st_mtime > STALE_TEMPORARY_S:
+                    _remove(Path(item.path))
+                elif _ENTRY_NAME.fullmatch(item.name):
+                    entries.append((status.st_mtime_ns, item.path))
+    except OSError:
+        return 0, 0
+    entries.sort()
+    removed = 0
+    for _, path in entries[: max(len(entries) - keep, 0)]:
+        removed += _remove(Path(path))
+    return len(entries) - removed, removed
+
+
+def _read_counter(path: Path) -> tuple[int, int] | None:
+    data = read_entry(path, 64)
+    if data is None:
+        return None
+    parts = data.split()
+    if len(parts) != 2 or not all(part.isdigit() and len(part) <= 12 for part in parts):
+        return None
+    return int(parts[0]), int(parts[1])
+
+
+def _write_counter(path: Path, entries: int, written: int) -> None:
+    write_whole(path, f"{entries} {written}\n".encode("ascii"))
+
+
+def _remove(path: Path) -> bool:
+    try:
+        path.unlink()
+        return True
+    except OSError:
+        return False
