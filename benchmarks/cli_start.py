@@ -17,7 +17,10 @@ read it from the disk cache (``~/.cache/notelsp``), as every check after a note'
 first does. ``cli_start_rules_only_ratio`` is the same note with ``--rules-only``
 (no geometry asked for at all). ``cli_start_compiling_ratio`` is the default check
 with ``NOTELSP_DATACLASS_CODE=off``: the dataclasses' methods compiled in every start,
-as before ``notelsp/dataclass_code.py`` kept their compiled code.
+as before ``notelsp/dataclass_code.py`` kept their compiled code. All of these review
+the note (``NOTELSP_REPORT_CACHE=off``), as a check after an edit must;
+``cli_start_unchanged_ratio`` is the same check of the unchanged note with the report
+cache on (``notelsp/report_cache.py``): the report of the run before, read back.
 
 All three are whole processes, timed from spawn to exit, alternated so that a busy
 moment of the machine slows them alike; one untimed run of each first (the
@@ -78,12 +81,15 @@ def measure(runs: int = RUNS) -> dict[str, str]:
         Path(folder, "one.md").write_text(ONE_NOTE, encoding="utf-8")
         env = {k: v for k, v in os.environ.items() if k not in ("PYTHONDONTWRITEBYTECODE", "PYTHONPATH")}
         env["PYTHONPYCACHEPREFIX"] = str(Path(folder, "bytecode"))
+        unchanged = dict(env)  # the report cache on: the note's report from the run before
+        env["NOTELSP_REPORT_CACHE"] = "off"  # every other check reviews the note, as after an edit
         script = str(python.parent / "notelsp")
         compiling = {**env, "NOTELSP_DATACLASS_CODE": "off"}  # dataclasses' methods compiled in every start
         commands = {
             "check": ([script, "check", "one.md"], env),
             "rules_only": ([script, "check", "--rules-only", "one.md"], env),
             "check_compiling": ([script, "check", "one.md"], compiling),
+            "check_unchanged": ([script, "check", "one.md"], unchanged),
             "bare": ([str(python), "-c", "pass"], env),
         }
         for command, environment in commands.values():  # untimed: geometry computed and cached, bytecode written
@@ -106,6 +112,8 @@ def measure(runs: int = RUNS) -> dict[str, str]:
         "cli_start_rules_only_cpu_ratio": f"{cpu['rules_only'] / cpu['bare']:.1f}",
         "cli_check_compiling_ms": f"{wall['check_compiling'] * 1e3:.0f}",
         "cli_start_compiling_ratio": f"{wall['check_compiling'] / wall['bare']:.1f}",
+        "cli_check_unchanged_ms": f"{wall['check_unchanged'] * 1e3:.0f}",
+        "cli_start_unchanged_ratio": f"{wall['check_unchanged'] / wall['bare']:.1f}",
     }
 
 
