@@ -15,6 +15,12 @@ the check.
 ``repo_rss_mb_1000`` is the peak at 1,000 notes (its first third), beside it:
 reports keep no review once its file is written, so what still grows is the
 review layer's caches of distinct texts, each capped, until they are full.
+
+``repo_ratio`` is the first check, with the report cache (``notelsp/report_cache.py``)
+empty: a cache folder of the benchmark's own, fresh, so every note is reviewed.
+``repo_ratio_unchanged`` and ``repo_rss_mb_unchanged`` are the same command run
+again over the unchanged notes, each answered from the report kept for it, CPU
+divided by the same floor.
 """
 
 from __future__ import annotations
@@ -186,16 +192,19 @@ def _child_usage(command: list[str], cwd: str, env: dict[str, str] | None = None
 
 
 def measure(notes: int = NOTES, small: int = 1_000) -> dict[str, str]:
-    env = {k: v for k, v in os.environ.items() if k != "PYTHONDONTWRITEBYTECODE"}
+    env = {k: v for k, v in os.environ.items() if k not in ("PYTHONDONTWRITEBYTECODE", "NOTELSP_REPORT_CACHE")}
     with tempfile.TemporaryDirectory() as folder:
         env["PYTHONPYCACHEPREFIX"] = str(Path(folder, "bytecode"))
+        env["NOTELSP_CACHE_DIR"] = str(Path(folder, "cache"))  # the kept reports: this run's own, empty
         repo = Path(folder, "repo")
         paths = make_repo(repo, notes)
         # the rules' review only: GFN2-xTB geometries have figures of their own (compute.py)
         check = [*notelsp_command(), "check", "repo", "--format", "json", "--rules-only"]
-        _child_usage([*notelsp_command(), "check", str(paths[0]), "--rules-only"], folder, env)  # bytecode, parser cache
+        # bytecode, parser cache; --review-all keeps no report, so the first check below starts from none
+        _child_usage([*notelsp_command(), "check", str(paths[0]), "--rules-only", "--review-all"], folder, env)
         floors = [regex_floor_s("repo", folder, env) for _ in range(3)]
         usage = _child_usage(check, folder, env)
+        unchanged = _child_usage(check, folder, env)  # every note's report kept by the first
         floor = min(*floors, regex_floor_s("repo", folder, env))  # best of four, on both sides of the check
         small_repo = Path(folder, "small")
         small_repo.mkdir()
@@ -212,6 +221,9 @@ def measure(notes: int = NOTES, small: int = 1_000) -> dict[str, str]:
         "repo_floor_s": f"{floor:.3f}",
         "repo_ratio": f"{usage['cpu_s'] / floor:.1f}",
         "repo_rss_mb": f"{usage['maxrss_kb'] / 1024:.0f}",
+        "repo_check_cpu_s_unchanged": f"{unchanged['cpu_s']:.2f}",
+        "repo_ratio_unchanged": f"{unchanged['cpu_s'] / floor:.1f}",
+        "repo_rss_mb_unchanged": f"{unchanged['maxrss_kb'] / 1024:.0f}",
         f"repo_rss_mb_{small}": f"{small_usage['maxrss_kb'] / 1024:.0f}",
     }
 

@@ -156,8 +156,8 @@ class Remembered:
     text: str  # the digest of the note's text as looked up
 
     @property
-    def path(self) -> Path:
-        return Path(self.folder, f"{self.key[:32]}.json")
+    def path(self) -> str:
+        return os.path.join(self.folder, f"{self.key[:32]}.json")
 
     def keep(self, text: str, files: list[ReportedFile]) -> bool:
         """Write the report of ``text`` if it is the text looked up (a note edited between the lookup
@@ -218,7 +218,7 @@ class ReportCache:
 # --- reading ---------------------------------------------------------------------------------
 
 
-def read_entry(path: Path, limit: int = MAX_ENTRY_BYTES) -> bytes | None:
+def read_entry(path: str | Path, limit: int = MAX_ENTRY_BYTES) -> bytes | None:
     """The bytes of an entry that is a regular file (no link), the user's own, of at most ``limit`` bytes.
 
     Its modification time is set to now (through the open file), so pruning removes the least recently used.
@@ -255,18 +255,20 @@ def read_entry(path: Path, limit: int = MAX_ENTRY_BYTES) -> bytes | None:
 def parse_entry(data: bytes, key: str, path: str, notebook: bool, wants_cautions: bool,
                 wants_annotation_texts: bool) -> list[ReportedFile]:
     """The files of an entry if it is well formed, is the entry for ``key`` and describes ``path``; else BadEntry."""
-    from .notefiles import bounded_json
+    import json
 
+    if not nested_at_most(data, MAX_NESTING):
+        raise BadEntry(f"nested deeper than {MAX_NESTING}")
     try:
-        payload = bounded_json(data, MAX_NESTING)
-    except ValueError as error:
-        raise BadEntry(str(error)) from error
-    if not isinstance(payload, dict) or set(payload) != {"format", "key", "files"}:
+        payload = json.loads(data.decode("ascii"))  # written as ASCII: anything else is not an entry of ours
+    except (ValueError, RecursionError) as error:
+        raise BadEntry("not JSON") from error
+    if type(payload) is not dict or payload.keys() != {"format", "key", "files"}:
         raise BadEntry("not an entry")
     if payload["format"] != FORMAT or payload["key"] != key:
         raise BadEntry("an entry of another format or key")
     listed = payload["files"]
-    if not isinstance(listed, list) or not 1 <= len(listed) <= MAX_FILES:
+    if type(listed) is not list or not 1 <= len(listed) <= MAX_FILES:
         raise BadEntry("not a list of files")
     files = [_file(item, path, wants_cautions, wants_annotation_texts) for item in listed]
     cells = [f.cell for f in files]
@@ -279,86 +281,109 @@ def parse_entry(data: bytes, key: str, path: str, notebook: bool, wants_cautions
     return files
 
 
+_ALL_BUT_BRACKETS = bytes(b for b in range(256) if b not in b"[]{}")
+
+
+def nested_at_most(data: bytes, most: int) -> bool:
+    """Whether the JSON ``data`` nests its arrays and objects at most ``most`` deep (a deeper one at most twice
+    that may pass; nothing deeper does), found without parsing, before ``json.loads`` recurses into it.
+
+    Strings are taken out first (their escaped backslashes and quotes, then everything between quotes); each
+    round then removes the empty pairs of brackets, at least one level and at most two. Unbalanced brackets
+    are never left empty: such text is no JSON and is refused.
+    """
+    plain = data.replace(b"\\\\", b"").replace(b'\\"', b"")
+    brackets = b"".join(plain.split(b'"')[::2]).translate(None, _ALL_BUT_BRACKETS)
+    for _ in range(most):
+        if not brackets:
+            return True
+        brackets = brackets.replace(b"[]", b"").replace(b"{}", b"")
+    return not brackets
+
+
 def _file(item: Any, path: str, wants_cautions: bool, wants_annotation_texts: bool) -> ReportedFile:
-    if not isinstance(item, list) or len(item) != 5:
+    if type(item) is not list or len(item) != 5:
         raise BadEntry("a file is not five fields")
     name, cell, annotations, findings, cautions = item
     if name != path:
         raise BadEntry("a file of another path")
-    if cell is not None and not _count(cell, 1):
+    if cell is not None and not (type(cell) is int and 0 < cell < MAX_POSITION):
         raise BadEntry("a cell is not a positive number")
-    if not _count(annotations, 0):
+    if not (type(annotations) is int and 0 <= annotations < MAX_POSITION):
         raise BadEntry("annotations is not a count")
-    if not isinstance(findings, list) or not isinstance(cautions, list):
+    if type(findings) is not list or type(cautions) is not list:
         raise BadEntry("findings or cautions are not lists")
     if cautions and not wants_cautions:
         raise BadEntry("cautions the report does not show")
-    return ReportedFile(name, cell, annotations,
-                        tuple(_finding(f, wants_annotation_texts) for f in findings),
-                        tuple(_caution(c) for c in cautions))
+    return ReportedFile(name, cell, annotations, tuple([_finding(f, wants_annotation_texts) for f in findings]),
+                        tuple([_caution(c) for c in cautions]))
 
 
 def _finding(item: Any, wants_annotation_texts: bool) -> ReportedFinding:
-    if not isinstance(item, list) or len(item) != 8:
+    """One finding, checked field by field (inline: a warm check reads tens of thousands)."""
+    if type(item) is not list or len(item) != 8:
         raise BadEntry("a finding is not eight fields")
     region, severity, code, message, formula, claim, fixes, annotation = item
-    if severity not in _SEVERITIES:
+    if type(severity) is not str or severity not in _SEVERITIES:
         raise BadEntry("an unknown severity")
-    if not isinstance(code, str) or len(code) > 100 or not _CODE.fullmatch(code):
+    if type(code) is not str or len(code) > 100 or not _CODE.fullmatch(code):
         raise BadEntry("a rule code is not kebab-case")
-    if not isinstance(fixes, list):
-        raise BadEntry("fixes are not a list")
-    annotation = _string(annotation)
+    if type(message) is not str or len(message) > MAX_STRING or type(annotation) is not str \
+            or len(annotation) > MAX_STRING:
+        raise BadEntry("a message or an annotation is not a string of bounded length")
+    if (formula is not None and (type(formula) is not str or len(formula) > MAX_STRING)) \
+            or (claim is not None and (type(claim) is not str or len(claim) > MAX_STRING)):
+        raise BadEntry("a formula or a claim is not a string of bounded length")
     if annotation and not wants_annotation_texts:
         raise BadEntry("an annotation's text the report does not show")
-    return ReportedFinding(_region(region), severity, code, _string(message), _optional(formula), _optional(claim),
-                           tuple(_fix(x) for x in fixes), annotation)
+    if type(fixes) is not list:
+        raise BadEntry("fixes are not a list")
+    return ReportedFinding(_region(region), severity, code, message, formula, claim,
+                           tuple([_fix(x) for x in fixes]) if fixes else (), annotation)
 
 
 def _fix(item: Any) -> ReportedFix:
-    if not isinstance(item, list) or len(item) != 3:
+    if type(item) is not list or len(item) != 3:
         raise BadEntry("a fix is not three fields")
-    return ReportedFix(_string(item[0]), _string(item[1]), _region(item[2]))
+    title, replacement, region = item
+    if type(title) is not str or type(replacement) is not str or len(title) > MAX_STRING \
+            or len(replacement) > MAX_STRING:
+        raise BadEntry("a fix's title or replacement is not a string of bounded length")
+    return ReportedFix(title, replacement, _region(region))
 
 
 def _caution(item: Any) -> tuple[str, str]:
-    if not isinstance(item, list) or len(item) != 2:
+    if type(item) is not list or len(item) != 2:
         raise BadEntry("a caution is not a formula and a text")
-    return _string(item[0]), _string(item[1])
+    formula, caution = item
+    if type(formula) is not str or type(caution) is not str or len(formula) > MAX_STRING \
+            or len(caution) > MAX_STRING:
+        raise BadEntry("a caution is not two strings of bounded length")
+    return formula, caution
 
 
 def _region(item: Any) -> tuple[int, int, int, int]:
-    if not isinstance(item, list) or len(item) != 4 or not all(_count(n, 1) for n in item):
-        raise BadEntry("a region is not four positive numbers")
+    if type(item) is not list or len(item) != 4:
+        raise BadEntry("a region is not four numbers")
     line, column, end_line, end_column = item
-    if (end_line, end_column) < (line, column):
-        raise BadEntry("a region ends before it starts")
+    if type(line) is not int or type(column) is not int or type(end_line) is not int or type(end_column) is not int:
+        raise BadEntry("a region is not four whole numbers")
+    if not (0 < line <= end_line < MAX_POSITION and 0 < column < MAX_POSITION and 0 < end_column < MAX_POSITION) \
+            or (line == end_line and end_column < column):
+        raise BadEntry("a region is not four positive numbers, its end after its start")
     return line, column, end_line, end_column
-
-
-def _count(value: Any, least: int) -> bool:
-    return type(value) is int and least <= value < MAX_POSITION
-
-
-def _string(value: Any) -> str:
-    if not isinstance(value, str) or len(value) > MAX_STRING:
-        raise BadEntry("not a string of bounded length")
-    return value
-
-
-def _optional(value: Any) -> str | None:
-    return None if value is None else _string(value)
 
 
 # --- writing and pruning ---------------------------------------------------------------------
 
 
-def write_whole(path: Path, data: bytes) -> bool:
+def write_whole(path: str | Path, data: bytes) -> bool:
     """Write the file whole or not at all (a ``.entry-`` temporary file, the user's only, renamed into
     place); False when the folder cannot be written. Never raises for the disk."""
-    temporary = path.with_name(f".entry-{os.getpid()}-{os.urandom(6).hex()}.tmp")
+    where = os.path.dirname(path)
+    temporary = os.path.join(where, f".entry-{os.getpid()}-{os.urandom(6).hex()}.tmp")
     try:
-        path.parent.mkdir(mode=0o700, parents=True, exist_ok=True)
+        os.makedirs(where, mode=0o700, exist_ok=True)
         descriptor = os.open(temporary, os.O_WRONLY | os.O_CREAT | os.O_EXCL | getattr(os, "O_NOFOLLOW", 0), 0o600)
     except OSError:
         return False
@@ -428,9 +453,9 @@ def _write_counter(path: Path, entries: int, written: int) -> None:
     write_whole(path, f"{entries} {written}\n".encode("ascii"))
 
 
-def _remove(path: Path) -> bool:
+def _remove(path: str | Path) -> bool:
     try:
-        path.unlink()
+        os.unlink(path)
         return True
     except OSError:
         return False
