@@ -300,7 +300,7 @@ def _check(paths: Sequence[str], options: CheckOptions, out: TextIO) -> int:
     try:
         outcomes = _reviewed_items([item for item, _ in misses], workers, writer, options, settings,
                                    [remember for _, remember in misses])
-        for item, outcome in _in_order(items, looked_up.hits, outcomes):
+        for item, outcome in _in_order(items, looked_up.hits, outcomes, cache, writer):
             files, problem, notebook, messages = outcome
             if messages:
                 sys.stderr.write(messages)  # what reading the note said, in a worker, in its place
@@ -318,7 +318,7 @@ def _check(paths: Sequence[str], options: CheckOptions, out: TextIO) -> int:
         gc.set_threshold(*thresholds)
         gc.unfreeze()
     if cache is not None:
-        cache.kept = len(looked_up.remember)
+        cache.kept += len(looked_up.remember)
         cache.finish()
     threshold = FAIL_LEVELS.index(options.fail_level)
     failing = any(writer.tally.findings[level] for level in FAIL_LEVELS[: threshold + 1])
@@ -436,10 +436,15 @@ def _looked_up(items: list, options: CheckOptions, settings: Any, cache: Any, co
         if cache is not None and item is not None:  # standard input is not kept
             path = str(item.path)
             remember = cache.remembered(path, kind, text, note_settings, computes)
+            if remember is not None and not computes and cache.present(remember):
+                # read when its turn to be written comes (a run keeps no more than one report at a time);
+                # should it be unusable then, the note is reviewed there, as it needs no computed geometry
+                found.hits[index] = _Kept(remember, said.getvalue())
+                continue
             kept = None if remember is None else cache.load(remember, path, kind == "notebook")
-            if kept is not None:
+            if kept is not None:  # read now: the species of a note reviewed later are computed before any review
                 found.hits[index] = (kept, None, kind == "notebook", said.getvalue())
-                found.computing_hit = found.computing_hit or computes
+                found.computing_hit = True
                 continue
         if computes:
             found.named[index] = _species_named(text, kind)
@@ -449,11 +454,34 @@ def _looked_up(items: list, options: CheckOptions, settings: Any, cache: Any, co
     return found
 
 
-def _in_order(items: list, hits: dict[int, Any], reviewed: Any):
+@dataclass(frozen=True)
+class _Kept:
+    """A note (reviewed without computed geometries) whose kept report is read when it is written."""
+
+    remember: Any  # report_cache.Remembered
+    said: str  # what reading the note wrote on standard error
+
+
+def _in_order(items: list, hits: dict[int, Any], reviewed: Any, cache: Any, writer: Any):
     """Each item with its outcome in the order of ``items``: kept outcomes where there are, the rest reviewed."""
+    def reported(reviewed_file: Any) -> Any:
+        return reviewed_file.reported(writer.wants_cautions, writer.wants_annotation_texts)
+
     try:
         for index, item in enumerate(items):
-            yield (item, hits.pop(index)) if index in hits else next(reviewed)
+            if index not in hits:
+                yield next(reviewed)
+                continue
+            kept = hits.pop(index)
+            if isinstance(kept, _Kept):
+                notebook = item.kind == "notebook"
+                files = cache.load(kept.remember, str(item.path), notebook)
+                if files is None:  # damaged or removed since it was looked up
+                    cache.kept += 1
+                    kept = _review_note(item, reported, kept.remember)
+                else:
+                    kept = (files, None, notebook, kept.said)
+            yield item, kept
     finally:
         reviewed.close()  # a pool's workers end when the report stops early
 

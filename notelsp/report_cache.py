@@ -199,6 +199,13 @@ class ReportCache:
         key = _json([self._run, settings_key, _computing_key() if computes else None, path, kind, digest])
         return Remembered(str(self.folder), hashlib.sha256(key.encode("ascii")).hexdigest(), digest)
 
+    def present(self, remembered: Remembered) -> bool:
+        """Whether an entry is there to be read (it is checked when it is read)."""
+        try:
+            return stat.S_ISREG(os.lstat(remembered.path).st_mode)
+        except OSError:
+            return False
+
     def load(self, remembered: Remembered, path: str, notebook: bool) -> list[ReportedFile] | None:
         """The kept report for ``remembered``, or None when absent or unusable (then the note is reviewed)."""
         data = read_entry(remembered.path)
