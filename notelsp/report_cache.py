@@ -21,6 +21,7 @@ that wrote entries, when a small counter file says the cap may have been passed.
 from __future__ import annotations
 
 import hashlib
+import operator
 import os
 import re
 import stat
@@ -42,7 +43,7 @@ SWITCH_VARIABLE = "NOTELSP_REPORT_CACHE"  # "off" (or 0, false, no): no report i
 DECIDING_PACKAGES = ("mendeleev", "rdkit", "lark", "numpy")
 
 MAX_ENTRY_BYTES = 8 * 1024 * 1024  # a note of 4,000 findings writes about 1 MB; a larger report is not kept
-MAX_NESTING = 8  # entry -> files -> file -> findings -> finding -> fixes -> fix -> region
+MAX_NESTING = 4  # entry -> files -> file -> one column of its findings (see _file_dict)
 MAX_FILES = 10_000  # a notebook's Markdown cells
 MAX_STRING = 1_000_000  # an annotation's text, a replacement, a message (the entry's size bounds them all)
 MAX_POSITION = 1 << 31
@@ -165,7 +166,7 @@ class Remembered:
         if text_digest(text) != self.text:
             return False
         try:
-            data = _json({"format": FORMAT, "key": self.key, "files": [_file_list(f) for f in files]})
+            data = _json({"format": FORMAT, "key": self.key, "files": [_file_dict(f) for f in files]})
         except (TypeError, ValueError):
             return False
         if len(data) > MAX_ENTRY_BYTES:
@@ -173,11 +174,20 @@ class Remembered:
         return write_whole(self.path, data.encode("ascii"))  # json.dumps escapes all but ASCII, surrogates too
 
 
-def _file_list(file: ReportedFile) -> list:
-    return [file.path, file.cell, file.annotations,
-            [[list(f.region), f.severity, f.code, f.message, f.formula, f.claim,
-              [[x.title, x.replacement, list(x.region)] for x in f.fixes], f.annotation] for f in file.findings],
-            [list(pair) for pair in file.cautions]]
+def _file_dict(file: ReportedFile) -> dict[str, Any]:
+    """A reported file as columns, one list per field of its findings (positions four numbers each): a warm
+    check reads tens of thousands of findings, and a column is checked at once rather than item by item."""
+    findings, fixes = file.findings, [x for f in file.findings for x in f.fixes]
+    return {"path": file.path, "cell": file.cell, "annotations": file.annotations,
+            "regions": [n for f in findings for n in f.region], "severities": [f.severity for f in findings],
+            "codes": [f.code for f in findings], "messages": [f.message for f in findings],
+            "formulas": [f.formula for f in findings], "claims": [f.claim for f in findings],
+            "annotation_texts": [f.annotation for f in findings], "fix_counts": [len(f.fixes) for f in findings],
+            "fix_titles": [x.title for x in fixes], "fix_replacements": [x.replacement for x in fixes],
+            "fix_regions": [n for x in fixes for n in x.region], "cautions": [t for pair in file.cautions for t in pair]}
+
+
+_FIELDS = frozenset(_file_dict(ReportedFile("", None, 0, (), ())))
 
 
 class ReportCache:
@@ -309,76 +319,81 @@ def nested_at_most(data: bytes, most: int) -> bool:
 
 
 def _file(item: Any, path: str, wants_cautions: bool, wants_annotation_texts: bool) -> ReportedFile:
-    if type(item) is not list or len(item) != 5:
-        raise BadEntry("a file is not five fields")
-    name, cell, annotations, findings, cautions = item
-    if name != path:
+    """One reported file from its columns (``_file_dict``), every column checked whole: its type, its length,
+    the type and size of what it holds."""
+    if type(item) is not dict or item.keys() != _FIELDS:
+        raise BadEntry("a file is not the fields of a report")
+    if item["path"] != path:
         raise BadEntry("a file of another path")
+    cell, annotations = item["cell"], item["annotations"]
     if cell is not None and not (type(cell) is int and 0 < cell < MAX_POSITION):
         raise BadEntry("a cell is not a positive number")
     if not (type(annotations) is int and 0 <= annotations < MAX_POSITION):
         raise BadEntry("annotations is not a count")
-    if type(findings) is not list or type(cautions) is not list:
-        raise BadEntry("findings or cautions are not lists")
-    if cautions and not wants_cautions:
-        raise BadEntry("cautions the report does not show")
-    return ReportedFile(name, cell, annotations, tuple([_finding(f, wants_annotation_texts) for f in findings]),
-                        tuple([_caution(c) for c in cautions]))
-
-
-def _finding(item: Any, wants_annotation_texts: bool) -> ReportedFinding:
-    """One finding, checked field by field (inline: a warm check reads tens of thousands)."""
-    if type(item) is not list or len(item) != 8:
-        raise BadEntry("a finding is not eight fields")
-    region, severity, code, message, formula, claim, fixes, annotation = item
-    if type(severity) is not str or severity not in _SEVERITIES:
+    severities = _strings(item["severities"], None)
+    count = len(severities)
+    if not set(severities) <= _SEVERITIES:
         raise BadEntry("an unknown severity")
-    if type(code) is not str or len(code) > 100 or not _CODE.fullmatch(code):
+    codes = _strings(item["codes"], count)
+    if not all(map(_CODE.fullmatch, codes)) or max(map(len, codes), default=0) > 100:
         raise BadEntry("a rule code is not kebab-case")
-    if type(message) is not str or len(message) > MAX_STRING or type(annotation) is not str \
-            or len(annotation) > MAX_STRING:
-        raise BadEntry("a message or an annotation is not a string of bounded length")
-    if (formula is not None and (type(formula) is not str or len(formula) > MAX_STRING)) \
-            or (claim is not None and (type(claim) is not str or len(claim) > MAX_STRING)):
-        raise BadEntry("a formula or a claim is not a string of bounded length")
-    if annotation and not wants_annotation_texts:
+    messages = _strings(item["messages"], count)
+    formulas = _strings(item["formulas"], count, optional=True)
+    claims = _strings(item["claims"], count, optional=True)
+    annotation_texts = _strings(item["annotation_texts"], count)
+    if not wants_annotation_texts and any(annotation_texts):
         raise BadEntry("an annotation's text the report does not show")
-    if type(fixes) is not list:
-        raise BadEntry("fixes are not a list")
-    return ReportedFinding(_region(region), severity, code, message, formula, claim,
-                           tuple([_fix(x) for x in fixes]) if fixes else (), annotation)
+    regions = _regions(item["regions"], count)
+    fix_counts = item["fix_counts"]
+    if type(fix_counts) is not list or len(fix_counts) != count or (
+            fix_counts and (set(map(type, fix_counts)) != {int} or min(fix_counts) < 0)):
+        raise BadEntry("fix_counts is not a count for each finding")
+    fixed = sum(fix_counts)
+    fixes = list(map(ReportedFix, _strings(item["fix_titles"], fixed), _strings(item["fix_replacements"], fixed),
+                     _regions(item["fix_regions"], fixed)))
+    if fixed:
+        grouped, start = [], 0
+        for number in fix_counts:
+            grouped.append(tuple(fixes[start:start + number]))
+            start += number
+    else:
+        grouped = [()] * count
+    cautions = _strings(item["cautions"], None)
+    if len(cautions) % 2 or (cautions and not wants_cautions):
+        raise BadEntry("cautions are not pairs, or ones the report does not show")
+    findings = tuple(map(ReportedFinding, regions, severities, codes, messages, formulas, claims, grouped,
+                         annotation_texts))
+    return ReportedFile(path, cell, annotations, findings, tuple(zip(cautions[0::2], cautions[1::2])))
 
 
-def _fix(item: Any) -> ReportedFix:
-    if type(item) is not list or len(item) != 3:
-        raise BadEntry("a fix is not three fields")
-    title, replacement, region = item
-    if type(title) is not str or type(replacement) is not str or len(title) > MAX_STRING \
-            or len(replacement) > MAX_STRING:
-        raise BadEntry("a fix's title or replacement is not a string of bounded length")
-    return ReportedFix(title, replacement, _region(region))
+def _strings(column: Any, count: int | None, optional: bool = False) -> list:
+    """``column`` if it is a list of ``count`` (any number when None) strings of bounded length (or nulls)."""
+    if type(column) is not list or (count is not None and len(column) != count):
+        raise BadEntry("a column of another length")
+    if column:
+        kinds = set(map(type, column))
+        if not (kinds <= _OPTIONAL_TEXT if optional else kinds == _TEXT):
+            raise BadEntry("a column of strings holds something else")
+        if max(map(len, filter(None, column)), default=0) > MAX_STRING:
+            raise BadEntry("a string longer than an entry holds")
+    return column
 
 
-def _caution(item: Any) -> tuple[str, str]:
-    if type(item) is not list or len(item) != 2:
-        raise BadEntry("a caution is not a formula and a text")
-    formula, caution = item
-    if type(formula) is not str or type(caution) is not str or len(formula) > MAX_STRING \
-            or len(caution) > MAX_STRING:
-        raise BadEntry("a caution is not two strings of bounded length")
-    return formula, caution
+_TEXT = {str}
+_OPTIONAL_TEXT = {str, type(None)}
 
 
-def _region(item: Any) -> tuple[int, int, int, int]:
-    if type(item) is not list or len(item) != 4:
-        raise BadEntry("a region is not four numbers")
-    line, column, end_line, end_column = item
-    if type(line) is not int or type(column) is not int or type(end_line) is not int or type(end_column) is not int:
-        raise BadEntry("a region is not four whole numbers")
-    if not (0 < line <= end_line < MAX_POSITION and 0 < column < MAX_POSITION and 0 < end_column < MAX_POSITION) \
-            or (line == end_line and end_column < column):
-        raise BadEntry("a region is not four positive numbers, its end after its start")
-    return line, column, end_line, end_column
+def _regions(column: Any, count: int) -> list[tuple[int, int, int, int]]:
+    """``count`` regions from four positive whole numbers each, none ending before it starts."""
+    if type(column) is not list or len(column) != 4 * count:
+        raise BadEntry("regions of another length")
+    if not column:
+        return []
+    if set(map(type, column)) != {int} or min(column) < 1 or max(column) >= MAX_POSITION:
+        raise BadEntry("a region is not four positive whole numbers")
+    if not all(map(operator.le, zip(column[0::4], column[1::4]), zip(column[2::4], column[3::4]))):
+        raise BadEntry("a region ends before it starts")
+    return list(zip(column[0::4], column[1::4], column[2::4], column[3::4]))
 
 
 # --- writing and pruning ---------------------------------------------------------------------

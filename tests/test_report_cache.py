@@ -225,8 +225,12 @@ def _rewrite(path: Path, change) -> None:
     path.write_text(json.dumps(payload), encoding="utf-8")
 
 
-def _first_finding(payload: dict) -> list:
-    return payload["files"][0][3][0]
+def _set(field: str, value):
+    return lambda d: d["files"][0].__setitem__(field, value)
+
+
+def _first(field: str, value):
+    return lambda d: d["files"][0][field].__setitem__(0, value)
 
 
 DAMAGE = {
@@ -235,21 +239,29 @@ DAMAGE = {
     "empty": lambda p: p.write_bytes(b""),
     "nested deep": lambda p: p.write_text("[" * 100_000 + "]" * 100_000),
     "too large": lambda p: p.write_bytes(b" " * (report_cache.MAX_ENTRY_BYTES + 1)),
-    "unknown severity": lambda p: _rewrite(p, lambda d: _first_finding(d).__setitem__(1, "fatal")),
-    "a count as text": lambda p: _rewrite(p, lambda d: d["files"][0].__setitem__(2, "2")),
-    "a negative count": lambda p: _rewrite(p, lambda d: d["files"][0].__setitem__(2, -1)),
-    "a bool for a line": lambda p: _rewrite(p, lambda d: _first_finding(d)[0].__setitem__(0, True)),
-    "a region backwards": lambda p: _rewrite(p, lambda d: _first_finding(d).__setitem__(0, [3, 9, 3, 2])),
-    "another path": lambda p: _rewrite(p, lambda d: d["files"][0].__setitem__(0, "notes/other.md")),
+    "unknown severity": lambda p: _rewrite(p, _first("severities", "fatal")),
+    "a severity that is a list": lambda p: _rewrite(p, _first("severities", ["error"])),
+    "a count as text": lambda p: _rewrite(p, _set("annotations", "2")),
+    "a negative count": lambda p: _rewrite(p, _set("annotations", -1)),
+    "a bool for a line": lambda p: _rewrite(p, _first("regions", True)),
+    "a line as text": lambda p: _rewrite(p, _first("regions", "3")),
+    "a line of 0": lambda p: _rewrite(p, _first("regions", 0)),
+    "a region backwards": lambda p: _rewrite(p, _set("regions", [3, 9, 3, 2])),
+    "another path": lambda p: _rewrite(p, _set("path", "notes/other.md")),
     "another key": lambda p: _rewrite(p, lambda d: d.__setitem__("key", "0" * 64)),
     "another format": lambda p: _rewrite(p, lambda d: d.__setitem__("format", 99)),
     "an extra field": lambda p: _rewrite(p, lambda d: d.__setitem__("run", "rm -rf /")),
-    "a finding cut short": lambda p: _rewrite(p, lambda d: d["files"][0][3].__setitem__(0, ["error"])),
-    "a rule code not kebab-case": lambda p: _rewrite(p, lambda d: _first_finding(d).__setitem__(2, "Wrong Shape")),
+    "a field missing": lambda p: _rewrite(p, lambda d: d["files"][0].pop("claims")),
+    "a column cut short": lambda p: _rewrite(p, lambda d: d["files"][0]["codes"].pop()),
+    "a message that is a number": lambda p: _rewrite(p, _first("messages", 7)),
+    "a rule code not kebab-case": lambda p: _rewrite(p, _first("codes", "Wrong Shape")),
+    "fix counts not adding up": lambda p: _rewrite(p, _first("fix_counts", 2)),
+    "an annotation's text not asked for": lambda p: _rewrite(p, _first("annotation_texts", "{ClF3: T-shaped}")),
     "no files": lambda p: _rewrite(p, lambda d: d.__setitem__("files", [])),
     "two files for a note": lambda p: _rewrite(p, lambda d: d["files"].append(d["files"][0])),
-    "a cell in a note": lambda p: _rewrite(p, lambda d: d["files"][0].__setitem__(1, 1)),
-    "cautions as an object": lambda p: _rewrite(p, lambda d: d["files"][0].__setitem__(4, {"a": "b"})),
+    "a cell in a note": lambda p: _rewrite(p, _set("cell", 1)),
+    "cautions as an object": lambda p: _rewrite(p, _set("cautions", {"a": "b"})),
+    "cautions not in pairs": lambda p: _rewrite(p, lambda d: d["files"][0]["cautions"].append("x")),
     "a symbolic link": lambda p: (p.rename(p.with_suffix(".real")), p.symlink_to(p.with_suffix(".real").name)),
     "writable by others": lambda p: p.chmod(0o666),
     "a folder": lambda p: (p.unlink(), p.mkdir()),
@@ -272,7 +284,7 @@ def test_a_damaged_or_hostile_entry_is_a_miss_and_is_written_again(damage, repo,
 def test_a_notebooks_cells_out_of_order_are_a_miss(repo, tmp_path, capsys, reviews):
     first = _check(capsys, "notes/cells.ipynb", "--format", "json")
     (entry,) = _entries(tmp_path)
-    _rewrite(entry, lambda d: d["files"].reverse())
+    _rewrite(entry, lambda d: d["files"].reverse())  # the cells' records, last first
     assert _check(capsys, "notes/cells.ipynb", "--format", "json") == first
     assert len(reviews) == 2 * len(CELLS)
 
@@ -414,3 +426,44 @@ def test_reports_reviewed_by_a_pool_of_workers_are_kept(tmp_path):
     fresh = subprocess.run([sys.executable, "-m", "notelsp", "check", "notes", "--format", "sarif"], cwd=tmp_path,
                            env=env, capture_output=True, text=True, timeout=120)
     assert fresh.stdout == runs[1].stdout
+
+
+# --- the nesting bound, against the json module's own reading ---------------------------------
+
+
+def _depth(value) -> int:
+    if isinstance(value, dict):
+        return 1 + max(map(_depth, value.values()), default=0)
+    if isinstance(value, list):
+        return 1 + max(map(_depth, value), default=0)
+    return 0
+
+
+def test_the_nesting_bound_agrees_with_the_parsed_depth():
+    from hypothesis import given, settings
+    from hypothesis import strategies as st
+
+    texts = st.text(alphabet='[]{}"\\ab\u00b0', max_size=6)
+    values = st.recursive(st.none() | st.integers() | texts,
+                          lambda inner: st.lists(inner, max_size=3) | st.dictionaries(texts, inner, max_size=3),
+                          max_leaves=30)
+
+    @settings(max_examples=400, deadline=None)
+    @given(values, st.booleans())
+    def check(value, ascii_only):
+        data = json.dumps(value, ensure_ascii=ascii_only).encode("utf-8")
+        depth = _depth(value)
+        for most in range(0, 8):
+            found = report_cache.nested_at_most(data, most)
+            if depth <= most:
+                assert found, (data, most)
+            elif depth > 2 * most:
+                assert not found, (data, most)
+
+    check()
+
+
+def test_an_entry_is_within_the_nesting_bound(repo, tmp_path, capsys):
+    _check(capsys, "notes", "--format", "sarif")  # fixes, annotation texts and notebook cells: every column used
+    for entry in _entries(tmp_path):
+        assert _depth(json.loads(entry.read_bytes())) <= report_cache.MAX_NESTING
