@@ -202,7 +202,10 @@ class ReportCache:
 
     def remembered(self, path: str, kind: str, text: str, settings: Any, computes: bool) -> Remembered | None:
         """The place of this note's report (None when its settings cannot be keyed)."""
-        settings_key = _settings_key(settings)
+        try:
+            settings_key = _settings_key(settings)
+        except TypeError:  # settings that cannot be hashed cannot be keyed either
+            settings_key = None
         if settings_key is None:
             return None
         digest = text_digest(text)

@@ -96,6 +96,17 @@ def test_the_kept_report_is_the_report_of_a_run_without_the_cache(output, repo, 
     assert len(reviews) == 2 * (2 + len(CELLS))  # the first run and --review-all; the second reviewed nothing
 
 
+def test_review_all_neither_reads_nor_keeps(repo, tmp_path, capsys, reviews):
+    _check(capsys, "notes", "--review-all")
+    assert not (tmp_path / "cache" / "reports").exists()
+    _check(capsys, "notes")
+    entries = {entry: entry.read_bytes() for entry in _entries(tmp_path)}
+    for entry in entries:
+        entry.write_bytes(b"{}")  # were they read, the run would write them again
+    _check(capsys, "notes", "--review-all")
+    assert len(reviews) == 3 * (2 + len(CELLS)) and all(entry.read_bytes() == b"{}" for entry in entries)
+
+
 def test_the_switch_turns_it_off(repo, tmp_path, capsys, reviews, monkeypatch):
     monkeypatch.setenv(report_cache.SWITCH_VARIABLE, "off")
     _check(capsys, "notes")
