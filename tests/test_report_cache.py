@@ -478,3 +478,24 @@ def test_an_entry_is_within_the_nesting_bound(repo, tmp_path, capsys):
     _check(capsys, "notes", "--format", "sarif")  # fixes, annotation texts and notebook cells: every column used
     for entry in _entries(tmp_path):
         assert _depth(json.loads(entry.read_bytes())) <= report_cache.MAX_NESTING
+
+
+def test_with_real_computing_a_kept_note_computes_nothing_the_second_time(tmp_path):
+    """GFN2-xTB through the project's pool, as a user runs it. NF3's F-N-F angle is 102.2° in the gas phase
+    (from memory, as in the usual tables), so 112.5° is flagged against the calculation."""
+    import shutil
+
+    (tmp_path / "nf3.md").write_text("Fluoride {NF3: F-N-F 112.5°}.\n", encoding="utf-8")
+    env = {k: v for k, v in os.environ.items() if k not in (cli.COMPUTE_VARIABLE, report_cache.SWITCH_VARIABLE)}
+    env["NOTELSP_CACHE_DIR"] = str(tmp_path / "cache")
+
+    def run() -> subprocess.CompletedProcess:
+        return subprocess.run([sys.executable, "-m", "notelsp", "check", "nf3.md", "--format", "json"], cwd=tmp_path,
+                              env=env, capture_output=True, text=True, timeout=280)
+
+    first = run()
+    assert "angle-against-calculation" in first.stdout, first.stderr
+    shutil.rmtree(tmp_path / "cache" / "computed")  # the geometries: a second review would compute them again
+    second = run()
+    assert (second.returncode, second.stdout) == (first.returncode, first.stdout)
+    assert not (tmp_path / "cache" / "computed").exists()  # nothing was computed: the kept report was written
