@@ -15,20 +15,13 @@ everything installed (a stricter floor).
 The species' geometry is computed once, untimed, before the timed runs: they all
 read it from the disk cache (``~/.cache/notelsp``), as every check after a note's
 first does. ``cli_start_rules_only_ratio`` is the same note with ``--rules-only``
-(no geometry asked for at all). ``cli_start_compiling_ratio`` is the default check
-with ``NOTELSP_DATACLASS_CODE=off``: the dataclasses' methods compiled in every start,
-as before ``notelsp/dataclass_code.py`` kept their compiled code. All of these review
-the note (``NOTELSP_REPORT_CACHE=off``), as a check after an edit must;
-``cli_start_unchanged_ratio`` is the same check of the unchanged note with the report
-cache on (``notelsp/report_cache.py``): the report of the run before, read back.
-
-All three are whole processes, timed from spawn to exit, alternated so that a busy
-moment of the machine slows them alike; one untimed run of each first (the
-grammar's parser cache is written once per install, and the files are in the
-page cache afterwards, as on any second use). All may write and read compiled
-bytecode, kept in a temporary folder of their own (``PYTHONPYCACHEPREFIX``): a
-``PYTHONDONTWRITEBYTECODE`` in the environment would otherwise make every run
-compile notelsp's sources again.
+(no geometry asked for at all). Each of these checks a note edited just before (one
+line changed), so the report kept from the run before (``notelsp/report_cache.py``)
+cannot answer and the note is reviewed, as after any edit; ``cli_start_unchanged_ratio``
+is the default check of an unchanged note, answered from that kept report.
+``cli_start_compiling_ratio`` is the edited note's default check with
+``NOTELSP_DATACLASS_CODE=off``: the dataclasses' methods compiled in every start, as
+before ``notelsp/dataclass_code.py`` kept their compiled code.
 """
 
 from __future__ import annotations
@@ -79,26 +72,36 @@ def measure(runs: int = RUNS) -> dict[str, str]:
     with tempfile.TemporaryDirectory() as folder:
         python = installed_from_wheel(Path(folder))
         Path(folder, "one.md").write_text(ONE_NOTE, encoding="utf-8")
-        env = {k: v for k, v in os.environ.items() if k not in ("PYTHONDONTWRITEBYTECODE", "PYTHONPATH")}
+        env = {k: v for k, v in os.environ.items()
+               if k not in ("PYTHONDONTWRITEBYTECODE", "PYTHONPATH", "NOTELSP_REPORT_CACHE", "NOTELSP_DATACLASS_CODE")}
         env["PYTHONPYCACHEPREFIX"] = str(Path(folder, "bytecode"))
-        unchanged = dict(env)  # the report cache on: the note's report from the run before
-        env["NOTELSP_REPORT_CACHE"] = "off"  # every other check reviews the note, as after an edit
-        script = str(python.parent / "notelsp")
         compiling = {**env, "NOTELSP_DATACLASS_CODE": "off"}  # dataclasses' methods compiled in every start
+        script = str(python.parent / "notelsp")
+        # (command, environment, whether the note is edited before each run: a note no check has seen,
+        # so the kept report of the run before cannot answer, as after any edit)
         commands = {
-            "check": ([script, "check", "one.md"], env),
-            "rules_only": ([script, "check", "--rules-only", "one.md"], env),
-            "check_compiling": ([script, "check", "one.md"], compiling),
-            "check_unchanged": ([script, "check", "one.md"], unchanged),
-            "bare": ([str(python), "-c", "pass"], env),
+            "check": ([script, "check", "edited.md"], env, True),
+            "rules_only": ([script, "check", "--rules-only", "edited.md"], env, True),
+            "check_compiling": ([script, "check", "edited.md"], compiling, True),
+            "check_unchanged": ([script, "check", "one.md"], env, False),
+            "bare": ([str(python), "-c", "pass"], env, False),
         }
-        for command, environment in commands.values():  # untimed: geometry computed and cached, bytecode written
+        edits = iter(range(10**6))
+
+        def edit() -> None:
+            Path(folder, "edited.md").write_text(f"{ONE_NOTE}\nRun {next(edits)}.\n", encoding="utf-8")
+
+        for command, environment, edited in commands.values():  # untimed: geometry cached, bytecode written
+            if edited:
+                edit()
             done = subprocess.run(command, cwd=folder, env=environment, capture_output=True, text=True, timeout=600)
             if done.returncode not in (0, 1):  # a check that fails early would look fast
                 raise RuntimeError(f"{' '.join(command)} exited {done.returncode}: {done.stderr[-2000:]}")
         samples: dict[str, list[tuple[float, float]]] = {name: [] for name in commands}
         for _ in range(runs):
-            for name, (command, environment) in commands.items():
+            for name, (command, environment, edited) in commands.items():
+                if edited:
+                    edit()
                 samples[name].append(_run_s(command, folder, environment))
     wall = {name: statistics.median(w for w, _ in taken) for name, taken in samples.items()}
     cpu = {name: statistics.median(c for _, c in taken) for name, taken in samples.items()}

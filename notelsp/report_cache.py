@@ -34,7 +34,7 @@ from typing import Any
 
 from .formats import ReportedFile, ReportedFinding, ReportedFix
 from .review.findings import Severity
-from .user_cache import cache_folder, trusted
+from .user_cache import cache_entries, cache_folder, file_stamps, remove_quietly, trusted
 
 FORMAT = 1  # bump when an entry changes shape or meaning
 FOLDER_NAME = "reports"
@@ -49,7 +49,6 @@ MAX_STRING = 1_000_000  # an annotation's text, a replacement, a message (the en
 MAX_POSITION = 1 << 31
 MAX_ENTRIES = 50_000
 PRUNE_TO = 0.9  # of MAX_ENTRIES, so pruning does not come back on the next run
-STALE_TEMPORARY_S = 3600.0  # a temporary file this old belongs to a writer that died
 COUNTER_NAME = "written"  # entries at the last count and entries written since, as two numbers
 
 _ENTRY_NAME = re.compile(r"[0-9a-f]{32}\.json")
@@ -84,24 +83,9 @@ def code_fingerprint() -> str:
     version and the versions of the packages that decide findings: computed once per process."""
     from .compute.method import installed_version
 
-    package = Path(__file__).resolve().parent
-    seen = [sys.version]
-    for where, folders, names in os.walk(package):
-        folders[:] = sorted(f for f in folders if f != "__pycache__")
-        for name in sorted(names):
-            seen.append(_stat_text(Path(where, name), package.parent))
-    grammar = package.parent / "grammar" / "notation.lark"  # a source tree's grammar (editable install)
-    seen.append(_stat_text(grammar, package.parent))
+    seen = [sys.version, *file_stamps(Path(__file__).resolve().parent)]
     seen.extend(f"{name} {installed_version(name) or 'missing'}" for name in DECIDING_PACKAGES)
     return hashlib.sha256("\n".join(seen).encode("utf-8", "surrogatepass")).hexdigest()
-
-
-def _stat_text(path: Path, base: Path) -> str:
-    try:
-        status = path.stat()
-    except OSError:
-        return f"{path.relative_to(base)} absent"
-    return f"{path.relative_to(base)} {status.st_size} {status.st_mtime_ns}"
 
 
 @lru_cache(maxsize=1)
@@ -418,7 +402,7 @@ def write_whole(path: str | Path, data: bytes) -> bool:
         os.replace(temporary, path)
         return True
     except OSError:
-        _remove(temporary)
+        remove_quietly(temporary)
         return False
 
 
@@ -438,29 +422,11 @@ def prune_if_due(where: Path, written: int, cap: int | None = None) -> int:
 def prune(where: Path, keep: int) -> tuple[int, int]:
     """Remove the least recently used entries past ``keep`` and temporary files of writers that died;
     (entries left, entries removed)."""
-    import time
-
-    entries = []
-    now = time.time()
-    try:
-        with os.scandir(where) as found:
-            for item in found:
-                try:
-                    status = item.stat(follow_symlinks=False)
-                except OSError:
-                    continue
-                if not stat.S_ISREG(status.st_mode):
-                    continue
-                if item.name.startswith(".entry-") and now - status.st_mtime > STALE_TEMPORARY_S:
-                    _remove(Path(item.path))
-                elif _ENTRY_NAME.fullmatch(item.name):
-                    entries.append((status.st_mtime_ns, item.path))
-    except OSError:
-        return 0, 0
+    entries = [(status.st_mtime_ns, path) for status, path in cache_entries(where, _ENTRY_NAME.fullmatch)]
     entries.sort()
     removed = 0
     for _, path in entries[: max(len(entries) - keep, 0)]:
-        removed += _remove(Path(path))
+        removed += remove_quietly(Path(path))
     return len(entries) - removed, removed
 
 
@@ -478,9 +444,3 @@ def _write_counter(path: Path, entries: int, written: int) -> None:
     write_whole(path, f"{entries} {written}\n".encode("ascii"))
 
 
-def _remove(path: str | Path) -> bool:
-    try:
-        os.unlink(path)
-        return True
-    except OSError:
-        return False

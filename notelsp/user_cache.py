@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import os
 import stat
+from collections.abc import Callable
 from pathlib import Path
 
 CACHE_FOLDER_NAME = "notelsp"
@@ -68,3 +69,68 @@ def write_whole(path: Path, data: bytes) -> bool:
                 os.unlink(temporary)
             except OSError:
                 pass
+
+
+def file_stamps(package: Path, parts: tuple[str, ...] = ("",)) -> list[str]:
+    """"path size mtime_ns" for every file of ``package``'s ``parts`` (folders walked in sorted order,
+    __pycache__ left out; "" is the whole package) and of the source tree's grammar beside it
+    (an editable install), paths relative to the package's parent; "path absent" for one missing.
+
+    What a cache keyed by notelsp's own code compares: any edit, install or upgrade changes it.
+    """
+    stamps = []
+    for part in parts:
+        path = package / part if part else package
+        if not path.is_dir():
+            stamps.append(_stamp(path, package.parent))
+            continue
+        for folder, folders, names in os.walk(path):
+            folders[:] = sorted(f for f in folders if f != "__pycache__")
+            stamps.extend(_stamp(Path(folder, name), package.parent) for name in sorted(names))
+    stamps.append(_stamp(package.parent / "grammar" / "notation.lark", package.parent))
+    return stamps
+
+
+def _stamp(path: Path, base: Path) -> str:
+    try:
+        status = path.stat()
+    except OSError:
+        return f"{path.relative_to(base)} absent"
+    return f"{path.relative_to(base)} {status.st_size} {status.st_mtime_ns}"
+
+
+STALE_TEMPORARY_S = 3600.0  # a temporary file (".entry-...") this old belongs to a writer that died
+
+
+def cache_entries(folder: Path, is_entry: Callable[[str], bool]) -> list[tuple[os.stat_result, str]]:
+    """(status, path) of every regular file in ``folder`` whose name ``is_entry`` accepts, links not
+    followed; temporary files of writers that died are removed on the way. [] when it cannot be listed."""
+    import time
+
+    entries = []
+    now = time.time()
+    try:
+        with os.scandir(folder) as found:
+            for item in found:
+                try:
+                    status = item.stat(follow_symlinks=False)
+                except OSError:
+                    continue
+                if not stat.S_ISREG(status.st_mode):
+                    continue
+                if item.name.startswith(".entry-") and now - status.st_mtime > STALE_TEMPORARY_S:
+                    remove_quietly(item.path)
+                elif is_entry(item.name):
+                    entries.append((status, item.path))
+    except OSError:
+        return []
+    return entries
+
+
+def remove_quietly(path: str | Path) -> bool:
+    """Remove a file; False (no error) when it cannot be."""
+    try:
+        os.unlink(path)
+        return True
+    except OSError:
+        return False

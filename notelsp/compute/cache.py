@@ -25,13 +25,12 @@ from __future__ import annotations
 import hashlib
 import json
 import os
-import stat
 import tempfile
-import time
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 from ..notefiles import bounded_json, read_cache_entry
+from ..user_cache import cache_entries, remove_quietly
 from .method import METHOD, versions
 from .result import BadResult, ComputedGeometry, geometry_from_dict, geometry_to_dict
 
@@ -44,7 +43,6 @@ MAX_NESTING = 6  # entry -> geometry -> positions -> one position: 4 levels are 
 MAX_TOTAL_BYTES = 50 * 1024 * 1024
 EVICT_TO = 0.8  # of MAX_TOTAL_BYTES, so eviction does not run on every store
 EVICT_EVERY = 32  # stores between size checks in one process
-STALE_TEMPORARY_S = 3600.0  # a temporary file this old belongs to a writer that died
 
 _stores = 0
 
@@ -147,7 +145,7 @@ def write_entry(path: Path, payload: dict[str, Any]) -> bool:
                 handle.write(text)
             os.replace(temporary, path)
         except BaseException:
-            _remove(Path(temporary))
+            remove_quietly(Path(temporary))
             raise
     except (OSError, ValueError):
         return False
@@ -156,24 +154,8 @@ def write_entry(path: Path, payload: dict[str, Any]) -> bool:
 
 def evict(limit: int = MAX_TOTAL_BYTES) -> int:
     """Remove the oldest entries while the folder holds more than ``limit`` bytes; the count removed."""
-    root = cache_root()
-    entries = []
-    now = time.time()
-    try:
-        with os.scandir(root) as found:
-            for item in found:
-                try:
-                    status = item.stat(follow_symlinks=False)
-                except OSError:
-                    continue
-                if not stat.S_ISREG(status.st_mode):
-                    continue
-                if item.name.startswith(".entry-") and now - status.st_mtime > STALE_TEMPORARY_S:
-                    _remove(Path(item.path))
-                elif item.name.endswith(".json"):
-                    entries.append((status.st_mtime, status.st_size, item.path))
-    except OSError:
-        return 0
+    entries = [(status.st_mtime, status.st_size, path)
+               for status, path in cache_entries(cache_root(), lambda name: name.endswith(".json"))]
     total = sum(size for _, size, _ in entries)
     if total <= limit:
         return 0
@@ -181,15 +163,9 @@ def evict(limit: int = MAX_TOTAL_BYTES) -> int:
     for _, size, path in sorted(entries):
         if total <= limit * EVICT_TO:
             break
-        if _remove(Path(path)):
+        if remove_quietly(Path(path)):
             total -= size
             removed += 1
     return removed
 
 
-def _remove(path: Path) -> bool:
-    try:
-        path.unlink()
-        return True
-    except OSError:
-        return False

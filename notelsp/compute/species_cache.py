@@ -26,7 +26,6 @@ from __future__ import annotations
 
 import hashlib
 import json
-import os
 import re
 import sys
 from dataclasses import replace
@@ -35,6 +34,7 @@ from pathlib import Path
 from typing import Any
 
 from ..notefiles import bounded_json, read_cache_entry
+from ..user_cache import file_stamps
 from . import cache
 from .method import METHOD, Limits, installed_version, versions
 from .result import BadResult, ComputedGeometry, ComputedSpecies, geometry_from_dict, ordered
@@ -60,30 +60,10 @@ def code_fingerprint() -> str:
     """Size and modification time of every file of the code that reads, analyses, builds and computes a
     species (``BUILDING_CODE``) and of the grammar, the Python version and the packages that build
     structures: what a species' structures follow from."""
-    package = Path(__file__).resolve().parents[1]
-    seen = []
-    for part in BUILDING_CODE:
-        path = package / part
-        if not path.is_dir():
-            seen.append(_stat_text(path, package))
-            continue
-        for folder, folders, names in os.walk(path):
-            folders[:] = sorted(f for f in folders if f != "__pycache__")
-            for name in sorted(names):
-                seen.append(_stat_text(Path(folder) / name, package))
-    grammar = package.parent / "grammar" / "notation.lark"  # a source tree's grammar (editable install)
-    seen.append(_stat_text(grammar, package.parent))
+    seen = file_stamps(Path(__file__).resolve().parents[1], BUILDING_CODE)
     seen.append(sys.version)
     seen.extend(f"{name} {installed_version(name) or 'missing'}" for name in BUILDERS)
     return hashlib.sha256("\n".join(seen).encode()).hexdigest()
-
-
-def _stat_text(path: Path, base: Path) -> str:
-    try:
-        status = path.stat()
-    except OSError:
-        return f"{path.relative_to(base)} absent"
-    return f"{path.relative_to(base)} {status.st_size} {status.st_mtime_ns}"
 
 
 def species_key(text: str, unpaired: int | None, limits: Limits) -> list[Any]:
