@@ -38,6 +38,8 @@ class FileProblem(Exception):
 
 @dataclass(frozen=True)
 class ReadText:
+    """A note's text as read, and whether only its beginning was."""
+
     text: str
     truncated: bool  # the file was larger than the cap; ``text`` is its beginning
 
@@ -113,6 +115,8 @@ def read_settings_file(path: str | os.PathLike[str], base: Settings | None = Non
 
 @dataclass(frozen=True)
 class NoteFile:
+    """A note to check, its kind and the settings that govern it."""
+
     path: Path  # as named, or as found below a named folder (reports show it so)
     kind: NoteKind | None
     settings: Settings
@@ -121,6 +125,8 @@ class NoteFile:
 
 @dataclass
 class _Governing:
+    """The settings file that governs a folder, and the folder its patterns are relative to."""
+
     settings: Settings
     folder: Path | None  # the settings file's folder, which its ``files`` patterns are relative to
 

@@ -43,6 +43,8 @@ class PairRange:
 
 @dataclass(frozen=True, slots=True)
 class CentreAnalysis:
+    """Everything worked out for one central atom: counts, geometry, hybridization, rules."""
+
     central: str
     charge: int
     valence_electrons: int  # the centre's valence electrons after its charge (S in SO4^2-: 8)
@@ -107,6 +109,8 @@ class CentreAnalysis:
 
 @dataclass(frozen=True, slots=True)
 class SpeciesAnalysis:
+    """Everything worked out for one species: its centres, or why it is outside the model."""
+
     formula: str
     charge: int
     centres: tuple[CentreAnalysis, ...]

@@ -24,6 +24,8 @@ Confidence = Literal["high", "medium", "low"]
 
 @dataclass(frozen=True, slots=True)
 class AngleOrder:
+    """Bent's rule's prediction that one angle at the centre is larger than another."""
+
     larger: tuple[str, str, str]  # ("H", "C", "H")
     smaller: tuple[str, str, str]
     confidence: Confidence
@@ -33,6 +35,8 @@ class AngleOrder:
 
 @dataclass(frozen=True, slots=True)
 class BentAnalysis:
+    """What Bent's rule says about a centre: angle orders, axial preference, s-rich sites."""
+
     angle_orders: tuple[AngleOrder, ...]
     axial_preference: tuple[str, ...]  # most axial-loving first (trigonal bipyramids only)
     s_rich: tuple[str, ...]  # what takes s-rich hybrids: lone pairs, multiply bonded ligands
@@ -142,6 +146,8 @@ def _steric_override(electronic_smaller: tuple[str, str], electronic_larger: tup
 
 @dataclass(frozen=True, slots=True)
 class BondLengthTrend:
+    """Bent's rule's prediction for the same bond in two species."""
+
     relation: Literal["shorter", "longer"]  # the bond in the first species relative to the second
     reason: str
     confidence: Confidence

@@ -37,6 +37,8 @@ WINDOW = 0.15
 
 @dataclass(frozen=True, slots=True)
 class BondLength:
+    """A predicted bond length and how it was estimated."""
+
     atoms: tuple[str, str]
     order: int
     angstrom: float  # the prediction

@@ -102,6 +102,8 @@ class CondensedReading:
 
 @dataclass(frozen=True, slots=True)
 class _State:
+    """One way an atom may be bonded: its total bond order, charge and unpaired electrons."""
+
     valence: int  # sum of bond orders
     charge: int
     unpaired: int = 0
@@ -144,6 +146,8 @@ def _states(symbol: str) -> tuple[_State, ...]:
 
 @dataclass(frozen=True, slots=True)
 class _Item:
+    """One token of a condensed formula (an atom, a count, a group or a bond mark)."""
+
     kind: str  # "heavy", "sub", "group", "bond"
     symbol: str = ""
     count: int = 1
@@ -181,6 +185,8 @@ def _items(parts: tuple) -> list[_Item]:
 
 @dataclass
 class _Build:
+    """The molecule graph as it is assembled from the tokens."""
+
     symbols: list[str] = field(default_factory=list)
     edges: dict[tuple[int, int], int | None] = field(default_factory=dict)  # None: order from valence
     aromatic: set[tuple[int, int]] = field(default_factory=set)
@@ -510,6 +516,8 @@ def _oxoacid(items: list[_Item]) -> _Build | None:
 
 @dataclass(frozen=True)
 class _Solved:
+    """One assignment of bond orders and atom states, with the score that ranks it."""
+
     score: tuple[int, int, int, int, int]  # unpaired, sextets, formal charges, expanded valences, departures
     orders: dict[tuple[int, int], int]
     states: tuple[_State, ...]

@@ -51,6 +51,8 @@ TYPICAL_ANGLES: Mapping[str, Mapping[tuple[str, str], float]] = {
 
 @dataclass(frozen=True, slots=True)
 class BondHybrid:
+    """Coulson's hybridization index and s-character of the hybrid towards one ligand."""
+
     ligand: str  # the ligand label
     index: float | None  # i in sp^i; None = pure p (angle at or below 90 degrees)
     s_character: float  # fraction 0..1
@@ -62,6 +64,8 @@ class BondHybrid:
 
 @dataclass(frozen=True, slots=True)
 class CoulsonAnalysis:
+    """The hybrids of a centre from its angles (Coulson's orthogonality relation)."""
+
     bonds: tuple[BondHybrid, ...]  # one per distinct ligand label
     lone_pair_s_character: float  # s left to all non-bonding domains together (fraction)
     per_lone_pair_s_character: float | None  # per non-bonding domain; None without any

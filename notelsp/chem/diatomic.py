@@ -12,6 +12,8 @@ from dataclasses import dataclass
 
 @dataclass(frozen=True, slots=True)
 class Diatomic:
+    """The symmetry and polarity of a two-atom molecule."""
+
     atoms: tuple[str, str]
     point_group: str
     polar: bool

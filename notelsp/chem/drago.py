@@ -19,6 +19,8 @@ LIGAND_EN_LIMIT = 2.5  # Pauling
 
 @dataclass(frozen=True, slots=True)
 class Condition:
+    """One condition of Drago's rule, whether it holds, and why."""
+
     name: str
     holds: bool
     why: str
@@ -27,6 +29,8 @@ class Condition:
 
 @dataclass(frozen=True, slots=True)
 class DragoAnalysis:
+    """Whether Drago's rule applies to a centre, condition by condition."""
+
     applies: bool
     conditions: tuple[Condition, ...]
 

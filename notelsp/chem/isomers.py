@@ -69,6 +69,8 @@ class IsomerLimitExceeded(ValueError):
 
 @dataclass(frozen=True, slots=True)
 class SitePlacement:
+    """One ligand or lone pair on one site of the polyhedron."""
+
     label: str  # the ligand as written ("F", "OH") or LONE_PAIR
     symbol: str | None  # attaching atom; None for a lone pair
     position: str  # "axial", "equatorial", "apical", "basal" or "vertex"
@@ -77,6 +79,8 @@ class SitePlacement:
 
 @dataclass(frozen=True, slots=True)
 class Isomer:
+    """One arrangement of the ligands and lone pairs on the sites, with its symmetry and rank."""
+
     sites: tuple[SitePlacement, ...]
     point_group: str  # Schoenflies symbol of the labelled arrangement
     polar: bool
@@ -378,6 +382,8 @@ def _names(arrangements: list[Arrangement], mirrors: list[Arrangement], shape: P
 
 @dataclass(frozen=True, slots=True)
 class _Candidate:
+    """An arrangement being ranked, with its repulsion energy and its mirror image."""
+
     arrangement: Arrangement
     energy: float
     mirror: Arrangement

@@ -16,6 +16,8 @@ from .. import elements
 
 @dataclass(frozen=True, slots=True)
 class MoleculeAtom:
+    """One atom of a molecule graph: element, label, formal charge and radical electrons."""
+
     element: str
     label: str  # "C2", or "N" when the element occurs once
     charge: int = 0  # formal charge
@@ -24,6 +26,8 @@ class MoleculeAtom:
 
 @dataclass(frozen=True, slots=True)
 class MoleculeBond:
+    """One bond of a molecule graph, its order and whether it is delocalised."""
+
     first: int  # atom indices, first < second
     second: int
     order: int  # 1, 2 or 3; an aromatic or delocalised bond carries one Kekulé order here
@@ -32,6 +36,8 @@ class MoleculeBond:
 
 @dataclass(frozen=True)
 class Molecule:
+    """A molecule as a graph of atoms and bonds, and the text it was read from."""
+
     atoms: tuple[MoleculeAtom, ...]
     bonds: tuple[MoleculeBond, ...]
     source: str = ""  # the text it was read from

@@ -21,12 +21,16 @@ Vector = tuple[float, float, float]
 
 @dataclass(frozen=True, slots=True)
 class Site:
+    """One vertex of a VSEPR polyhedron: the kind of site and its direction."""
+
     position: str  # "axial", "equatorial", "apical", "basal" or "vertex"
     vector: Vector  # unit vector from the centre
 
 
 @dataclass(frozen=True, slots=True)
 class Operation:
+    """One symmetry operation of a polyhedron: its matrix and the permutation of the sites."""
+
     matrix: tuple[Vector, Vector, Vector]
     permutation: tuple[int, ...]  # site i goes to site permutation[i]
     proper: bool  # a rotation (det +1) rather than a reflection / improper rotation
@@ -34,6 +38,8 @@ class Operation:
 
 @dataclass(frozen=True, slots=True)
 class Polyhedron:
+    """The sites of one electron-domain geometry and its full point group."""
+
     name: str
     sites: tuple[Site, ...]
     operations: tuple[Operation, ...]  # the full point group of the bare polyhedron

@@ -31,6 +31,8 @@ class CentreModel:
 
 @dataclass(frozen=True, slots=True)
 class SpeciesModel:
+    """A species read as centres with their ligands, or why the model cannot read it."""
+
     centres: tuple[CentreModel, ...]
     outside_model: str | None = None
 

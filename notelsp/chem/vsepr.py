@@ -60,6 +60,8 @@ class SiteAngle:
 
 @dataclass(frozen=True, slots=True)
 class VseprResult:
+    """Steric number, electron-domain geometry, shape, textbook hybridization and site angles of one centre."""
+
     steric_number: int
     electron_geometry: str
     shape: str

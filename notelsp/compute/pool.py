@@ -47,6 +47,8 @@ class Request:
 
 @dataclass(slots=True)
 class _Job:
+    """One structure waiting to be optimised: which species, which of its structures, tries so far."""
+
     species: int  # index of the request
     slot: int  # index of the structure within it
     structure: Structure

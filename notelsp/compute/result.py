@@ -43,6 +43,8 @@ class Angle:
 
 @dataclass(frozen=True, slots=True)
 class Bond:
+    """One computed bond to a centre and its length."""
+
     atom: int  # index into symbols
     label: str  # the ligand as written (a molecule: the atom label)
     angstrom: float  # its distance from the centre (a molecule: from the atom ``centre``)

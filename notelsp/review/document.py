@@ -35,6 +35,8 @@ DocumentKind = Literal["markdown", "text"]
 
 @dataclass(frozen=True)
 class DocumentReview:
+    """One reviewed text: what the scanner found in it and the findings, in document order."""
+
     text: str
     scanned: ScannedDocument
     findings: tuple[Finding, ...]

@@ -24,6 +24,8 @@ MAX_GLOB_CHARS = 256  # matching costs (pattern length) × (path length) per fil
 
 @dataclass(frozen=True)
 class Settings:
+    """How one note (or workspace) is reviewed: tolerances, rule severities, what is switched on."""
+
     angle_tolerance: float = 5.0  # degrees allowed beyond a predicted range before an angle is flagged
     severities: tuple[tuple[str, Severity], ...] = ()  # per-rule overrides (a tuple keeps Settings hashable)
     disabled: frozenset[str] = frozenset()

@@ -49,6 +49,8 @@ WHOLE_MOLECULE = (PolarityClaim, PointGroupClaim, IsomerCountClaim, MagnetismCla
 
 @dataclass(frozen=True, slots=True)
 class Focus:
+    """A claim narrowed to the one centre it is about, or why it cannot be."""
+
     analyses: tuple[SpeciesAnalysis, ...]  # the first species narrowed to the claim's centre
     claim: Claim | None  # with atom names turned into the centre's ligand names
     problem: str | None = None  # why the claim cannot be placed on one centre

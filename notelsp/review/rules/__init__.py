@@ -35,6 +35,8 @@ AnyCheck = TypeVar("AnyCheck", Check, NoteCheck)
 
 @dataclass(frozen=True, slots=True)
 class Rule:
+    """One named rule: its code, doc, default severity, the claims it checks and the check itself."""
+
     code: str
     title: str
     doc: str
