@@ -12,6 +12,7 @@ from __future__ import annotations
 import os
 import stat
 from collections.abc import Callable
+from functools import lru_cache
 from pathlib import Path
 
 CACHE_FOLDER_NAME = "notelsp"
@@ -71,24 +72,20 @@ def write_whole(path: Path, data: bytes) -> bool:
                 pass
 
 
-def file_stamps(package: Path, parts: tuple[str, ...] = ("",)) -> list[str]:
-    """"path size mtime_ns" for every file of ``package``'s ``parts`` (folders walked in sorted order,
-    __pycache__ left out; "" is the whole package) and of the source tree's grammar beside it
-    (an editable install), paths relative to the package's parent; "path absent" for one missing.
+@lru_cache(maxsize=4)  # one package, walked once per process however many caches ask
+def file_stamps(package: Path) -> tuple[str, ...]:
+    """"path size mtime_ns" for every file of ``package`` (folders walked in sorted order, __pycache__
+    left out) and for the source tree's grammar beside it (an editable install), paths relative to the
+    package's parent ("notelsp/chem/vsepr.py"); "path absent" for the grammar when there is none.
 
     What a cache keyed by notelsp's own code compares: any edit, install or upgrade changes it.
     """
     stamps = []
-    for part in parts:
-        path = package / part if part else package
-        if not path.is_dir():
-            stamps.append(_stamp(path, package.parent))
-            continue
-        for folder, folders, names in os.walk(path):
-            folders[:] = sorted(f for f in folders if f != "__pycache__")
-            stamps.extend(_stamp(Path(folder, name), package.parent) for name in sorted(names))
+    for folder, folders, names in os.walk(package):
+        folders[:] = sorted(f for f in folders if f != "__pycache__")
+        stamps.extend(_stamp(Path(folder, name), package.parent) for name in sorted(names))
     stamps.append(_stamp(package.parent / "grammar" / "notation.lark", package.parent))
-    return stamps
+    return tuple(stamps)
 
 
 def _stamp(path: Path, base: Path) -> str:

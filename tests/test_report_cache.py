@@ -19,6 +19,7 @@ from pathlib import Path
 import pytest
 
 from notelsp import cli, report_cache
+from notelsp.user_cache import file_stamps
 from notelsp.cli import main
 from notelsp.review.settings import Settings
 
@@ -198,6 +199,7 @@ def test_the_code_fingerprint_follows_every_file_of_the_package(tmp_path, monkey
     package = Path(report_cache.__file__).resolve().parent
     before = report_cache.code_fingerprint()
     report_cache.code_fingerprint.cache_clear()
+    file_stamps.cache_clear()  # the walk is kept per process too
     demo = package / "demo" / "notebook.md"  # a data file, not code: the walk takes every file all the same
     status = demo.stat()
     try:
@@ -206,6 +208,7 @@ def test_the_code_fingerprint_follows_every_file_of_the_package(tmp_path, monkey
     finally:
         os.utime(demo, ns=(status.st_atime_ns, status.st_mtime_ns))
         report_cache.code_fingerprint.cache_clear()
+        file_stamps.cache_clear()
     assert report_cache.code_fingerprint() == before
 
 

@@ -60,7 +60,9 @@ def code_fingerprint() -> str:
     """Size and modification time of every file of the code that reads, analyses, builds and computes a
     species (``BUILDING_CODE``) and of the grammar, the Python version and the packages that build
     structures: what a species' structures follow from."""
-    seen = file_stamps(Path(__file__).resolve().parents[1], BUILDING_CODE)
+    package = Path(__file__).resolve().parents[1]
+    parts = tuple(f"{package.name}/{part}{'/' if '.' not in part else ' '}" for part in BUILDING_CODE)
+    seen = [stamp for stamp in file_stamps(package) if stamp.startswith((*parts, "grammar/"))]
     seen.append(sys.version)
     seen.extend(f"{name} {installed_version(name) or 'missing'}" for name in BUILDERS)
     return hashlib.sha256("\n".join(seen).encode()).hexdigest()

@@ -190,3 +190,31 @@ def test_a_species_is_asked_for_as_it_was_written(written):
 def test_a_worker_that_cannot_load_answers_as_geometry_failure_does():
     (start,) = start_structures(analyse(parse_formula("NH3")))
     assert geometry_from_dict(worker._failure(start.to_dict(), "why")) == failure(start, "why")
+
+
+def _touched_fingerprint(path) -> str:
+    """The species fingerprint with ``path``'s modification time moved on by 1 ns (restored after)."""
+    from notelsp.user_cache import file_stamps
+
+    status = path.stat()
+    try:
+        os.utime(path, ns=(status.st_atime_ns, status.st_mtime_ns + 1))
+        species_cache.code_fingerprint.cache_clear()
+        file_stamps.cache_clear()
+        return species_cache.code_fingerprint()
+    finally:
+        os.utime(path, ns=(status.st_atime_ns, status.st_mtime_ns))
+        species_cache.code_fingerprint.cache_clear()
+        file_stamps.cache_clear()
+
+
+def test_the_fingerprint_follows_the_chemistry_and_not_the_review():
+    from pathlib import Path
+
+    import notelsp
+
+    package = Path(notelsp.__file__).resolve().parent
+    before = species_cache.code_fingerprint()
+    assert _touched_fingerprint(package / "chem" / "vsepr.py") != before  # builds structures
+    assert _touched_fingerprint(package / "review" / "settings.py") == before  # only judges them
+    assert species_cache.code_fingerprint() == before
