@@ -12,7 +12,7 @@ RUNTIME_STAMP := $(VENV)/.installed-runtime
 NODE_CLIENT := tests/clients/node
 SARIF_VALIDATOR := tests/clients/sarif
 
-.PHONY: demo test bench fuzz clean node-client neovim sarif-validator emacs chromium
+.PHONY: demo test bench fuzz clean node-client neovim sarif-validator emacs chromium kate
 
 $(PY):
 	$(PYTHON) -m venv $(VENV)
@@ -30,7 +30,7 @@ $(STAMP): pyproject.toml setup.py | $(PY)
 demo: $(RUNTIME_STAMP)
 	$(VENV)/bin/notelsp demo --page demo-review.html
 
-test: $(STAMP) node-client neovim sarif-validator emacs chromium
+test: $(STAMP) node-client neovim sarif-validator emacs chromium kate
 	$(PY) -m pytest -q -ra
 
 # npm packages for two tests, pinned by their lock files: the Node.js LSP client's vscode-jsonrpc
@@ -87,3 +87,7 @@ emacs:
 # Headless Chromium for the review page's browser test.
 chromium:
 	$(call debian,command -v chromium,chromium,review page's browser test)
+
+# Kate (22.12 on Debian 12) and Xvfb for the Kate client test; recommends left out (desktop extras, dictionaries).
+kate:
+	$(call debian,command -v kate && command -v xvfb-run,--no-install-recommends kate xvfb,Kate client test)
