@@ -14,6 +14,7 @@ from __future__ import annotations
 
 import json
 import os
+import select
 import shutil
 import signal
 import subprocess
@@ -34,15 +35,15 @@ WAIT_SECONDS = 90  # a bound on a busy machine, not a measurement
 
 
 @pytest.fixture(scope="module")
-def kate() -> list[str]:
-    found = shutil.which("kate")
-    if found is None:
+def programs() -> tuple[str, str]:
+    kate = shutil.which("kate")
+    if kate is None:
         pytest.skip("kate is not installed and `make test` could not install it "
                     "(apt-get install -y --no-install-recommends kate xvfb)")
-    xvfb_run = shutil.which("xvfb-run")
-    if xvfb_run is None or shutil.which("Xvfb") is None:
-        pytest.skip("Xvfb (xvfb-run) is not installed: Kate needs a display (apt-get install -y xvfb)")
-    return [xvfb_run, "-a", found]
+    xvfb = shutil.which("Xvfb")
+    if xvfb is None:
+        pytest.skip("Xvfb is not installed: Kate needs a display (apt-get install -y --no-install-recommends xvfb)")
+    return kate, xvfb
 
 
 def kconfig_list(values: list[str]) -> str:
@@ -98,7 +99,10 @@ def read_log(log: Path) -> list[dict]:
 
 
 def settled(entries: list[dict], note_uri: str) -> dict | None:
-    """Diagnostics for the note published after the client's first pushed settings, once there are some."""
+    """The note's complete diagnostics published after the client's first pushed settings, once there are some.
+
+    A busy server may first publish part of a review, marked by a review-continues finding; the rest follows.
+    """
     pushed = next((i for i, e in enumerate(entries) if e["from"] == "client"
                    and e["message"].get("method") == "workspace/didChangeConfiguration"), None)
     if pushed is None:
@@ -106,7 +110,8 @@ def settled(entries: list[dict], note_uri: str) -> dict | None:
     for entry in entries[pushed + 1:]:
         message = entry["message"]
         if (entry["from"] == "server" and message.get("method") == "textDocument/publishDiagnostics"
-                and message["params"]["uri"] == note_uri and message["params"]["diagnostics"]):
+                and message["params"]["uri"] == note_uri and message["params"]["diagnostics"]
+                and all(d["code"] != "review-continues" for d in message["params"]["diagnostics"])):
             return message["params"]
     return None
 
@@ -128,10 +133,14 @@ def session_members(session: int) -> list[int]:
 
 
 def stop(process: subprocess.Popen) -> list[int]:
-    """Terminate the whole session started with ``process``; returns what is still alive afterwards."""
-    session = process.pid  # start_new_session: the session and group ids are its pid
-    for sig in (signal.SIGTERM, signal.SIGKILL):
-        for pid in session_members(session):
+    """End the session started with ``process`` (its leader): the leader first, then whatever remains.
+
+    Ending the leader alone first lets it stop and reap its own children (Kate its server); a parent
+    killed before its children would leave them to init. Returns what is still alive afterwards.
+    """
+    session = process.pid  # start_new_session: the session id is the leader's pid
+    for sig, leader_only in ((signal.SIGTERM, True), (signal.SIGTERM, False), (signal.SIGKILL, False)):
+        for pid in [session] if leader_only else session_members(session):
             try:
                 os.kill(pid, sig)
             except ProcessLookupError:
@@ -148,10 +157,35 @@ def stop(process: subprocess.Popen) -> list[int]:
     return session_members(session)
 
 
-def test_kate_pushes_its_settings_and_shows_the_server_s_diagnostics(kate, tmp_path):
+def start_display(xvfb: str, output: Path) -> tuple[subprocess.Popen, str]:
+    """A private X server; it picks a free display number itself and writes it to a pipe (-displayfd)."""
+    read_end, write_end = os.pipe()
+    with output.open("wb") as sink:
+        server = subprocess.Popen([xvfb, "-displayfd", str(write_end), "-nolisten", "tcp", "-screen", "0", "1280x800x24"],
+                                  pass_fds=(write_end,), start_new_session=True,
+                                  stdin=subprocess.DEVNULL, stdout=sink, stderr=subprocess.STDOUT)
+    os.close(write_end)
+    number = b""
+    try:
+        deadline = time.monotonic() + 30
+        while not number.endswith(b"\n"):
+            ready, _, _ = select.select([read_end], [], [], max(0.0, deadline - time.monotonic()))
+            chunk = os.read(read_end, 16) if ready else b""
+            if not chunk:
+                stop(server)
+                raise AssertionError(f"Xvfb gave no display number:\n{output.read_text(errors='replace')[-2000:]}")
+            number += chunk
+    finally:
+        os.close(read_end)
+    return server, f":{number.decode().strip()}"
+
+
+@pytest.mark.parametrize("name", ["note.md", "note.txt"])  # settings.json's two servers: Markdown and None modes
+def test_kate_pushes_its_settings_and_shows_the_server_s_diagnostics(programs, tmp_path, name):
+    kate, xvfb = programs
     folder = tmp_path / "notes"
     folder.mkdir()
-    note = folder / "note.md"
+    note = folder / name
     note.write_text(NOTE)
     # Found by rootIndicationFileNames (else Kate takes $HOME as the root); its choice for the rule
     # that stays on must survive the editor's section pushed over it.
@@ -159,21 +193,23 @@ def test_kate_pushes_its_settings_and_shows_the_server_s_diagnostics(kate, tmp_p
     log = tmp_path / "lsp.log"
     env, settings = configure(tmp_path, log)
 
-    kate_output = tmp_path / "kate.out"  # a file, not a pipe: Kate's chatter must never block it
-    with kate_output.open("wb") as sink:
-        process = subprocess.Popen([*kate, "-n", str(note)], env=env, cwd=tmp_path, start_new_session=True,
-                                   stdin=subprocess.DEVNULL, stdout=sink, stderr=subprocess.STDOUT)
+    kate_output = tmp_path / "kate.out"  # files, not pipes: Kate's and Xvfb's chatter must never block them
+    x_server, env["DISPLAY"] = start_display(xvfb, tmp_path / "xvfb.out")
+    editor = None
+    result = None
     try:
+        with kate_output.open("wb") as sink:
+            editor = subprocess.Popen([kate, "-n", str(note)], env=env, cwd=tmp_path, start_new_session=True,
+                                      stdin=subprocess.DEVNULL, stdout=sink, stderr=subprocess.STDOUT)
         deadline = time.monotonic() + WAIT_SECONDS
-        result = None
-        while result is None and time.monotonic() < deadline and process.poll() is None:
+        while result is None and time.monotonic() < deadline and editor.poll() is None:
             time.sleep(0.25)
             entries = read_log(log)
             opened = [e["message"]["params"]["textDocument"]["uri"] for e in entries
                       if e["message"].get("method") == "textDocument/didOpen"]
             result = settled(entries, opened[0]) if opened else None
     finally:
-        left = stop(process)
+        left = (stop(editor) if editor is not None else []) + stop(x_server)
     output = kate_output.read_text(encoding="utf-8", errors="replace")
     assert not left, f"processes left behind: {left}"
 
@@ -186,9 +222,10 @@ def test_kate_pushes_its_settings_and_shows_the_server_s_diagnostics(kate, tmp_p
     assert not client[0]["params"]["capabilities"].get("workspace", {}).get("configuration")
     assert Path(client[0]["params"]["rootPath"]) == folder  # the folder holding .notelsp.toml
     pushes = [m for m in client if m.get("method") == "workspace/didChangeConfiguration"]
-    assert pushes[0]["params"]["settings"] == settings["servers"]["markdown"]["settings"]
+    server_entry = "markdown" if note.suffix == ".md" else "plaintext"  # also the languageId Kate sends
+    assert pushes[0]["params"]["settings"] == settings["servers"][server_entry]["settings"]
     opened = [m["params"]["textDocument"] for m in client if m.get("method") == "textDocument/didOpen"]
-    assert [(d["uri"], d["languageId"], d["text"]) for d in opened] == [(note.as_uri(), "markdown", NOTE)]
+    assert [(d["uri"], d["languageId"], d["text"]) for d in opened] == [(note.as_uri(), server_entry, NOTE)]
 
     by_code = {d["code"]: d for d in result["diagnostics"]}
     assert SHOWN in by_code and DISABLED not in by_code, result
