@@ -90,4 +90,4 @@ chromium:
 
 # Kate (22.12 on Debian 12) and Xvfb for the Kate client test; recommends left out (desktop extras, dictionaries).
 kate:
-	$(call debian,command -v kate && command -v xvfb-run,--no-install-recommends kate xvfb,Kate client test)
+	$(call debian,command -v kate && command -v Xvfb,--no-install-recommends kate xvfb,Kate client test)
