@@ -1,4 +1,4 @@
-"""Kate (Debian 12: 22.12) under Xvfb with its LSP Client plugin and editors/kate/settings.json, against the real server.
+"""Kate 22.12 (Debian 12) under Xvfb, LSP Client plugin on, editors/kate/settings.json, against the real server.
 
 Kate is started with a private home and configuration; the server command of settings.json is
 replaced by tests/server/kate/lsp_tee.py in front of `python -m notelsp serve`, which logs every
@@ -161,8 +161,8 @@ def start_display(xvfb: str, output: Path) -> tuple[subprocess.Popen, str]:
     """A private X server; it picks a free display number itself and writes it to a pipe (-displayfd)."""
     read_end, write_end = os.pipe()
     with output.open("wb") as sink:
-        server = subprocess.Popen([xvfb, "-displayfd", str(write_end), "-nolisten", "tcp", "-screen", "0", "1280x800x24"],
-                                  pass_fds=(write_end,), start_new_session=True,
+        server = subprocess.Popen([xvfb, "-displayfd", str(write_end), "-nolisten", "tcp",
+                                   "-screen", "0", "1280x800x24"], pass_fds=(write_end,), start_new_session=True,
                                   stdin=subprocess.DEVNULL, stdout=sink, stderr=subprocess.STDOUT)
     os.close(write_end)
     number = b""
